@@ -1,0 +1,44 @@
+// Demo data: an invented scenario (Cobalt Hills School District, Wrenfield Middle School
+// and its people). Every demo account's password is `tiltwright-demo`.
+import mysql from 'mysql2/promise'
+import { drizzle } from 'drizzle-orm/mysql2'
+import { count } from 'drizzle-orm'
+import { Hash } from '@adonisjs/hash'
+import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
+import * as schema from '../server/database/schema'
+
+export const DEMO_PASSWORD = 'tiltwright-demo'
+
+export const DEMO_ACCOUNTS = [
+  { email: 'teacher@tiltwright.test', name: 'Dana Ferrow', role: 'teacher' },
+  { email: 'builder@tiltwright.test', name: 'Jonah Pell', role: 'builder' },
+  { email: 'support@tiltwright.test', name: 'Ruth Okafor-Lane', role: 'support' },
+  { email: 'admin@tiltwright.test', name: 'Marcus Teel', role: 'admin' },
+] as const
+
+/** Seeds the demo scenario when the database has no users yet; returns whether it did. */
+export async function seedDemo(url: string): Promise<boolean> {
+  const conn = await mysql.createConnection({ uri: url })
+  try {
+    const db = drizzle(conn, { schema, mode: 'default' })
+    const [existing] = await db.select({ n: count() }).from(schema.users)
+    if (existing && existing.n > 0) return false
+    // The same scrypt driver and defaults that nuxt-auth-utils' hashPassword uses.
+    const hasher = new Hash(new Scrypt({}))
+    const passwordHash = await hasher.make(DEMO_PASSWORD)
+    await db.transaction(async (tx) => {
+      const [school] = await tx.insert(schema.schools).values({
+        name: 'Wrenfield Middle School', district: 'Cobalt Hills School District',
+        addressLine1: '48 Orchard Terrace', city: 'Bramley Falls', region: 'OR', postalCode: '97999', country: 'US',
+        taxExemption: 'accepted',
+      }).$returningId()
+      for (const a of DEMO_ACCOUNTS) {
+        const customer = a.role === 'teacher' || a.role === 'builder'
+        await tx.insert(schema.users).values({ ...a, passwordHash, schoolId: customer ? school!.id : null, verifiedAt: new Date() })
+      }
+    })
+    return true
+  } finally {
+    await conn.end()
+  }
+}

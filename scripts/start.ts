@@ -1,0 +1,98 @@
+// `npm start` (built app), `npm run dev` (Nuxt dev server) and `npm run db:start`:
+// make sure the private MariaDB is there and migrated, seed the demo data when the
+// database is empty, start the fake SMTP server, then the app. Ctrl-C or SIGTERM stops
+// everything this script started, the database included.
+import { spawn, spawnSync, type ChildProcess } from 'node:child_process'
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs'
+import { randomBytes } from 'node:crypto'
+import { resolve } from 'node:path'
+import { createConnection } from 'node:net'
+import { instance, projectRoot, startMariaDb, type Started } from './lib/mariadb'
+import { migrateDatabase } from './lib/migrate'
+import { seedDemo } from './seed'
+import { startMailCatcher, type Catcher } from './mail-catcher'
+
+const dev = process.argv.includes('--dev')
+const dbOnly = process.argv.includes('--db-only')
+const port = Number(process.env.PORT || 3000)
+const smtpPort = Number(process.env.TILTWRIGHT_SMTP_PORT || 1025)
+const mailHttpPort = Number(process.env.TILTWRIGHT_MAIL_HTTP_PORT || 1080)
+const dbPort = Number(process.env.TILTWRIGHT_DB_PORT || 3406)
+
+function portInUse(p: number) {
+  return new Promise<boolean>((ok) => {
+    const s = createConnection({ host: '127.0.0.1', port: p })
+    s.once('connect', () => { s.destroy(); ok(true) })
+    s.once('error', () => ok(false))
+  })
+}
+
+function sessionSecret() {
+  if (process.env.NUXT_SESSION_PASSWORD && process.env.NUXT_SESSION_PASSWORD.length >= 32) return process.env.NUXT_SESSION_PASSWORD
+  const file = resolve(projectRoot, 'data', 'session-secret')
+  if (!existsSync(file)) writeFileSync(file, randomBytes(32).toString('hex'), { mode: 0o600 })
+  return readFileSync(file, 'utf8').trim()
+}
+
+let db: Started | undefined
+let catcher: Catcher | undefined
+let app: ChildProcess | undefined
+let stopping = false
+
+async function stop(code = 0) {
+  if (stopping) return
+  stopping = true
+  console.log('\n[tiltwright] stopping…')
+  if (app && app.exitCode === null) {
+    app.kill('SIGTERM')
+    await new Promise((r) => { const t = setTimeout(r, 8000); app!.once('exit', () => { clearTimeout(t); r(null) }) })
+  }
+  await catcher?.close()
+  if (db?.startedHere) { db.stop(); console.log('[tiltwright] database stopped') }
+  process.exit(code)
+}
+process.on('SIGINT', () => void stop(0))
+process.on('SIGTERM', () => void stop(0))
+
+async function main() {
+  mkdirSync(resolve(projectRoot, 'data'), { recursive: true })
+  const target = instance('dev', dbPort, 'tiltwright')
+  db = await startMariaDb(target)
+  console.log(`[tiltwright] MariaDB ${db.startedHere ? 'started' : 'already running'} on 127.0.0.1:${dbPort} (data in data/mariadb-dev)`)
+  await migrateDatabase(target.url)
+  console.log('[tiltwright] migrations applied')
+  if (await seedDemo(target.url)) console.log('[tiltwright] demo data seeded (password for every demo account: tiltwright-demo)')
+  if (dbOnly) {
+    console.log(`[tiltwright] database ready at ${target.url.replace(/:[^:@]*@/, ':***@')}; Ctrl-C stops it`)
+    setInterval(() => {}, 1 << 30)
+    return
+  }
+  if (await portInUse(smtpPort)) console.log(`[tiltwright] something already listens on ${smtpPort}; using it as the SMTP server`)
+  else {
+    catcher = await startMailCatcher({ smtpPort, httpPort: mailHttpPort, name: 'dev' })
+    console.log(`[tiltwright] fake SMTP on 127.0.0.1:${smtpPort}; caught mail at http://127.0.0.1:${mailHttpPort}/`)
+  }
+  const env = {
+    ...process.env,
+    PORT: String(port),
+    NUXT_DATABASE_URL: target.url,
+    NUXT_SMTP_HOST: '127.0.0.1',
+    NUXT_SMTP_PORT: String(smtpPort),
+    NUXT_MAIL_CATCHER_URL: `http://127.0.0.1:${mailHttpPort}`,
+    NUXT_PUBLIC_URL: process.env.NUXT_PUBLIC_URL || `http://localhost:${port}`,
+    NUXT_SESSION_PASSWORD: sessionSecret(),
+  }
+  const nuxt = resolve(projectRoot, 'node_modules/.bin/nuxt')
+  if (dev) {
+    app = spawn(nuxt, ['dev', '--port', String(port)], { stdio: 'inherit', env, cwd: projectRoot })
+  } else {
+    console.log('[tiltwright] building the app (about 30 s)…')
+    const build = spawnSync(nuxt, ['build'], { stdio: 'inherit', env, cwd: projectRoot })
+    if (build.status !== 0) throw new Error('nuxt build failed')
+    app = spawn(process.execPath, ['.output/server/index.mjs'], { stdio: 'inherit', env, cwd: projectRoot })
+    console.log(`[tiltwright] Tiltwright is at http://localhost:${port} — sign in as teacher@tiltwright.test (or builder@, support@, admin@) with tiltwright-demo`)
+  }
+  app.once('exit', (code) => { if (!stopping) { console.log(`[tiltwright] the app exited (${code})`); void stop(code ?? 1) } })
+}
+
+main().catch((e) => { console.error(`[tiltwright] ${e instanceof Error ? e.message : e}`); void stop(1) })

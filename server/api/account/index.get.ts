@@ -1,0 +1,8 @@
+import { eq } from 'drizzle-orm'
+import { schools } from '../../database/schema'
+
+export default defineEventHandler(async (event) => {
+  const user = await requireUser(event)
+  const [school] = user.schoolId ? await useDb().select().from(schools).where(eq(schools.id, user.schoolId)).limit(1) : []
+  return { user, school: school ?? null }
+})

@@ -1,0 +1,12 @@
+import { eq } from 'drizzle-orm'
+import { accountSchema } from '../../../shared/schemas/auth'
+import { users } from '../../database/schema'
+
+export default defineEventHandler(async (event) => {
+  const user = await requireUser(event)
+  const { name } = await readBodyAs(event, accountSchema)
+  await useDb().update(users).set({ name }).where(eq(users.id, user.id))
+  const updated = { ...user, name }
+  await signIn(event, updated)
+  return { user: updated }
+})

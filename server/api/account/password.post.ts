@@ -1,0 +1,21 @@
+import { eq } from 'drizzle-orm'
+import { changePasswordSchema } from '../../../shared/schemas/auth'
+import { users } from '../../database/schema'
+import { passwordChangedMail } from '../../emails/account'
+
+export default defineEventHandler(async (event) => {
+  const user = await requireUser(event)
+  const { currentPassword, newPassword } = await readBodyAs(event, changePasswordSchema)
+  const db = useDb()
+  const [row] = await db.select().from(users).where(eq(users.id, user.id)).limit(1)
+  if (!row || !(await verifyPassword(row.passwordHash, currentPassword))) {
+    throw invalid({ currentPassword: 'That is not your current password.' })
+  }
+  const passwordHash = await hashPassword(newPassword)
+  await db.transaction(async (tx) => {
+    await tx.update(users).set({ passwordHash }).where(eq(users.id, user.id))
+    await enqueueMail(tx, 'password-changed', user.email, passwordChangedMail(user.name))
+    await audit(tx, { actorId: user.id, action: 'account.password-changed', subjectType: 'user', subjectId: user.id })
+  })
+  return { ok: true }
+})

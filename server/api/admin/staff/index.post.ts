@@ -1,0 +1,23 @@
+// An admin adds a support or admin colleague. They get a link to choose their password.
+import { randomBytes } from 'node:crypto'
+import { createStaffSchema } from '../../../../shared/schemas/staff'
+import { users } from '../../../database/schema'
+
+export default defineEventHandler(async (event) => {
+  const admin = await requireRole(event, 'admin')
+  const input = await readBodyAs(event, createStaffSchema)
+  const passwordHash = await hashPassword(randomBytes(24).toString('base64url'))
+  try {
+    const id = await useDb().transaction(async (tx) => {
+      const [row] = await tx.insert(users).values({ ...input, passwordHash, verifiedAt: null }).$returningId()
+      await sendPasswordReset(tx, { id: row!.id, name: input.name, email: input.email })
+      await audit(tx, { actorId: admin.id, action: 'staff.created', subjectType: 'user', subjectId: row!.id, detail: { role: input.role } })
+      return row!.id
+    })
+    setResponseStatus(event, 201)
+    return { id }
+  } catch (e) {
+    if (isDuplicateKey(e)) throw conflict('Someone already uses that e-mail address.', 'email-taken', { email: 'Someone already uses that e-mail address.' })
+    throw e
+  }
+})

@@ -1,0 +1,55 @@
+// Zod schemas shared by the sign-in pages and the auth routes: one rule, both sides.
+import { z } from 'zod'
+
+const email = z.string({ error: 'Enter your e-mail address.' }).trim().toLowerCase()
+  .min(1, 'Enter your e-mail address.').max(254, 'That e-mail address is too long.')
+  .pipe(z.email({ error: 'That does not look like an e-mail address.' }))
+
+export const passwordRule = z.string({ error: 'Enter a password.' })
+  .min(10, 'Use at least 10 characters.').max(200, 'Use at most 200 characters.')
+
+const text = (label: string, max: number) => z.string({ error: `Enter ${label}.` }).trim()
+  .min(1, `Enter ${label}.`).max(max, `Keep ${label} under ${max + 1} characters.`)
+const optionalText = (label: string, max: number) => z.string().trim()
+  .max(max, `Keep ${label} under ${max + 1} characters.`).optional().transform((v) => v || undefined)
+
+export const schoolSchema = z.object({
+  name: text('the school name', 160),
+  district: optionalText('the district', 160),
+  addressLine1: text('the street address', 160),
+  addressLine2: optionalText('the second address line', 160),
+  city: text('the city', 100),
+  region: text('the state or region', 100),
+  postalCode: z.string({ error: 'Enter the postal code.' }).trim().min(3, 'Enter the postal code.').max(20, 'That postal code is too long.'),
+  country: z.string().trim().length(2, 'Use the two-letter country code, e.g. US.').toUpperCase().default('US'),
+})
+
+export const registerSchema = z.object({
+  name: text('your name', 120),
+  email,
+  password: passwordRule,
+  school: schoolSchema,
+})
+
+export const loginSchema = z.object({
+  email,
+  password: z.string({ error: 'Enter your password.' }).min(1, 'Enter your password.').max(200, 'That password is too long.'),
+})
+
+export const forgotPasswordSchema = z.object({ email })
+
+export const tokenSchema = z.string({ error: 'The link is incomplete.' }).regex(/^[A-Za-z0-9_-]{20,100}$/, 'The link is incomplete or has been altered.')
+
+export const verifyEmailSchema = z.object({ token: tokenSchema })
+
+export const resetPasswordSchema = z.object({ token: tokenSchema, password: passwordRule })
+
+export const changePasswordSchema = z.object({
+  currentPassword: z.string({ error: 'Enter your current password.' }).min(1, 'Enter your current password.').max(200, 'That password is too long.'),
+  newPassword: passwordRule,
+}).refine((v) => v.currentPassword !== v.newPassword, { path: ['newPassword'], message: 'Choose a password different from the current one.' })
+
+export const accountSchema = z.object({ name: text('your name', 120) })
+
+export type RegisterInput = z.input<typeof registerSchema>
+export type LoginInput = z.input<typeof loginSchema>

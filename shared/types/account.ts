@@ -1,0 +1,8 @@
+import type { SessionUser } from '../utils/roles'
+
+export interface SchoolView {
+  id: number; name: string; district: string | null; addressLine1: string; addressLine2: string | null
+  city: string; region: string; postalCode: string; country: string; taxExemption: 'none' | 'pending' | 'accepted' | 'rejected'
+}
+
+export interface AccountReply { user: SessionUser; school: SchoolView | null }

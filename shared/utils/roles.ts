@@ -1,0 +1,45 @@
+// Roles and the named authorization rules that both the routes and the pages use.
+// The server is the gate; pages call these only to hide what a role cannot use.
+export const ROLES = ['teacher', 'builder', 'support', 'admin'] as const
+export type Role = (typeof ROLES)[number]
+
+export interface SessionUser {
+  id: number
+  email: string
+  name: string
+  role: Role
+  schoolId: number | null
+  verified: boolean
+}
+
+type Who = Pick<SessionUser, 'role'> | null | undefined
+
+export const isStaff = (u: Who) => u?.role === 'support' || u?.role === 'admin'
+export const isAdmin = (u: Who) => u?.role === 'admin'
+export const isCustomer = (u: Who) => u?.role === 'teacher' || u?.role === 'builder'
+
+/** Teachers buy; builders never see prices, payments or invoices. */
+export const canBuy = (u: Who) => u?.role === 'teacher'
+export const canUseHelpQueue = isStaff
+export const canManageCatalog = isAdmin
+export const canManageStaff = isAdmin
+/** The caught-mail viewer exists only while the local fakes are on, and only for staff. */
+export const canReadCaughtMail = isStaff
+
+export const ROLE_LABELS: Record<Role, string> = {
+  teacher: 'Teacher',
+  builder: 'Builder',
+  support: 'Support',
+  admin: 'Admin',
+}
+
+export interface NavLink { to: string; label: string }
+
+/** The header's links for a role (anonymous visitors get the public ones). */
+export function navigationFor(u: Who): NavLink[] {
+  const links: NavLink[] = [{ to: '/planner', label: 'Gain Planner' }, { to: '/safety', label: 'Safety' }]
+  if (!u) return links
+  if (isStaff(u)) links.push({ to: '/staff', label: 'Staff desk' })
+  if (isAdmin(u)) links.push({ to: '/admin/staff', label: 'Staff accounts' })
+  return links
+}

@@ -1,0 +1,60 @@
+// Role checks on the server: anonymous callers get 401, wrong roles 403 (or 404 where
+// existence must not leak), the right role gets through.
+import { describe, expect, it } from 'vitest'
+import { Client, uniqueEmail } from '../helpers/client'
+
+async function as(role: string) {
+  const c = new Client()
+  await c.signIn(`${role}@tiltwright.test`)
+  return c
+}
+
+describe('role checks', () => {
+  it('answers 401 to anonymous calls on protected routes', async () => {
+    const c = new Client()
+    for (const path of ['/api/account', '/api/admin/staff', '/api/staff/mail']) expect((await c.get(path)).status).toBe(401)
+    expect((await c.post('/api/admin/staff', { name: 'X', email: 'x@y.test', role: 'support' })).status).toBe(401)
+  })
+
+  it('lets only admins list and add staff', async () => {
+    for (const role of ['teacher', 'builder', 'support']) {
+      const c = await as(role)
+      expect((await c.get('/api/admin/staff')).status).toBe(403)
+      expect((await c.post('/api/admin/staff', { name: 'Sneaky', email: uniqueEmail('sneak'), role: 'admin' })).status).toBe(403)
+    }
+    const admin = await as('admin')
+    const list = await admin.get('/api/admin/staff?sort=email&dir=desc')
+    expect(list.status).toBe(200)
+    expect(list.body.meta.total).toBeGreaterThanOrEqual(2)
+    expect(list.body.data.map((u: any) => u.role).every((r: string) => r === 'support' || r === 'admin')).toBe(true)
+    const emails = list.body.data.map((u: any) => u.email)
+    expect(emails).toEqual([...emails].sort().reverse())
+  })
+
+  it('validates list queries instead of passing a free string to ORDER BY', async () => {
+    const admin = await as('admin')
+    const r = await admin.get('/api/admin/staff?sort=password_hash&page=0')
+    expect(r.status).toBe(422)
+    expect(r.body.data.fields.sort).toMatch(/Sort by one of/)
+    expect(r.body.data.fields.page).toMatch(/start at 1/)
+  })
+
+  it('adds a support colleague who receives a link to choose a password', async () => {
+    const admin = await as('admin')
+    const email = uniqueEmail('colleague')
+    const r = await admin.post('/api/admin/staff', { name: 'New Colleague', email, role: 'support' })
+    expect(r.status).toBe(201)
+    expect(typeof r.body.id).toBe('number')
+    const dup = await admin.post('/api/admin/staff', { name: 'Twice', email, role: 'support' })
+    expect(dup.status).toBe(409)
+    expect(dup.body.data.fields.email).toBeDefined()
+  })
+
+  it('shows caught mail to staff only', async () => {
+    expect((await (await as('teacher')).get('/api/staff/mail')).status).toBe(403)
+    const support = await as('support')
+    const r = await support.get('/api/staff/mail')
+    expect(r.status).toBe(200)
+    expect(Array.isArray(r.body.data)).toBe(true)
+  })
+})

@@ -1,0 +1,90 @@
+// A person's view of the shell: signing in through the page, the role's navigation,
+// field errors tied to their inputs, and an automated accessibility check.
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { Browser } from 'playwright-core'
+import { accessibilityViolations, launch, signInThroughPage, url } from '../helpers/browser'
+
+let browser: Browser
+beforeAll(async () => { browser = await launch() })
+afterAll(async () => { await browser?.close() })
+
+const navFor: Record<string, { has: string[]; lacks: string[] }> = {
+  teacher: { has: ['Gain Planner'], lacks: ['Staff desk', 'Staff accounts'] },
+  builder: { has: ['Gain Planner'], lacks: ['Staff desk', 'Staff accounts'] },
+  support: { has: ['Staff desk'], lacks: ['Staff accounts'] },
+  admin: { has: ['Staff desk', 'Staff accounts'], lacks: [] },
+}
+
+describe('signing in through the page', () => {
+  for (const [role, nav] of Object.entries(navFor)) {
+    it(`shows the ${role} their name, role and navigation`, async () => {
+      const context = await browser.newContext()
+      const page = await context.newPage()
+      await signInThroughPage(page, `${role}@tiltwright.test`)
+      const main = page.getByRole('navigation', { name: 'Main' })
+      await expect(main.getByTestId('account-link').textContent()).resolves.toMatch(new RegExp(role, 'i'))
+      for (const label of nav.has) expect(await main.getByRole('link', { name: label, exact: true }).count()).toBe(1)
+      for (const label of nav.lacks) expect(await main.getByRole('link', { name: label, exact: true }).count()).toBe(0)
+      await context.close()
+    })
+  }
+
+  it('keeps what was typed and ties the error to the field on a wrong password', async () => {
+    const page = await browser.newPage()
+    await page.goto(url('/login'))
+    await page.getByLabel('E-mail').fill('teacher@tiltwright.test')
+    await page.getByLabel('Password').fill('wrong-password')
+    await page.getByRole('button', { name: 'Sign in' }).click()
+    const error = page.locator('#password-error')
+    await error.waitFor()
+    expect(await error.textContent()).toMatch(/do not match/)
+    expect(await page.getByLabel('Password').getAttribute('aria-describedby')).toContain('password-error')
+    expect(await page.getByLabel('E-mail').inputValue()).toBe('teacher@tiltwright.test')
+    await page.close()
+  })
+
+  it('shows field errors on the registration form before anything is sent', async () => {
+    const page = await browser.newPage()
+    await page.goto(url('/register'))
+    await page.getByRole('button', { name: 'Open the account' }).click()
+    await page.locator('#name-error').waitFor()
+    expect(await page.locator('#school-city-error').textContent()).toBe('Enter the city.')
+    expect(await page.getByLabel('Your name').getAttribute('aria-invalid')).toBe('true')
+    await page.close()
+  })
+
+  it('lets a keyboard user reach the sign-in form', async () => {
+    const page = await browser.newPage()
+    await page.goto(url('/login'))
+    await page.getByLabel('E-mail').focus()
+    await page.keyboard.type('admin@tiltwright.test')
+    await page.keyboard.press('Tab')
+    await page.keyboard.type('tiltwright-demo')
+    await page.keyboard.press('Enter')
+    await page.waitForURL((u) => u.pathname === '/')
+    expect(await page.getByTestId('account-link').textContent()).toMatch(/admin/i)
+    await page.close()
+  })
+})
+
+describe('accessibility (axe-core, WCAG 2.1 A/AA, serious and critical)', () => {
+  for (const path of ['/', '/login', '/register', '/forgot-password', '/safety']) {
+    it(`finds no serious violations on ${path}`, async () => {
+      const page = await browser.newPage()
+      await page.goto(url(path))
+      expect(await accessibilityViolations(page)).toEqual([])
+      await page.close()
+    })
+  }
+
+  it('finds no serious violations on the signed-in account and staff pages', async () => {
+    const page = await browser.newPage()
+    await signInThroughPage(page, 'admin@tiltwright.test')
+    for (const path of ['/account', '/staff', '/admin/staff']) {
+      await page.goto(url(path))
+      await page.locator('h1').first().waitFor()
+      expect({ path, violations: await accessibilityViolations(page) }).toEqual({ path, violations: [] })
+    }
+    await page.close()
+  })
+})

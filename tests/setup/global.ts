@@ -1,0 +1,70 @@
+// Starts, once for the whole `server` project: a fresh test MariaDB (its own data folder
+// and port, never the demo data), the fake SMTP server, and one production build of the
+// app. Every API and browser test file talks to that one server.
+import { spawn, spawnSync, type ChildProcess } from 'node:child_process'
+import { randomBytes } from 'node:crypto'
+import { resolve } from 'node:path'
+import type { TestProject } from 'vitest/node'
+import { instance, projectRoot, startMariaDb } from '../../scripts/lib/mariadb'
+import { migrateDatabase } from '../../scripts/lib/migrate'
+import { seedDemo } from '../../scripts/seed'
+import { startMailCatcher } from '../../scripts/mail-catcher'
+import { ensureDebianPackage } from '../../scripts/lib/system'
+
+const APP_PORT = 3417
+const SMTP_PORT = 2525
+const MAIL_HTTP_PORT = 2580
+
+declare module 'vitest' {
+  export interface ProvidedContext { baseUrl: string; mailUrl: string; dbUrl: string; chromium: string }
+}
+
+export default async function setup(project: TestProject) {
+  const chromium = ensureDebianPackage('chromium', 'chromium', 'the browser tests drive Debian\'s Chromium')
+  const db = await startMariaDb(instance('test', 3407, 'tiltwright_test'), { fresh: true })
+  await migrateDatabase(db.db.url)
+  await seedDemo(db.db.url)
+  const catcher = await startMailCatcher({ smtpPort: SMTP_PORT, httpPort: MAIL_HTTP_PORT, name: 'test', quiet: true })
+  await fetch(`http://127.0.0.1:${MAIL_HTTP_PORT}/messages`, { method: 'DELETE' })
+
+  const buildEnv = { ...process.env, TILTWRIGHT_BUILD_DIR: '.nuxt-test', TILTWRIGHT_OUTPUT_DIR: '.output-test' }
+  const build = spawnSync(resolve(projectRoot, 'node_modules/.bin/nuxt'), ['build'], { cwd: projectRoot, env: buildEnv, encoding: 'utf8' })
+  if (build.status !== 0) throw new Error(`nuxt build failed:\n${build.stdout}\n${build.stderr}`)
+
+  const baseUrl = `http://localhost:${APP_PORT}`
+  const app: ChildProcess = spawn(process.execPath, [resolve(projectRoot, '.output-test/server/index.mjs')], {
+    cwd: projectRoot,
+    env: {
+      ...process.env, PORT: String(APP_PORT), HOST: '127.0.0.1', NODE_ENV: 'production',
+      NUXT_DATABASE_URL: db.db.url, NUXT_SMTP_HOST: '127.0.0.1', NUXT_SMTP_PORT: String(SMTP_PORT),
+      NUXT_MAIL_CATCHER_URL: `http://127.0.0.1:${MAIL_HTTP_PORT}`, NUXT_PUBLIC_URL: baseUrl,
+      NUXT_SESSION_PASSWORD: randomBytes(32).toString('hex'),
+    },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  })
+  let log = ''
+  app.stdout!.on('data', (d) => { log += d })
+  app.stderr!.on('data', (d) => { log += d })
+  const deadline = Date.now() + 60_000
+  for (;;) {
+    if (app.exitCode !== null) throw new Error(`the app exited during start-up:\n${log}`)
+    try {
+      if ((await fetch(`${baseUrl}/api/_auth/session`)).ok) break
+    } catch { /* not up yet */ }
+    if (Date.now() > deadline) throw new Error(`the app did not answer within 60 s:\n${log}`)
+    await new Promise((r) => setTimeout(r, 250))
+  }
+
+  project.provide('baseUrl', baseUrl)
+  project.provide('mailUrl', `http://127.0.0.1:${MAIL_HTTP_PORT}`)
+  project.provide('dbUrl', db.db.url)
+  project.provide('chromium', chromium)
+
+  return async () => {
+    app.kill('SIGTERM')
+    await new Promise((r) => { const t = setTimeout(r, 5000); app.once('exit', () => { clearTimeout(t); r(null) }) })
+    if (/\[request error\]|\[unhandled\]/.test(log)) console.warn(`[tests] the app logged errors during the run:\n${log.slice(-4000)}`)
+    await catcher.close()
+    db.stop()
+  }
+}
