@@ -20,7 +20,7 @@ export interface DbInstance {
 
 export const projectRoot = resolve(import.meta.dirname, '..', '..')
 
-export function instance(name: 'dev' | 'test', port: number, database: string): DbInstance {
+export function instance(name: string, port: number, database: string): DbInstance {
   const dataDir = resolve(projectRoot, 'data', `mariadb-${name}`)
   // mariadbd aborts on a socket path over 107 bytes; deep checkouts fall back to /tmp.
   let socket = resolve(projectRoot, 'data', `mariadb-${name}.sock`)

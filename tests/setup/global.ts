@@ -11,9 +11,14 @@ import { seedDemo } from '../../scripts/seed'
 import { startMailCatcher } from '../../scripts/mail-catcher'
 import { ensureDebianPackage } from '../../scripts/lib/system'
 
-const APP_PORT = 3417
-const SMTP_PORT = 2525
-const MAIL_HTTP_PORT = 2580
+// TILTWRIGHT_TEST_SLOT lets two suites run side by side on one machine (each slot has its
+// own ports, data folder and build folders).
+const SLOT = Number(process.env.TILTWRIGHT_TEST_SLOT || 0)
+const APP_PORT = 3417 + SLOT * 10
+const SMTP_PORT = 2525 + SLOT * 10
+const MAIL_HTTP_PORT = 2580 + SLOT * 10
+const DB_PORT = 3407 + SLOT * 10
+const SUFFIX = SLOT ? String(SLOT) : ''
 
 declare module 'vitest' {
   export interface ProvidedContext { baseUrl: string; mailUrl: string; dbUrl: string; chromium: string }
@@ -21,18 +26,18 @@ declare module 'vitest' {
 
 export default async function setup(project: TestProject) {
   const chromium = ensureDebianPackage('chromium', 'chromium', 'the browser tests drive Debian\'s Chromium')
-  const db = await startMariaDb(instance('test', 3407, 'tiltwright_test'), { fresh: true })
+  const db = await startMariaDb(instance(`test${SUFFIX}`, DB_PORT, 'tiltwright_test'), { fresh: true })
   await migrateDatabase(db.db.url)
   await seedDemo(db.db.url)
-  const catcher = await startMailCatcher({ smtpPort: SMTP_PORT, httpPort: MAIL_HTTP_PORT, name: 'test', quiet: true })
+  const catcher = await startMailCatcher({ smtpPort: SMTP_PORT, httpPort: MAIL_HTTP_PORT, name: `test${SUFFIX}`, quiet: true })
   await fetch(`http://127.0.0.1:${MAIL_HTTP_PORT}/messages`, { method: 'DELETE' })
 
-  const buildEnv = { ...process.env, TILTWRIGHT_BUILD_DIR: '.nuxt-test', TILTWRIGHT_OUTPUT_DIR: '.output-test' }
+  const buildEnv = { ...process.env, TILTWRIGHT_BUILD_DIR: `.nuxt-test${SUFFIX}`, TILTWRIGHT_OUTPUT_DIR: `.output-test${SUFFIX}` }
   const build = spawnSync(resolve(projectRoot, 'node_modules/.bin/nuxt'), ['build'], { cwd: projectRoot, env: buildEnv, encoding: 'utf8' })
   if (build.status !== 0) throw new Error(`nuxt build failed:\n${build.stdout}\n${build.stderr}`)
 
   const baseUrl = `http://localhost:${APP_PORT}`
-  const app: ChildProcess = spawn(process.execPath, [resolve(projectRoot, '.output-test/server/index.mjs')], {
+  const app: ChildProcess = spawn(process.execPath, [resolve(projectRoot, `.output-test${SUFFIX}/server/index.mjs`)], {
     cwd: projectRoot,
     env: {
       ...process.env, PORT: String(APP_PORT), HOST: '127.0.0.1', NODE_ENV: 'production',
