@@ -1,6 +1,16 @@
+import { resolve } from 'node:path'
+
 // Tiltwright's Nuxt configuration. Anything that would reach the internet is off:
 // no telemetry, no devtools, no font downloads (Nunito ships from @fontsource).
 const fakePayments = process.env.TILTWRIGHT_FAKE_PAYMENTS !== '0'
+// The local fake of the payment provider (server/fake-payments/) exists only in fake mode:
+// its API under /v1/** (where the SDK calls) and its hosted payment pages under /fake-pay/**.
+const fakePaymentHandlers = fakePayments
+  ? [
+      { route: '/v1/**', handler: '~~/server/fake-payments/api.ts' },
+      { route: '/fake-pay/**', handler: '~~/server/fake-payments/pages.ts' },
+    ]
+  : []
 // Secure-only cookies when the app is served over HTTPS (production); plain HTTP locally.
 const secureCookies = (process.env.TILTWRIGHT_PUBLIC_URL ?? '').startsWith('https://')
 
@@ -32,6 +42,14 @@ export default defineNuxtConfig({
     mailCatcherUrl: 'http://127.0.0.1:1080',
     publicUrl: 'http://localhost:3000',
     fakePayments,
+    // The payment SDK: key, API address (empty = the provider's own; in fake mode the app
+    // itself at publicUrl) and the webhook signing secret.
+    paymentsSecretKey: 'sk_test_tiltwright_local_fake',
+    paymentsApiUrl: '',
+    paymentsWebhookSecret: 'whsec_tiltwright_local_fake_signing_secret',
+    taxRateBasisPoints: 725,
+    // pdfkit embeds Nunito from here (the @fontsource files the pages use too).
+    fontDir: resolve('node_modules/@fontsource/nunito/files'),
     public: { fakeServices: fakePayments },
     session: { maxAge: 60 * 60 * 24 * 14 },
   },
@@ -50,9 +68,21 @@ export default defineNuxtConfig({
     xssValidator: false,
     requestSizeLimiter: { maxRequestSizeInBytes: 2_000_000, maxUploadFileRequestInBytes: 12_000_000 },
   },
+  routeRules: {
+    // Callers that cannot carry a page's CSRF token: the payment provider's webhook, and the
+    // fake's API and hosted pages (the fake is not served at all outside fake mode).
+    '/api/webhooks/**': { csurf: false },
+    '/v1/**': { csurf: false },
+    '/fake-pay/**': { csurf: false },
+  },
   // The test suite builds into folders of its own so a running dev server is not disturbed.
   buildDir: process.env.TILTWRIGHT_BUILD_DIR || '.nuxt',
+  serverHandlers: fakePaymentHandlers,
   nitro: {
+    // Uploaded purchase orders and tax certificates: local disk outside anything served.
+    storage: {
+      uploads: { driver: 'fs', base: process.env.TILTWRIGHT_UPLOAD_DIR || resolve('data/uploads') },
+    },
     output: { dir: process.env.TILTWRIGHT_OUTPUT_DIR || '.output' },
   },
 })

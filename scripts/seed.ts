@@ -6,6 +6,7 @@ import { count } from 'drizzle-orm'
 import { Hash } from '@adonisjs/hash'
 import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
 import * as schema from '../server/database/schema'
+import { DEMO_CATALOG } from './demo-catalog'
 
 export const DEMO_PASSWORD = 'tiltwright-demo'
 
@@ -35,6 +36,12 @@ export async function seedDemo(url: string): Promise<boolean> {
       for (const a of DEMO_ACCOUNTS) {
         const customer = a.role === 'teacher' || a.role === 'builder'
         await tx.insert(schema.users).values({ ...a, passwordHash, schoolId: customer ? school!.id : null, verifiedAt: new Date() })
+      }
+      for (const [i, p] of DEMO_CATALOG.entries()) {
+        const { tiers, batches, ...product } = p
+        const [row] = await tx.insert(schema.products).values({ ...product, sortOrder: i }).$returningId()
+        await tx.insert(schema.priceTiers).values(tiers.map(([minQuantity, unitPriceCents]) => ({ productId: row!.id, minQuantity, unitPriceCents })))
+        await tx.insert(schema.batches).values(batches.map(([code, quantityBuilt, builtOn]) => ({ productId: row!.id, code, quantityBuilt, builtOn: new Date(`${builtOn}T12:00:00Z`) })))
       }
     })
     return true

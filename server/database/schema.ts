@@ -99,3 +99,192 @@ export const tuningSheets = mysqlTable('tuning_sheets', {
   archived: boolean('archived').notNull().default(false),
   createdAt: createdAt(),
 }, (t) => [index('tuning_sheets_author_idx').on(t.authorId, t.createdAt), index('tuning_sheets_rig_idx').on(t.rigId, t.createdAt)])
+
+// ── The shop: catalog, stock in production batches, quotes, orders, payments ─────────────
+
+export const PRODUCT_KINDS = ['kit', 'part'] as const
+export const ORDER_STATUSES = ['placed', 'po review', 'awaiting payment', 'paid', 'shipped', 'delivered', 'cancelled'] as const
+export const PAYMENT_METHODS = ['card', 'purchase-order'] as const
+export const PO_STATUSES = ['review', 'approved', 'rejected'] as const
+export const RESERVATION_STATUSES = ['reserved', 'allocated', 'released'] as const
+export const FILE_KINDS = ['purchase-order', 'tax-certificate'] as const
+
+export interface ProductSpec { label: string; value: string }
+
+export const products = mysqlTable('products', {
+  id: id(),
+  slug: varchar('slug', { length: 80 }).notNull(),
+  name: varchar('name', { length: 120 }).notNull(),
+  kind: mysqlEnum('kind', PRODUCT_KINDS).notNull(),
+  summary: varchar('summary', { length: 300 }).notNull(),
+  description: text('description').notNull(),
+  specs: json('specs').$type<ProductSpec[]>().notNull(),
+  image: varchar('image', { length: 200 }).notNull(),
+  /** Packed weight, for the shipping estimate. */
+  weightGrams: int('weight_grams').notNull(),
+  active: boolean('active').notNull().default(true),
+  sortOrder: int('sort_order').notNull().default(0),
+  createdAt: createdAt(),
+}, (t) => [uniqueIndex('products_slug_unique').on(t.slug)])
+
+/** Classroom quantity tiers: the unit price for orders of at least minQuantity. */
+export const priceTiers = mysqlTable('price_tiers', {
+  id: id(),
+  productId: ref('product_id').notNull().references(() => products.id),
+  minQuantity: int('min_quantity').notNull(),
+  unitPriceCents: int('unit_price_cents').notNull(),
+}, (t) => [uniqueIndex('price_tiers_product_min_unique').on(t.productId, t.minQuantity)])
+
+/** A production batch: units built together. What is left is quantityBuilt − reserved. */
+export const batches = mysqlTable('batches', {
+  id: id(),
+  productId: ref('product_id').notNull().references(() => products.id),
+  code: varchar('code', { length: 40 }).notNull(),
+  quantityBuilt: int('quantity_built').notNull(),
+  reserved: int('reserved').notNull().default(0),
+  builtOn: datetime('built_on', { mode: 'date', fsp: 3 }).notNull(),
+  createdAt: createdAt(),
+}, (t) => [uniqueIndex('batches_code_unique').on(t.code), index('batches_product_idx').on(t.productId, t.builtOn)])
+
+export const quotes = mysqlTable('quotes', {
+  id: id(),
+  number: varchar('number', { length: 20 }),
+  schoolId: ref('school_id').notNull().references(() => schools.id),
+  createdById: ref('created_by_id').notNull().references(() => users.id),
+  subtotalCents: int('subtotal_cents').notNull(),
+  shippingCents: int('shipping_cents').notNull(),
+  taxCents: int('tax_cents').notNull(),
+  totalCents: int('total_cents').notNull(),
+  taxRateBasisPoints: int('tax_rate_bp').notNull(),
+  taxExempt: boolean('tax_exempt').notNull(),
+  validUntil: datetime('valid_until', { mode: 'date', fsp: 3 }).notNull(),
+  orderId: ref('order_id'),
+  createdAt: createdAt(),
+}, (t) => [uniqueIndex('quotes_number_unique').on(t.number), index('quotes_school_idx').on(t.schoolId, t.createdAt), uniqueIndex('quotes_order_unique').on(t.orderId)])
+
+/** A priced line as quoted or ordered: the name and tier price are copied, so later
+ *  catalog changes never alter a document. */
+const pricedLineColumns = () => ({
+  productId: ref('product_id').notNull().references(() => products.id),
+  name: varchar('name', { length: 120 }).notNull(),
+  quantity: int('quantity').notNull(),
+  tierMinQuantity: int('tier_min_quantity').notNull(),
+  unitPriceCents: int('unit_price_cents').notNull(),
+  lineTotalCents: int('line_total_cents').notNull(),
+})
+
+export const quoteLines = mysqlTable('quote_lines', {
+  id: id(),
+  quoteId: ref('quote_id').notNull().references(() => quotes.id),
+  ...pricedLineColumns(),
+}, (t) => [index('quote_lines_quote_idx').on(t.quoteId)])
+
+export const orders = mysqlTable('orders', {
+  id: id(),
+  number: varchar('number', { length: 20 }),
+  schoolId: ref('school_id').notNull().references(() => schools.id),
+  placedById: ref('placed_by_id').notNull().references(() => users.id),
+  quoteId: ref('quote_id'),
+  status: mysqlEnum('status', ORDER_STATUSES).notNull().default('placed'),
+  paymentMethod: mysqlEnum('payment_method', PAYMENT_METHODS).notNull(),
+  subtotalCents: int('subtotal_cents').notNull(),
+  shippingCents: int('shipping_cents').notNull(),
+  taxCents: int('tax_cents').notNull(),
+  totalCents: int('total_cents').notNull(),
+  taxExempt: boolean('tax_exempt').notNull(),
+  /** The payment provider's objects for this order (customer, checkout session, invoice). */
+  providerCustomerId: varchar('provider_customer_id', { length: 80 }),
+  checkoutSessionId: varchar('checkout_session_id', { length: 80 }),
+  checkoutUrl: varchar('checkout_url', { length: 500 }),
+  invoiceId: varchar('invoice_id', { length: 80 }),
+  invoiceNumber: varchar('invoice_number', { length: 40 }),
+  invoiceUrl: varchar('invoice_url', { length: 500 }),
+  invoiceDueAt: datetime('invoice_due_at', { mode: 'date', fsp: 3 }),
+  paidAt: datetime('paid_at', { mode: 'date', fsp: 3 }),
+  paymentReference: varchar('payment_reference', { length: 120 }),
+  createdAt: createdAt(),
+  updatedAt: datetime('updated_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+}, (t) => [
+  uniqueIndex('orders_number_unique').on(t.number), index('orders_school_idx').on(t.schoolId, t.createdAt),
+  index('orders_status_idx').on(t.status, t.createdAt), uniqueIndex('orders_session_unique').on(t.checkoutSessionId),
+  uniqueIndex('orders_invoice_unique').on(t.invoiceId),
+])
+
+export const orderLines = mysqlTable('order_lines', {
+  id: id(),
+  orderId: ref('order_id').notNull().references(() => orders.id),
+  ...pricedLineColumns(),
+}, (t) => [index('order_lines_order_idx').on(t.orderId)])
+
+/** Units of a batch held for an order: reserved when placed, allocated by an admin, released on cancel. */
+export const stockReservations = mysqlTable('stock_reservations', {
+  id: id(),
+  orderId: ref('order_id').notNull().references(() => orders.id),
+  productId: ref('product_id').notNull().references(() => products.id),
+  batchId: ref('batch_id').notNull().references(() => batches.id),
+  quantity: int('quantity').notNull(),
+  status: mysqlEnum('status', RESERVATION_STATUSES).notNull().default('reserved'),
+  createdAt: createdAt(),
+}, (t) => [index('stock_reservations_order_idx').on(t.orderId), index('stock_reservations_batch_idx').on(t.batchId)])
+
+/** The order's timeline: every change, in the words the teacher sees. */
+export const orderEvents = mysqlTable('order_events', {
+  id: id(),
+  orderId: ref('order_id').notNull().references(() => orders.id),
+  kind: varchar('kind', { length: 40 }).notNull(),
+  message: varchar('message', { length: 500 }).notNull(),
+  actorId: ref('actor_id'),
+  createdAt: createdAt(),
+}, (t) => [index('order_events_order_idx').on(t.orderId, t.createdAt)])
+
+export const shipments = mysqlTable('shipments', {
+  id: id(),
+  orderId: ref('order_id').notNull().references(() => orders.id),
+  carrier: varchar('carrier', { length: 60 }).notNull(),
+  tracking: varchar('tracking', { length: 80 }).notNull(),
+  createdById: ref('created_by_id').notNull().references(() => users.id),
+  shippedAt: createdAt(),
+}, (t) => [index('shipments_order_idx').on(t.orderId)])
+
+export const purchaseOrders = mysqlTable('purchase_orders', {
+  id: id(),
+  orderId: ref('order_id').notNull().references(() => orders.id),
+  poNumber: varchar('po_number', { length: 60 }).notNull(),
+  apEmail: varchar('ap_email', { length: 254 }).notNull(),
+  status: mysqlEnum('status', PO_STATUSES).notNull().default('review'),
+  rejectReason: varchar('reject_reason', { length: 500 }),
+  reviewedById: ref('reviewed_by_id'),
+  reviewedAt: datetime('reviewed_at', { mode: 'date', fsp: 3 }),
+  createdAt: createdAt(),
+}, (t) => [uniqueIndex('purchase_orders_order_unique').on(t.orderId)])
+
+/** Uploaded documents (PO files, tax certificates), kept in Nitro storage under `storageKey`. */
+export const storedFiles = mysqlTable('stored_files', {
+  id: id(),
+  kind: mysqlEnum('kind', FILE_KINDS).notNull(),
+  schoolId: ref('school_id').notNull().references(() => schools.id),
+  orderId: ref('order_id'),
+  storageKey: varchar('storage_key', { length: 120 }).notNull(),
+  filename: varchar('filename', { length: 200 }).notNull(),
+  contentType: varchar('content_type', { length: 80 }).notNull(),
+  size: int('size').notNull(),
+  uploadedById: ref('uploaded_by_id').notNull().references(() => users.id),
+  createdAt: createdAt(),
+}, (t) => [index('stored_files_order_idx').on(t.orderId), index('stored_files_school_idx').on(t.schoolId, t.kind)])
+
+/** Each payment-provider event is handled once: its id is the key. */
+export const paymentEvents = mysqlTable('payment_events', {
+  id: varchar('id', { length: 80 }).primaryKey(),
+  type: varchar('type', { length: 80 }).notNull(),
+  receivedAt: createdAt(),
+})
+
+// ── The local fake of the payment provider (server/fake-payments/), used only in fake mode ──
+
+/** Every object the fake keeps (customers, checkout sessions, invoices, payment intents, events). */
+export const fakePaymentObjects = mysqlTable('fake_payment_objects', {
+  id: varchar('id', { length: 80 }).primaryKey(),
+  type: varchar('type', { length: 40 }).notNull(),
+  data: json('data').$type<Record<string, unknown>>().notNull(),
+  createdAt: createdAt(),
+}, (t) => [index('fake_payment_objects_type_idx').on(t.type, t.createdAt)])

@@ -32,7 +32,10 @@ export default async function setup(project: TestProject) {
   const catcher = await startMailCatcher({ smtpPort: SMTP_PORT, httpPort: MAIL_HTTP_PORT, name: `test${SUFFIX}`, quiet: true })
   await fetch(`http://127.0.0.1:${MAIL_HTTP_PORT}/messages`, { method: 'DELETE' })
 
-  const buildEnv = { ...process.env, TILTWRIGHT_BUILD_DIR: `.nuxt-test${SUFFIX}`, TILTWRIGHT_OUTPUT_DIR: `.output-test${SUFFIX}` }
+  const buildEnv = {
+    ...process.env, TILTWRIGHT_BUILD_DIR: `.nuxt-test${SUFFIX}`, TILTWRIGHT_OUTPUT_DIR: `.output-test${SUFFIX}`,
+    TILTWRIGHT_UPLOAD_DIR: resolve(projectRoot, `data/uploads-test${SUFFIX}`),
+  }
   const build = spawnSync(resolve(projectRoot, 'node_modules/.bin/nuxt'), ['build'], { cwd: projectRoot, env: buildEnv, encoding: 'utf8' })
   if (build.status !== 0) throw new Error(`nuxt build failed:\n${build.stdout}\n${build.stderr}`)
 

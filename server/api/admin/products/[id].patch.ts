@@ -1,0 +1,29 @@
+// Edit a product; when `tiers` is sent it replaces the product's whole tier list. Quotes and
+// orders keep the prices they were made with.
+import { eq } from 'drizzle-orm'
+import { productPatchSchema } from '../../../../shared/schemas/shop'
+import { priceTiers, products } from '../../../database/schema'
+
+export default defineEventHandler(async (event) => {
+  const admin = await requireRole(event, 'admin')
+  const { tiers, ...input } = await readBodyAs(event, productPatchSchema)
+  const id = Number(getRouterParam(event, 'id'))
+  if (!Number.isSafeInteger(id) || id < 1) throw notFound('That product')
+  try {
+    await useDb().transaction(async (tx) => {
+      const [p] = await tx.select().from(products).where(eq(products.id, id)).limit(1).for('update')
+      if (!p) throw notFound('That product')
+      if (Object.keys(input).length) await tx.update(products).set(input).where(eq(products.id, id))
+      if (tiers) {
+        await tx.delete(priceTiers).where(eq(priceTiers.productId, id))
+        await tx.insert(priceTiers).values(tiers.map((t) => ({ productId: id, ...t })))
+      }
+      await audit(tx, { actorId: admin.id, action: 'product.updated', subjectType: 'product', subjectId: id, detail: { fields: Object.keys(input), tiers: !!tiers } })
+    })
+  } catch (e) {
+    if (isDuplicateKey(e)) throw conflict('Another product already uses that slug.', 'slug-taken', { slug: 'Another product already uses that slug.' })
+    throw e
+  }
+  const [entry] = await loadCatalog(useDb(), { activeOnly: false, ids: [id] })
+  return productView(entry!)
+})

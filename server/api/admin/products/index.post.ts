@@ -1,0 +1,20 @@
+import { productSchema } from '../../../../shared/schemas/shop'
+import { priceTiers, products } from '../../../database/schema'
+
+export default defineEventHandler(async (event) => {
+  const admin = await requireRole(event, 'admin')
+  const { tiers, ...input } = await readBodyAs(event, productSchema)
+  try {
+    const id = await useDb().transaction(async (tx) => {
+      const [row] = await tx.insert(products).values(input).$returningId()
+      await tx.insert(priceTiers).values(tiers.map((t) => ({ productId: row!.id, ...t })))
+      await audit(tx, { actorId: admin.id, action: 'product.created', subjectType: 'product', subjectId: row!.id })
+      return row!.id
+    })
+    setResponseStatus(event, 201)
+    return { id }
+  } catch (e) {
+    if (isDuplicateKey(e)) throw conflict('Another product already uses that slug.', 'slug-taken', { slug: 'Another product already uses that slug.' })
+    throw e
+  }
+})

@@ -1,0 +1,25 @@
+// Prices the cart on the server, always: tiers, shipping and tax from the catalog and the
+// caller's school (tax-exempt when its certificate is accepted). The client never sets a price.
+import { z } from 'zod'
+import { cartLineSchema } from '../../../shared/schemas/shop'
+import type { PricedCart } from '../../../shared/types/shop'
+
+const body = z.object({ lines: z.array(cartLineSchema).max(40, 'At most 40 different items in one order.') })
+
+export default defineEventHandler(async (event): Promise<PricedCart> => {
+  const session = await getUserSession(event)
+  const user = session.user ? await requireUser(event) : null
+  const input = await readBodyAs(event, body)
+  const merged = [...input.lines.reduce((m, l) => m.set(l.productId, (m.get(l.productId) ?? 0) + l.quantity), new Map<number, number>())]
+    .map(([productId, quantity]) => ({ productId, quantity }))
+  const priced = await priceLines(useDb(), merged, user?.schoolId ?? null)
+  const { byId, ...rest } = priced
+  return {
+    ...rest,
+    lines: priced.lines.map((l) => {
+      const c = byId.get(l.productId)!
+      return { ...l, slug: c.row.slug, image: c.row.image, available: c.available, short: c.available < l.quantity }
+    }),
+    signedIn: !!user,
+  }
+})

@@ -1,0 +1,9 @@
+import type { ProductDetail } from '../../../shared/types/shop'
+
+export default defineEventHandler(async (event): Promise<ProductDetail> => {
+  const slug = String(getRouterParam(event, 'slug') ?? '')
+  if (!/^[a-z0-9-]{1,80}$/.test(slug)) throw notFound('That product')
+  const [entry] = await loadCatalog(useDb(), { activeOnly: true, slug })
+  if (!entry) throw notFound('That product')
+  return { ...productView(entry), description: entry.row.description, specs: entry.row.specs, weightGrams: entry.row.weightGrams }
+})

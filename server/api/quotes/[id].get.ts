@@ -1,0 +1,6 @@
+export default defineEventHandler(async (event) => {
+  const user = await requireUser(event)
+  const q = await requireVisibleQuote(event, user)
+  const d = await quoteDetails(useDb(), q)
+  return quoteView(q, d.lines, d.school.name)
+})

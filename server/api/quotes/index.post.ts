@@ -1,0 +1,31 @@
+// A teacher saves the cart as a formal quote: numbered, dated, valid 30 days, priced now and
+// e-mailed with its PDF. Stock is not reserved by a quote.
+import { eq } from 'drizzle-orm'
+import { cartSchema } from '../../../shared/schemas/shop'
+import { addDays, QUOTE_VALID_DAYS } from '../../../shared/utils/pricing'
+import { quoteLines, quotes } from '../../database/schema'
+import { quoteIssuedMail } from '../../emails/shop'
+import { toDate } from '../../documents/pdf'
+
+export default defineEventHandler(async (event) => {
+  const user = await requireRole(event, 'teacher')
+  const input = await readBodyAs(event, cartSchema)
+  if (!user.schoolId) throw forbidden('Your account has no school to quote for.')
+  const reply = await useDb().transaction(async (tx) => {
+    const src = await resolveCheckout(tx, user, { lines: input.lines })
+    const now = new Date()
+    const validUntil = addDays(now, QUOTE_VALID_DAYS)
+    const [row] = await tx.insert(quotes).values({ schoolId: user.schoolId!, createdById: user.id, ...src.totals, validUntil }).$returningId()
+    const number = quoteNumberFor(row!.id, now)
+    await tx.update(quotes).set({ number }).where(eq(quotes.id, row!.id))
+    await tx.insert(quoteLines).values(src.lines.map((l) => ({ quoteId: row!.id, ...l })))
+    const [q] = await tx.select().from(quotes).where(eq(quotes.id, row!.id)).limit(1)
+    const pdf = await renderQuotePdf(tx, q!)
+    const mail = quoteIssuedMail(user.name, { number, totalCents: q!.totalCents, validUntil: toDate(validUntil) }, appUrl(`/quotes/${q!.id}`))
+    await enqueueMail(tx, 'quote-issued', user.email, mail, [{ filename: `Tiltwright-quote-${number}.pdf`, contentType: 'application/pdf', content: pdf }])
+    await audit(tx, { actorId: user.id, action: 'quote.issued', subjectType: 'quote', subjectId: q!.id })
+    return { id: q!.id, number, totalCents: q!.totalCents, validUntil: validUntil.toISOString() }
+  })
+  setResponseStatus(event, 201)
+  return reply
+})

@@ -1,0 +1,118 @@
+// Tiltwright's business documents (quote, invoice, receipt, packing list) as PDFs: pdfkit,
+// Nunito embedded from @fontsource's WOFF files, US Letter. One layout serves them all.
+import { readFileSync } from 'node:fs'
+import { join } from 'node:path'
+import PDFDocument from 'pdfkit'
+import { formatCents } from '../../shared/utils/pricing'
+
+export interface DocLineSpec { description: string; quantity: number; note?: string; unitCents?: number; totalCents?: number }
+
+export interface DocSpec {
+  title: string
+  number: string
+  meta: [string, string][]
+  partyLabel: string
+  party: string[]
+  lines: DocLineSpec[]
+  showPrices: boolean
+  totals?: { label: string; cents: number; strong?: boolean }[]
+  notes: string[]
+  stamp?: string
+}
+
+const COLORS = {
+  beam: '#1a4762',
+  brass: '#c2801b',
+  ink: '#1f2a37',
+  faint: '#586170',
+  rule: '#d5e6f0',
+  go: '#2f7d4f',
+}
+
+let fonts: { regular: Buffer; bold: Buffer; heavy: Buffer } | undefined
+function loadFonts() {
+  const dir = useRuntimeConfig().fontDir
+  fonts ??= {
+    regular: readFileSync(join(dir, 'nunito-latin-400-normal.woff')),
+    bold: readFileSync(join(dir, 'nunito-latin-700-normal.woff')),
+    heavy: readFileSync(join(dir, 'nunito-latin-800-normal.woff')),
+  }
+  return fonts
+}
+
+export const toDate = (d: Date | string) => new Date(d).toISOString().slice(0, 10)
+
+export function renderDocument(spec: DocSpec): Promise<Buffer> {
+  const f = loadFonts()
+  // The default font is Nunito itself, so pdfkit never loads its built-in Helvetica metrics.
+  const doc = new PDFDocument({ size: 'LETTER', margin: 50, font: f.regular as unknown as string, info: { Title: `${spec.title} ${spec.number}`, Author: 'Tiltwright', Creator: 'Tiltwright' } })
+  doc.registerFont('regular', f.regular)
+  doc.registerFont('bold', f.bold)
+  doc.registerFont('heavy', f.heavy)
+  const chunks: Buffer[] = []
+  doc.on('data', (c: Buffer) => chunks.push(c))
+  const done = new Promise<Buffer>((ok, fail) => { doc.on('end', () => ok(Buffer.concat(chunks))); doc.on('error', fail) })
+
+  const left = doc.page.margins.left
+  const right = doc.page.width - doc.page.margins.right
+  const width = right - left
+
+  doc.font('heavy').fontSize(22).fillColor(COLORS.beam).text('Tiltwright', left, 50)
+  doc.font('regular').fontSize(9).fillColor(COLORS.faint).text('Balancing-rig kits for classrooms · 12 Lathe Row, Unit 4, Kessler Ford, OR 97998 · orders@tiltwright.test', left, 76)
+  doc.font('heavy').fontSize(18).fillColor(COLORS.ink).text(`${spec.title} ${spec.number}`, left, 50, { width, align: 'right' })
+  let y = 104
+  doc.moveTo(left, y).lineTo(right, y).lineWidth(1.5).strokeColor(COLORS.brass).stroke()
+  y += 14
+
+  doc.font('bold').fontSize(10).fillColor(COLORS.faint).text(spec.partyLabel.toUpperCase(), left, y)
+  doc.font('regular').fontSize(11).fillColor(COLORS.ink).text(spec.party.join('\n'), left, y + 14, { width: width / 2 - 10 })
+  const partyBottom = doc.y
+  let my = y
+  for (const [k, v] of spec.meta) {
+    doc.font('bold').fontSize(10).fillColor(COLORS.faint).text(k, left + width / 2, my, { width: 110 })
+    doc.font('regular').fontSize(10).fillColor(COLORS.ink).text(v, left + width / 2 + 115, my, { width: width / 2 - 115 })
+    my = doc.y + 3
+  }
+  y = Math.max(partyBottom, my) + 18
+
+  const cols = spec.showPrices
+    ? [{ h: 'Item', w: width * 0.46, a: 'left' }, { h: 'Qty', w: width * 0.1, a: 'right' }, { h: 'Unit price', w: width * 0.2, a: 'right' }, { h: 'Amount', w: width * 0.24, a: 'right' }] as const
+    : [{ h: 'Item', w: width * 0.7, a: 'left' }, { h: 'Qty', w: width * 0.3, a: 'right' }] as const
+  const row = (cells: string[], font: 'regular' | 'bold', size = 10) => {
+    let x = left
+    let h = 0
+    cells.forEach((c, i) => {
+      doc.font(font).fontSize(size).fillColor(COLORS.ink).text(c, x + (i ? 0 : 4), y, { width: cols[i]!.w - 8, align: cols[i]!.a })
+      h = Math.max(h, doc.y - y)
+      x += cols[i]!.w
+    })
+    y += h + 6
+  }
+  doc.rect(left, y - 4, width, 20).fill(COLORS.rule)
+  row(cols.map((c) => c.h), 'bold')
+  for (const l of spec.lines) {
+    if (y > doc.page.height - 160) { doc.addPage(); y = 60 }
+    const item = l.note ? `${l.description}\n${l.note}` : l.description
+    row(spec.showPrices ? [item, String(l.quantity), l.unitCents === undefined ? '' : formatCents(l.unitCents), l.totalCents === undefined ? '' : formatCents(l.totalCents)] : [item, String(l.quantity)], 'regular')
+    doc.moveTo(left, y - 3).lineTo(right, y - 3).lineWidth(0.5).strokeColor(COLORS.rule).stroke()
+  }
+  y += 6
+  for (const t of spec.totals ?? []) {
+    doc.font(t.strong ? 'heavy' : 'regular').fontSize(t.strong ? 12 : 10).fillColor(COLORS.ink)
+    doc.text(t.label, left + width * 0.5, y, { width: width * 0.26, align: 'right' })
+    doc.text(formatCents(t.cents), left + width * 0.76, y, { width: width * 0.24 - 4, align: 'right' })
+    y = doc.y + 4
+  }
+  if (spec.stamp) {
+    doc.save().rotate(-12, { origin: [right - 90, 150] })
+    doc.font('heavy').fontSize(30).fillColor(COLORS.go).opacity(0.75).text(spec.stamp, right - 190, 135, { width: 200, align: 'center' })
+    doc.restore().opacity(1)
+  }
+  y += 16
+  for (const n of spec.notes) {
+    doc.font('regular').fontSize(9.5).fillColor(COLORS.faint).text(n, left, y, { width })
+    y = doc.y + 6
+  }
+  doc.end()
+  return done
+}

@@ -1,0 +1,65 @@
+// The shop's e-mails. Each is written to the outbox in the transaction of its change.
+import { formatCents } from '../../shared/utils/pricing'
+import { renderMail } from './layout'
+
+const hello = (name: string) => `Hello ${name},`
+
+export function quoteIssuedMail(name: string, q: { number: string; totalCents: number; validUntil: string }, url: string) {
+  return renderMail(`Your Tiltwright quote ${q.number}`, hello(name), [
+    { paragraph: `Quote ${q.number} for ${formatCents(q.totalCents)} is attached as a PDF for your purchasing office. It is valid until ${q.validUntil}.` },
+    { paragraph: 'Order from it at the quoted prices by card, or with a purchase order on net-30 terms.' },
+    { link: { label: 'Open the quote', url } },
+  ])
+}
+
+export function orderPlacedMail(name: string, o: { number: string; totalCents: number; method: 'card' | 'purchase-order' }, url: string) {
+  return renderMail(`Order ${o.number} placed`, hello(name), [
+    { paragraph: `We have your order ${o.number} for ${formatCents(o.totalCents)} and have reserved its stock.` },
+    { paragraph: o.method === 'card' ? 'It will be confirmed as soon as the card payment goes through.' : 'Our team reviews the purchase order, usually within one working day, and then sends the invoice.' },
+    { link: { label: 'Follow the order', url } },
+  ])
+}
+
+export function poApprovedMail(name: string, o: { number: string; poNumber: string }, url: string) {
+  return renderMail(`Purchase order ${o.poNumber} approved`, hello(name), [
+    { paragraph: `Your purchase order ${o.poNumber} for order ${o.number} is approved. The invoice (net 30) follows in a separate e-mail to you and your accounts-payable contact.` },
+    { link: { label: 'Follow the order', url } },
+  ])
+}
+
+export function poRejectedMail(name: string, o: { number: string; poNumber: string; reason: string }, url: string) {
+  return renderMail(`Purchase order ${o.poNumber} could not be accepted`, hello(name), [
+    { paragraph: `We could not accept purchase order ${o.poNumber} for order ${o.number}. The reason given: ${o.reason}` },
+    { paragraph: 'The order is cancelled and its stock released. You can place a new order with a corrected purchase order at any time.' },
+    { link: { label: 'See the order', url } },
+  ])
+}
+
+export function invoiceIssuedMail(o: { number: string; invoiceNumber: string; totalCents: number; dueAt: string; poNumber: string }, payUrl: string | null) {
+  return renderMail(`Invoice ${o.invoiceNumber} for purchase order ${o.poNumber}`, 'Hello,', [
+    { paragraph: `Invoice ${o.invoiceNumber} for Tiltwright order ${o.number} (purchase order ${o.poNumber}) is attached: ${formatCents(o.totalCents)}, due ${o.dueAt} (net 30).` },
+    ...(payUrl ? [{ link: { label: 'Pay the invoice online', url: payUrl } }] : []),
+  ])
+}
+
+export function paymentReceivedMail(name: string, o: { number: string; totalCents: number }, url: string) {
+  return renderMail(`Payment received for order ${o.number}`, hello(name), [
+    { paragraph: `Thank you: we received ${formatCents(o.totalCents)} for order ${o.number}. The receipt is attached.` },
+    { link: { label: 'Follow the order', url } },
+  ])
+}
+
+export function shippedMail(name: string, o: { number: string; carrier: string; tracking: string }, url: string) {
+  return renderMail(`Order ${o.number} has shipped`, hello(name), [
+    { paragraph: `Order ${o.number} is on its way with ${o.carrier}, tracking number ${o.tracking}. The packing list is attached.` },
+    { paragraph: 'When the boxes arrive, unpack the steel balls first and keep them away from young children.' },
+    { link: { label: 'Follow the order', url } },
+  ])
+}
+
+export function orderCancelledMail(name: string, o: { number: string }, url: string) {
+  return renderMail(`Order ${o.number} cancelled`, hello(name), [
+    { paragraph: `Order ${o.number} is cancelled and nothing will be charged for it. Its reserved stock is released.` },
+    { link: { label: 'See the order', url } },
+  ])
+}

@@ -1,0 +1,255 @@
+// Order queries and steps that the checkout, order, admin and webhook routes share:
+// stock reservation under row locks, the timeline, payment, and the order's view.
+import { and, asc, eq, inArray, isNull } from 'drizzle-orm'
+import type { H3Event } from 'h3'
+import {
+  batches, orderEvents, orderLines, orders, purchaseOrders, quoteLines, quotes, schools, shipments, stockReservations, storedFiles, users,
+} from '../database/schema'
+import type { OrderView, OrderDocument } from '../../shared/types/shop'
+import { canCancelOrder, canSeeOrder, canSeeOrderDocuments, isQuoteValid, unitsLeft } from '../../shared/utils/shop-rules'
+import type { SessionUser } from '../../shared/utils/roles'
+import { formatCents, type PricedLine, type Totals } from '../../shared/utils/pricing'
+import type { CartLine } from '../../shared/schemas/shop'
+import { cardReceiptPdf, invoicePdf } from '../documents/shop'
+import { paymentReceivedMail } from '../emails/shop'
+
+export type OrderRow = typeof orders.$inferSelect
+
+export const orderNumberFor = (id: number) => `TW-${10000 + id}`
+export const quoteNumberFor = (id: number, at: Date) => `Q-${at.getUTCFullYear()}-${String(id).padStart(5, '0')}`
+
+/** InnoDB may pick a waiting transaction as a deadlock victim; the work is safe to redo. */
+export async function transactionWithRetry<T>(fn: (tx: Tx) => Promise<T>, attempts = 4): Promise<T> {
+  for (let i = 1; ; i++) {
+    try {
+      return await useDb().transaction(fn)
+    } catch (e) {
+      if (i >= attempts || !isLockFailure(e)) throw e
+      await new Promise((r) => setTimeout(r, 20 * i + Math.random() * 30))
+    }
+  }
+}
+
+function isLockFailure(e: unknown): boolean {
+  let cur: any = e
+  for (let i = 0; i < 4 && cur; i++) {
+    if (cur.errno === 1213 || cur.errno === 1205) return true
+    cur = cur.cause
+  }
+  return false
+}
+
+export async function addOrderEvent(tx: DbOrTx, orderId: number, kind: string, message: string, actorId: number | null = null) {
+  await tx.insert(orderEvents).values({ orderId, kind, message: message.slice(0, 500), actorId })
+}
+
+/** Reserves every line's units from the product's batches, oldest first. The batch rows are
+ *  locked (SELECT … FOR UPDATE, in id order) so concurrent checkouts queue rather than both
+ *  seeing the same last units. Short stock throws 409 naming each short line. */
+export async function reserveStock(tx: Tx, orderId: number, lines: { productId: number; quantity: number; name: string }[]) {
+  const locked = await tx.select().from(batches)
+    .where(inArray(batches.productId, lines.map((l) => l.productId)))
+    .orderBy(asc(batches.id)).for('update')
+  const fifo = [...locked].sort((a, b) => a.builtOn.getTime() - b.builtOn.getTime() || a.id - b.id)
+  const fields: Record<string, string> = {}
+  lines.forEach((l, i) => {
+    const left = fifo.filter((b) => b.productId === l.productId).reduce((s, b) => s + unitsLeft(b), 0)
+    if (left < l.quantity) fields[`lines.${i}.quantity`] = left ? `Only ${left} of ${l.name} left.` : `${l.name} is out of stock.`
+  })
+  if (Object.keys(fields).length) throw conflict('Some items no longer have enough stock. Lower the quantities and try again.', 'out-of-stock', fields)
+  for (const l of lines) {
+    let need = l.quantity
+    for (const b of fifo) {
+      if (need === 0) break
+      if (b.productId !== l.productId) continue
+      const take = Math.min(need, unitsLeft(b))
+      if (!take) continue
+      const [res] = await tx.update(batches).set({ reserved: b.reserved + take })
+        .where(and(eq(batches.id, b.id), eq(batches.reserved, b.reserved)))
+      if (res.affectedRows !== 1) throw new Error(`batch ${b.id} changed under its row lock`)
+      b.reserved += take
+      need -= take
+      await tx.insert(stockReservations).values({ orderId, productId: l.productId, batchId: b.id, quantity: take })
+    }
+  }
+}
+
+/** Gives an order's reserved or allocated units back to their batches. */
+export async function releaseStock(tx: Tx, orderId: number) {
+  const held = await tx.select().from(stockReservations)
+    .where(and(eq(stockReservations.orderId, orderId), inArray(stockReservations.status, ['reserved', 'allocated'])))
+  if (!held.length) return 0
+  const locked = await tx.select().from(batches).where(inArray(batches.id, [...new Set(held.map((h) => h.batchId))])).orderBy(asc(batches.id)).for('update')
+  for (const b of locked) {
+    const give = held.filter((h) => h.batchId === b.id).reduce((s, h) => s + h.quantity, 0)
+    await tx.update(batches).set({ reserved: Math.max(0, b.reserved - give) }).where(eq(batches.id, b.id))
+  }
+  await tx.update(stockReservations).set({ status: 'released' }).where(inArray(stockReservations.id, held.map((h) => h.id)))
+  return held.reduce((s, h) => s + h.quantity, 0)
+}
+
+export interface OrderSource { lines: PricedLine[]; totals: Totals; quoteId: number | null }
+
+/** The lines and money of a checkout: the quote's (locked, still valid, the caller's school)
+ *  or the cart's priced from the catalog now. */
+export async function resolveCheckout(tx: Tx, user: SessionUser, input: { quoteId?: number; lines?: CartLine[] }): Promise<OrderSource> {
+  if (input.quoteId) {
+    const [q] = await tx.select().from(quotes).where(eq(quotes.id, input.quoteId)).limit(1).for('update')
+    if (!q || q.schoolId !== user.schoolId) throw notFound('That quote')
+    if (!isQuoteValid(q)) throw conflict(q.orderId ? 'This quote has already been turned into an order.' : 'This quote has expired. Save the cart as a new quote.', q.orderId ? 'quote-used' : 'quote-expired')
+    const lines = await tx.select().from(quoteLines).where(eq(quoteLines.quoteId, q.id)).orderBy(asc(quoteLines.id))
+    return {
+      quoteId: q.id,
+      lines: lines.map((l) => ({ productId: l.productId, name: l.name, quantity: l.quantity, tierMinQuantity: l.tierMinQuantity, unitPriceCents: l.unitPriceCents, lineTotalCents: l.lineTotalCents })),
+      totals: { subtotalCents: q.subtotalCents, shippingCents: q.shippingCents, taxCents: q.taxCents, totalCents: q.totalCents, taxExempt: q.taxExempt, taxRateBasisPoints: q.taxRateBasisPoints },
+    }
+  }
+  const priced = await priceLines(tx, input.lines ?? [], user.schoolId)
+  if (priced.missing.length) {
+    const fields = Object.fromEntries((input.lines ?? []).map((l, i) => [l, i] as const).filter(([l]) => priced.missing.includes(l.productId)).map(([, i]) => [`lines.${i}.productId`, 'This product is no longer sold.']))
+    throw invalid(fields, 'Some items in the cart are no longer sold.')
+  }
+  const { lines, missing: _m, byId: _b, ...totals } = priced
+  return { lines, totals, quoteId: null }
+}
+
+/** Creates the order with its lines, reserves its stock and starts its timeline. */
+export async function placeOrder(tx: Tx, user: SessionUser, method: 'card' | 'purchase-order', src: OrderSource) {
+  const [row] = await tx.insert(orders).values({
+    schoolId: user.schoolId!, placedById: user.id, quoteId: src.quoteId, paymentMethod: method,
+    status: method === 'card' ? 'awaiting payment' : 'po review',
+    subtotalCents: src.totals.subtotalCents, shippingCents: src.totals.shippingCents, taxCents: src.totals.taxCents,
+    totalCents: src.totals.totalCents, taxExempt: src.totals.taxExempt,
+  }).$returningId()
+  const id = row!.id
+  const number = orderNumberFor(id)
+  await tx.update(orders).set({ number }).where(eq(orders.id, id))
+  await tx.insert(orderLines).values(src.lines.map((l) => ({ orderId: id, ...l })))
+  await reserveStock(tx, id, src.lines)
+  if (src.quoteId) {
+    const [res] = await tx.update(quotes).set({ orderId: id }).where(and(eq(quotes.id, src.quoteId), isNull(quotes.orderId)))
+    if (res.affectedRows !== 1) throw conflict('This quote has already been turned into an order.', 'quote-used')
+  }
+  await addOrderEvent(tx, id, 'placed', `Order placed by ${user.name}${src.quoteId ? ' from a quote, at the quoted prices' : ''}; stock reserved.`, user.id)
+  return { id, number }
+}
+
+export async function loadOrder(db: DbOrTx, id: number, lock = false): Promise<OrderRow | undefined> {
+  const q = db.select().from(orders).where(eq(orders.id, id)).limit(1)
+  const [row] = lock ? await q.for('update') : await q
+  return row
+}
+
+/** The order if the caller may see it; 404 otherwise (its existence does not leak). */
+export async function requireVisibleOrder(event: H3Event, user: SessionUser, lock?: Tx): Promise<OrderRow> {
+  const id = Number(getRouterParam(event, 'id'))
+  if (!Number.isSafeInteger(id) || id < 1) throw notFound('That order')
+  const order = await loadOrder(lock ?? useDb(), id, !!lock)
+  if (!order || !canSeeOrder(user, order)) throw notFound('That order')
+  return order
+}
+
+export async function orderPeople(db: DbOrTx, order: OrderRow) {
+  const [row] = await db.select({ school: schools, buyer: { name: users.name, email: users.email } })
+    .from(schools).innerJoin(users, eq(users.id, order.placedById)).where(eq(schools.id, order.schoolId)).limit(1)
+  const [po] = await db.select().from(purchaseOrders).where(eq(purchaseOrders.orderId, order.id)).limit(1)
+  return { school: row!.school, buyer: row!.buyer, po }
+}
+
+export const linesOf = (db: DbOrTx, orderId: number) => db.select().from(orderLines).where(eq(orderLines.orderId, orderId)).orderBy(asc(orderLines.id))
+
+/** Records a payment once: a second call (a replayed webhook, a late admin entry) changes nothing. */
+export async function markOrderPaid(tx: Tx, orderId: number, how: { message: string; reference: string | null; actorId: number | null }) {
+  const order = await loadOrder(tx, orderId, true)
+  if (!order || order.paidAt || order.status === 'cancelled') return false
+  const paidAt = new Date()
+  await tx.update(orders).set({
+    paidAt, paymentReference: how.reference, updatedAt: paidAt,
+    status: order.status === 'awaiting payment' || order.status === 'po review' ? 'paid' : order.status,
+  }).where(eq(orders.id, orderId))
+  await addOrderEvent(tx, orderId, 'paid', how.message, how.actorId)
+  const { school, buyer, po } = await orderPeople(tx, order)
+  const lines = await linesOf(tx, orderId)
+  const money = { ...order, taxRateBasisPoints: useRuntimeConfig().taxRateBasisPoints as number }
+  const pdf = order.paymentMethod === 'card' || !po
+    ? await cardReceiptPdf({ ...money, number: order.number!, paidAt }, lines, school, buyer.name)
+    : await invoicePdf({ number: order.invoiceNumber ?? order.number!, dueAt: order.invoiceDueAt, poNumber: po.poNumber, orderNumber: order.number!, issuedAt: order.createdAt, payUrl: null }, money, lines, school, po.apEmail, { at: paidAt, reference: how.reference })
+  const mail = paymentReceivedMail(buyer.name, { number: order.number!, totalCents: order.totalCents }, appUrl(`/orders/${orderId}`))
+  await enqueueMail(tx, 'payment-received', buyer.email, mail, [{ filename: `Tiltwright-receipt-${order.number}.pdf`, contentType: 'application/pdf', content: pdf }])
+  return true
+}
+
+export async function orderView(db: DbOrTx, order: OrderRow, user: SessionUser): Promise<OrderView> {
+  const [lines, events, ships, held, files, people] = await Promise.all([
+    linesOf(db, order.id),
+    db.select().from(orderEvents).where(eq(orderEvents.orderId, order.id)).orderBy(asc(orderEvents.createdAt), asc(orderEvents.id)),
+    db.select().from(shipments).where(eq(shipments.orderId, order.id)).orderBy(asc(shipments.shippedAt)),
+    db.select({ r: stockReservations, code: batches.code }).from(stockReservations).innerJoin(batches, eq(batches.id, stockReservations.batchId))
+      .where(eq(stockReservations.orderId, order.id)).orderBy(asc(stockReservations.id)),
+    db.select().from(storedFiles).where(eq(storedFiles.orderId, order.id)).orderBy(asc(storedFiles.id)),
+    orderPeople(db, order),
+  ])
+  const names = new Map(lines.map((l) => [l.productId, l.name]))
+  const allocated = held.some((h) => h.r.status === 'allocated') && !held.some((h) => h.r.status === 'reserved')
+  const docs: OrderDocument[] = []
+  if (canSeeOrderDocuments(user, order)) {
+    const base = `/api/orders/${order.id}/documents`
+    if (order.quoteId) docs.push({ kind: 'quote', label: 'Quote (PDF)', url: `/api/quotes/${order.quoteId}/pdf` })
+    for (const f of files) docs.push({ kind: f.kind, label: f.kind === 'purchase-order' ? `Purchase order: ${f.filename}` : `Tax-exemption certificate: ${f.filename}`, url: `/api/orders/${order.id}/files/${f.id}` })
+    if (order.invoiceId) docs.push({ kind: 'invoice', label: `Invoice ${order.invoiceNumber ?? ''} (PDF)`.replace('  ', ' '), url: `${base}/invoice` })
+    if (order.paidAt) docs.push({ kind: 'receipt', label: 'Receipt (PDF)', url: `${base}/receipt` })
+    if (allocated) docs.push({ kind: 'packing-list', label: 'Packing list (PDF)', url: `${base}/packing-list` })
+  }
+  const payUrl = order.paidAt || order.status === 'cancelled' ? null
+    : order.paymentMethod === 'card' ? (order.status === 'awaiting payment' ? order.checkoutUrl : null) : order.invoiceUrl
+  return {
+    id: order.id, number: order.number!, status: order.status, paymentMethod: order.paymentMethod,
+    subtotalCents: order.subtotalCents, shippingCents: order.shippingCents, taxCents: order.taxCents, totalCents: order.totalCents, taxExempt: order.taxExempt,
+    createdAt: order.createdAt.toISOString(), paidAt: order.paidAt?.toISOString() ?? null,
+    school: { id: people.school.id, name: people.school.name, district: people.school.district, taxExemption: people.school.taxExemption },
+    placedBy: people.buyer, quoteId: order.quoteId,
+    lines: lines.map((l) => ({ productId: l.productId, name: l.name, quantity: l.quantity, tierMinQuantity: l.tierMinQuantity, unitPriceCents: l.unitPriceCents, lineTotalCents: l.lineTotalCents })),
+    events: events.map((e) => ({ id: e.id, kind: e.kind, message: e.message, createdAt: e.createdAt.toISOString() })),
+    shipments: ships.map((s) => ({ id: s.id, carrier: s.carrier, tracking: s.tracking, shippedAt: s.shippedAt.toISOString() })),
+    documents: docs,
+    payUrl: canSeeOrderDocuments(user, order) ? payUrl : null,
+    invoice: order.invoiceId ? { number: order.invoiceNumber, dueAt: order.invoiceDueAt?.toISOString() ?? null } : null,
+    purchaseOrder: people.po ? { poNumber: people.po.poNumber, apEmail: people.po.apEmail, status: people.po.status, rejectReason: people.po.rejectReason } : null,
+    reservations: held.map((h) => ({ batchCode: h.code, productName: names.get(h.r.productId) ?? '', quantity: h.r.quantity, status: h.r.status })),
+    allocated,
+    canCancel: canCancelOrder(user, order),
+  }
+}
+
+/** The view for the caller, reloaded after a change. */
+export async function replyWithOrder(orderId: number, user: SessionUser) {
+  const db = useDb()
+  const fresh = await loadOrder(db, orderId)
+  return orderView(db, fresh!, user)
+}
+
+/** Cancels an unpaid order and releases its stock, inside the caller's transaction. */
+export async function cancelOrderIn(tx: Tx, order: OrderRow, actor: SessionUser, message: string) {
+  await tx.update(orders).set({ status: 'cancelled', updatedAt: new Date() }).where(eq(orders.id, order.id))
+  const released = await releaseStock(tx, order.id)
+  await addOrderEvent(tx, order.id, 'cancelled', `${message}${released ? ` ${released} reserved unit(s) went back into stock.` : ''}`, actor.id)
+  if (order.quoteId) await tx.update(quotes).set({ orderId: null }).where(and(eq(quotes.id, order.quoteId), eq(quotes.orderId, order.id)))
+}
+
+/** The order's charge as the provider's line items: goods at their tier price, then shipping and tax. */
+export function chargeLinesFor(lines: Omit<PricedLine, 'productId'>[], totals: Pick<Totals, 'shippingCents' | 'taxCents'>) {
+  return [
+    ...lines.map((l) => ({ description: `${l.name} (tier ${l.tierMinQuantity}+)`, quantity: l.quantity, unitAmountCents: l.unitPriceCents })),
+    ...(totals.shippingCents ? [{ description: 'Shipping', quantity: 1, unitAmountCents: totals.shippingCents }] : []),
+    ...(totals.taxCents ? [{ description: 'Sales tax', quantity: 1, unitAmountCents: totals.taxCents }] : []),
+  ]
+}
+
+export const formatCentsForEvent = (cents: number | null | undefined) => formatCents(cents ?? 0)
+
+export function orderRowOf(r: { o: OrderRow; school: string; poNumber: string | null }) {
+  return {
+    id: r.o.id, number: r.o.number!, status: r.o.status, paymentMethod: r.o.paymentMethod, totalCents: r.o.totalCents,
+    createdAt: r.o.createdAt.toISOString(), school: r.school, poNumber: r.poNumber, paid: !!r.o.paidAt,
+  }
+}

@@ -1,0 +1,110 @@
+// Zod schemas of the shop, shared by its forms and its routes.
+import { z } from 'zod'
+import { tierProblems } from '../utils/pricing'
+import { listQuerySchema } from './list'
+import { ORDER_STATUSES } from '../utils/shop-rules'
+
+const id = (what: string) => z.coerce.number({ error: `Choose ${what}.` }).int(`Choose ${what}.`).positive(`Choose ${what}.`)
+
+export const MAX_LINE_QUANTITY = 500
+
+export const cartLineSchema = z.object({
+  productId: id('a product'),
+  quantity: z.coerce.number({ error: 'Enter a quantity.' }).int('Use a whole number.').min(1, 'At least 1.').max(MAX_LINE_QUANTITY, `At most ${MAX_LINE_QUANTITY} in one order.`),
+})
+
+export const linesSchema = z.array(cartLineSchema, { error: 'The cart is missing.' })
+  .min(1, 'The cart is empty.').max(40, 'At most 40 different items in one order.')
+  .refine((lines) => new Set(lines.map((l) => l.productId)).size === lines.length, 'Each product may appear once; change its quantity instead.')
+
+export const cartSchema = z.object({ lines: linesSchema })
+
+/** Checkout from the cart's lines or from a saved quote (at its quoted prices). */
+export const checkoutSourceSchema = z.union([
+  z.object({ quoteId: id('a quote'), lines: z.undefined().optional() }),
+  z.object({ lines: linesSchema, quoteId: z.undefined().optional() }),
+], { error: 'Send the cart lines or a quote.' })
+
+const email = (label: string) => z.string({ error: `Enter ${label}.` }).trim().toLowerCase().min(1, `Enter ${label}.`)
+  .max(254, 'That e-mail address is too long.').pipe(z.email({ error: 'That does not look like an e-mail address.' }))
+
+/** The text fields of the purchase-order form (the files are checked from their bytes). */
+export const purchaseOrderFieldsSchema = z.object({
+  poNumber: z.string({ error: 'Enter the purchase-order number.' }).trim().min(1, 'Enter the purchase-order number.').max(60, 'Keep the PO number under 61 characters.')
+    .regex(/^[A-Za-z0-9][A-Za-z0-9 ./_#-]*$/, 'Use letters, digits, spaces and . / _ # - only.'),
+  apEmail: email('the accounts-payable e-mail address'),
+})
+
+export const UPLOAD_LIMIT_BYTES = 5 * 1024 * 1024
+export const UPLOAD_TYPES = ['application/pdf', 'image/png', 'image/jpeg', 'image/webp'] as const
+
+export const rejectSchema = z.object({
+  reason: z.string({ error: 'Say why the purchase order is rejected.' }).trim().min(5, 'Say why in a few words (the teacher reads this).').max(500, 'Keep the reason under 501 characters.'),
+})
+
+export const approveSchema = z.object({
+  acceptTaxCertificate: z.boolean().optional().default(false),
+})
+
+export const shipmentSchema = z.object({
+  carrier: z.string({ error: 'Enter the carrier.' }).trim().min(2, 'Enter the carrier.').max(60, 'Keep the carrier under 61 characters.'),
+  tracking: z.string({ error: 'Enter the tracking number.' }).trim().min(4, 'Enter the tracking number.').max(80, 'Keep the tracking number under 81 characters.')
+    .regex(/^[A-Za-z0-9 -]+$/, 'Use letters, digits, spaces and dashes only.'),
+})
+
+export const recordPaymentSchema = z.object({
+  reference: z.string({ error: 'Enter the payment reference.' }).trim().min(2, 'Enter the payment reference (cheque or transfer number).').max(120, 'Keep the reference under 121 characters.'),
+})
+
+export const adminOrderListQuery = listQuerySchema(['number', 'createdAt', 'status', 'totalCents', 'school'] as const, 'createdAt').extend({
+  status: z.enum(ORDER_STATUSES, { error: 'Filter by a known status.' }).optional(),
+  method: z.enum(['card', 'purchase-order'], { error: 'Filter by card or purchase-order.' }).optional(),
+})
+
+const slug = z.string({ error: 'Enter a slug.' }).trim().toLowerCase().min(2, 'Enter a slug.').max(80, 'Keep the slug under 81 characters.')
+  .regex(/^[a-z0-9]+(-[a-z0-9]+)*$/, 'Use lowercase letters, digits and single dashes, e.g. long-beam-kit.')
+
+export const tierSchema = z.object({
+  minQuantity: z.coerce.number({ error: 'Enter a quantity.' }).int('Use a whole number.').min(1, 'At least 1.').max(10_000, 'At most 10000.'),
+  unitPriceCents: z.coerce.number({ error: 'Enter a price.' }).int('Use whole cents.').min(1, 'Above zero.').max(10_000_000, 'That price is too high.'),
+})
+
+export const tiersSchema = z.array(tierSchema).superRefine((tiers, ctx) => {
+  const problem = tierProblems(tiers)
+  if (problem) ctx.addIssue({ code: 'custom', message: problem })
+})
+
+const specSchema = z.object({
+  label: z.string().trim().min(1, 'Name the spec.').max(60, 'Keep it short.'),
+  value: z.string().trim().min(1, 'Give the value.').max(160, 'Keep it short.'),
+})
+
+export const productSchema = z.object({
+  slug,
+  name: z.string({ error: 'Enter the name.' }).trim().min(2, 'Enter the name.').max(120, 'Keep the name under 121 characters.'),
+  kind: z.enum(['kit', 'part'], { error: 'A product is a kit or a part.' }),
+  summary: z.string({ error: 'Enter a one-line summary.' }).trim().min(5, 'Enter a one-line summary.').max(300, 'Keep the summary under 301 characters.'),
+  description: z.string().trim().max(4000, 'Keep the description under 4001 characters.').default(''),
+  specs: z.array(specSchema).max(20, 'At most 20 specs.').default([]),
+  image: z.string().trim().regex(/^\/catalog\/[a-z0-9-]+\.svg$/, 'Use a drawing from /catalog/, e.g. /catalog/rig-kit.svg.').default('/catalog/part.svg'),
+  weightGrams: z.coerce.number({ error: 'Enter the packed weight.' }).int('Use whole grams.').min(1, 'At least 1 g.').max(50_000, 'At most 50 kg.'),
+  active: z.boolean().default(true),
+  tiers: tiersSchema,
+})
+
+export const productPatchSchema = productSchema.partial()
+
+export const batchSchema = z.object({
+  productId: id('a product'),
+  code: z.string({ error: 'Enter the batch code.' }).trim().min(1, 'Enter the batch code.').max(40, 'Keep the code under 41 characters.')
+    .regex(/^[A-Za-z0-9-]+$/, 'Use letters, digits and dashes only.'),
+  quantity: z.coerce.number({ error: 'Enter how many were built.' }).int('Use a whole number.').min(1, 'At least 1.').max(100_000, 'At most 100000.'),
+  builtOn: z.coerce.date({ error: 'Enter the date it was built.' }).optional(),
+})
+
+export const batchPatchSchema = z.object({
+  quantity: batchSchema.shape.quantity,
+})
+
+export type CartLine = z.output<typeof cartLineSchema>
+export type ProductInput = z.input<typeof productSchema>

@@ -1,0 +1,59 @@
+// What the shop's routes answer; the pages type their useFetch calls with these.
+import type { PriceTier, PricedLine, Totals } from '../utils/pricing'
+import type { OrderStatus, PaymentMethod } from '../utils/shop-rules'
+
+export interface BatchView { id: number; code: string; quantityBuilt: number; left: number; builtOn: string }
+
+export interface ProductView {
+  id: number; slug: string; name: string; kind: 'kit' | 'part'; summary: string; image: string
+  priceTiers: PriceTier[]; available: number; batches: BatchView[]; active: boolean
+}
+
+export interface ProductDetail extends ProductView {
+  description: string; specs: { label: string; value: string }[]; weightGrams: number
+}
+
+export interface PricedCartLine extends PricedLine { slug: string; image: string; available: number; short: boolean }
+
+export interface PricedCart extends Totals {
+  lines: PricedCartLine[]
+  /** Lines dropped because the product is gone or no longer sold. */
+  missing: number[]
+  signedIn: boolean
+}
+
+export interface DocLine { name: string; quantity: number; tierMinQuantity: number; unitPriceCents: number; lineTotalCents: number; productId: number }
+
+export interface QuoteView extends Totals {
+  id: number; number: string; createdAt: string; validUntil: string; valid: boolean; orderId: number | null
+  school: { name: string }
+  lines: DocLine[]
+}
+
+export interface OrderEventView { id: number; kind: string; message: string; createdAt: string }
+export interface ShipmentView { id: number; carrier: string; tracking: string; shippedAt: string }
+export interface OrderDocument { kind: 'quote' | 'invoice' | 'receipt' | 'packing-list' | 'purchase-order' | 'tax-certificate'; label: string; url: string }
+
+export interface OrderView {
+  id: number; number: string; status: OrderStatus; paymentMethod: PaymentMethod
+  subtotalCents: number; shippingCents: number; taxCents: number; totalCents: number; taxExempt: boolean
+  createdAt: string; paidAt: string | null
+  school: { id: number; name: string; district: string | null; taxExemption: string }
+  placedBy: { name: string; email: string }
+  quoteId: number | null
+  lines: DocLine[]
+  events: OrderEventView[]
+  shipments: ShipmentView[]
+  documents: OrderDocument[]
+  payUrl: string | null
+  invoice: { number: string | null; dueAt: string | null } | null
+  purchaseOrder: { poNumber: string; apEmail: string; status: 'review' | 'approved' | 'rejected'; rejectReason: string | null } | null
+  reservations: { batchCode: string; productName: string; quantity: number; status: 'reserved' | 'allocated' | 'released' }[]
+  allocated: boolean
+  canCancel: boolean
+}
+
+export interface OrderSummary {
+  id: number; number: string; status: OrderStatus; paymentMethod: PaymentMethod; totalCents: number
+  createdAt: string; school: string; poNumber: string | null; paid: boolean
+}

@@ -1,0 +1,118 @@
+// Classroom pricing, shipping and tax: pure integer-cent arithmetic used by the cart, quotes,
+// orders and their PDFs. Nothing here touches floating-point money.
+
+export interface PriceTier { minQuantity: number; unitPriceCents: number }
+
+export interface PricedLineInput {
+  productId: number
+  name: string
+  quantity: number
+  tiers: PriceTier[]
+  weightGrams: number
+}
+
+export interface PricedLine {
+  productId: number
+  name: string
+  quantity: number
+  tierMinQuantity: number
+  unitPriceCents: number
+  lineTotalCents: number
+}
+
+export interface Totals {
+  subtotalCents: number
+  shippingCents: number
+  taxCents: number
+  totalCents: number
+  taxExempt: boolean
+  taxRateBasisPoints: number
+}
+
+/** Tiltwright's shipping table: a handling charge plus a charge per started half kilogram,
+ *  capped, and free freight for orders whose goods reach the threshold. */
+export const SHIPPING = {
+  handlingCents: 900,
+  perHalfKiloCents: 140,
+  capCents: 9500,
+  freeFromSubtotalCents: 150_000,
+}
+
+/** The estimated sales-tax rate applied to goods (not shipping), in basis points (1/100 %). */
+export const DEFAULT_TAX_RATE_BP = 725
+
+/** The tier for a quantity: the one with the highest minimum that the quantity reaches. */
+export function tierFor(tiers: readonly PriceTier[], quantity: number): PriceTier {
+  if (!Number.isInteger(quantity) || quantity < 1) throw new RangeError('quantity must be a whole number of at least 1')
+  let best: PriceTier | undefined
+  for (const t of tiers) if (t.minQuantity <= quantity && (!best || t.minQuantity > best.minQuantity)) best = t
+  if (!best) throw new RangeError('no price tier covers this quantity (every product needs a tier from 1)')
+  return best
+}
+
+export function priceLine(line: PricedLineInput): PricedLine {
+  const tier = tierFor(line.tiers, line.quantity)
+  return {
+    productId: line.productId, name: line.name, quantity: line.quantity,
+    tierMinQuantity: tier.minQuantity, unitPriceCents: tier.unitPriceCents, lineTotalCents: tier.unitPriceCents * line.quantity,
+  }
+}
+
+export function shippingCents(subtotalCents: number, totalWeightGrams: number): number {
+  if (totalWeightGrams <= 0 || subtotalCents <= 0) return 0
+  if (subtotalCents >= SHIPPING.freeFromSubtotalCents) return 0
+  const halfKilos = Math.ceil(totalWeightGrams / 500)
+  return Math.min(SHIPPING.capCents, SHIPPING.handlingCents + halfKilos * SHIPPING.perHalfKiloCents)
+}
+
+/** Tax on the goods, rounded half up to the cent; zero for an accepted exemption. */
+export function taxCents(subtotalCents: number, rateBasisPoints: number, exempt: boolean): number {
+  if (exempt || subtotalCents <= 0 || rateBasisPoints <= 0) return 0
+  return Math.floor((subtotalCents * rateBasisPoints + 5000) / 10_000)
+}
+
+export function totalsFor(lines: readonly PricedLine[], totalWeightGrams: number, opts: { exempt: boolean; rateBasisPoints?: number }): Totals {
+  const rate = opts.rateBasisPoints ?? DEFAULT_TAX_RATE_BP
+  const subtotal = lines.reduce((s, l) => s + l.lineTotalCents, 0)
+  const shipping = shippingCents(subtotal, totalWeightGrams)
+  const tax = taxCents(subtotal, rate, opts.exempt)
+  return { subtotalCents: subtotal, shippingCents: shipping, taxCents: tax, totalCents: subtotal + shipping + tax, taxExempt: opts.exempt, taxRateBasisPoints: rate }
+}
+
+/** Prices a whole cart: each line at its tier, then shipping by weight and tax. */
+export function priceCart(lines: readonly PricedLineInput[], opts: { exempt: boolean; rateBasisPoints?: number }) {
+  const priced = lines.map(priceLine)
+  const weight = lines.reduce((w, l) => w + l.weightGrams * l.quantity, 0)
+  return { lines: priced, ...totalsFor(priced, weight, opts) }
+}
+
+/** "$1,234.50" — cents to US dollars for display; the only place money becomes text. */
+export function formatCents(cents: number): string {
+  const sign = cents < 0 ? '-' : ''
+  const abs = Math.abs(cents)
+  const dollars = Math.floor(abs / 100).toString().replace(/\B(?=(\d{3})+(?!\d))/g, ',')
+  return `${sign}$${dollars}.${String(abs % 100).padStart(2, '0')}`
+}
+
+/** A tier's quantity range as text, given all the product's tiers: "1–4", "5–11", "12+". */
+export function tierRangeLabel(tiers: readonly PriceTier[], tier: PriceTier): string {
+  const next = [...tiers].map((t) => t.minQuantity).filter((m) => m > tier.minQuantity).sort((a, b) => a - b)[0]
+  if (next === undefined) return `${tier.minQuantity}+`
+  return next - 1 === tier.minQuantity ? `${tier.minQuantity}` : `${tier.minQuantity}–${next - 1}`
+}
+
+/** A tier list is usable when it starts at 1, has no repeated minimum, and every price is positive. */
+export function tierProblems(tiers: readonly PriceTier[]): string | null {
+  if (!tiers.length) return 'Add at least one price tier.'
+  if (!tiers.some((t) => t.minQuantity === 1)) return 'One tier must start at quantity 1.'
+  if (new Set(tiers.map((t) => t.minQuantity)).size !== tiers.length) return 'Two tiers start at the same quantity.'
+  if (tiers.some((t) => !Number.isInteger(t.unitPriceCents) || t.unitPriceCents <= 0)) return 'Every tier needs a price above zero.'
+  return null
+}
+
+export const QUOTE_VALID_DAYS = 30
+export const INVOICE_NET_DAYS = 30
+
+export function addDays(date: Date, days: number): Date {
+  return new Date(date.getTime() + days * 24 * 3600_000)
+}

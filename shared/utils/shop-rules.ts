@@ -1,0 +1,69 @@
+// Who may see and do what with quotes and orders, and which order steps are open. Pure
+// rules shared by the routes (the gate) and the pages (to hide what cannot be used).
+import type { SessionUser } from './roles'
+
+type Who = Pick<SessionUser, 'role' | 'schoolId'> | null | undefined
+
+export const ORDER_STATUSES = ['placed', 'po review', 'awaiting payment', 'paid', 'shipped', 'delivered', 'cancelled'] as const
+export type OrderStatus = (typeof ORDER_STATUSES)[number]
+export type PaymentMethod = 'card' | 'purchase-order'
+
+export const ORDER_STATUS_LABELS: Record<OrderStatus, string> = {
+  'placed': 'Placed',
+  'po review': 'PO under review',
+  'awaiting payment': 'Awaiting payment',
+  'paid': 'Paid',
+  'shipped': 'Shipped',
+  'delivered': 'Delivered',
+  'cancelled': 'Cancelled',
+}
+
+/** Admins see every order; support read it for context; a teacher sees their own school's. */
+export function canSeeOrder(u: Who, order: { schoolId: number }): boolean {
+  if (!u) return false
+  if (u.role === 'admin' || u.role === 'support') return true
+  return u.role === 'teacher' && u.schoolId !== null && u.schoolId === order.schoolId
+}
+
+/** Quotes carry prices: the school's teachers and admins only. */
+export function canSeeQuote(u: Who, quote: { schoolId: number }): boolean {
+  if (!u) return false
+  if (u.role === 'admin') return true
+  return u.role === 'teacher' && u.schoolId !== null && u.schoolId === quote.schoolId
+}
+
+/** Documents with prices (quote, invoice, receipt, uploaded PO) are not for support. */
+export function canSeeOrderDocuments(u: Who, order: { schoolId: number }): boolean {
+  return !!u && u.role !== 'support' && canSeeOrder(u, order)
+}
+
+export function isQuoteValid(quote: { validUntil: Date | string; orderId: number | null }, now = new Date()): boolean {
+  return quote.orderId === null && new Date(quote.validUntil).getTime() > now.getTime()
+}
+
+const UNPAID: readonly OrderStatus[] = ['placed', 'po review', 'awaiting payment']
+
+/** A teacher may cancel their own unpaid order; an admin may cancel any unpaid one. */
+export function canCancelOrder(u: Who, order: { schoolId: number; status: OrderStatus }): boolean {
+  if (!UNPAID.includes(order.status)) return false
+  if (u?.role === 'admin') return true
+  return u?.role === 'teacher' && canSeeOrder(u, order)
+}
+
+/** The admin's next steps on an order, by its status. */
+/** A purchase order on net-30 terms ships once approved; a card order once paid. */
+export function adminActions(order: { status: OrderStatus; paymentMethod: PaymentMethod; allocated: boolean; paid: boolean }) {
+  const s = order.status
+  const approvedPo = order.paymentMethod === 'purchase-order' && s === 'awaiting payment'
+  return {
+    reviewPo: s === 'po review' && order.paymentMethod === 'purchase-order',
+    allocate: !order.allocated && ['po review', 'awaiting payment', 'paid'].includes(s),
+    ship: order.allocated && (s === 'paid' || approvedPo),
+    recordPayment: !order.paid && (approvedPo || (order.paymentMethod === 'purchase-order' && ['shipped', 'delivered'].includes(s))),
+    markDelivered: s === 'shipped',
+    cancel: UNPAID.includes(s),
+  }
+}
+
+/** Stock left in a batch, never shown below zero. */
+export const unitsLeft = (batch: { quantityBuilt: number; reserved: number }) => Math.max(0, batch.quantityBuilt - batch.reserved)

@@ -1,0 +1,101 @@
+// Shop test helpers: fresh teachers of fresh (taxed) schools, a product with known stock,
+// the payment SDK pointed at the app's fake, and paying on the fake's hosted page.
+import Stripe from 'stripe'
+import { inject } from 'vitest'
+import { Client, uniqueEmail } from './client'
+
+// The fake's key and webhook secret are nuxt.config.ts's runtimeConfig defaults.
+export const FAKE_KEY = 'sk_test_tiltwright_local_fake'
+export const WEBHOOK_SECRET = 'whsec_tiltwright_local_fake_signing_secret'
+// The fake's test cards (server/fake-payments/pages.ts).
+export const CARD_OK = '4242 4242 4242 4242'
+export const CARD_DECLINED = '4000 0000 0000 0002'
+
+export async function signedIn(email: string) {
+  const c = new Client()
+  await c.signIn(email)
+  return c
+}
+
+export async function newTeacher(tag = 'shop') {
+  const c = new Client()
+  const email = uniqueEmail(tag)
+  const r = await c.post('/api/auth/register', {
+    name: `Teacher ${tag}`, email, password: 'a-long-password-1',
+    school: { name: `${tag} Academy ${Math.random().toString(36).slice(2, 6)}`, addressLine1: '1 Test Lane', city: 'Ridgeford', region: 'WA', postalCode: '98999' },
+  })
+  if (r.status !== 201) throw new Error(`register failed: ${r.status} ${JSON.stringify(r.body)}`)
+  return { client: c, email, user: r.body.user }
+}
+
+let seq = 0
+/** A product of its own with one batch, so a test knows exactly how much stock there is. */
+export async function productWithStock(admin: Client, quantity: number, tiers = [{ minQuantity: 1, unitPriceCents: 2500 }, { minQuantity: 10, unitPriceCents: 2000 }]) {
+  const slug = `test-part-${Date.now().toString(36)}-${++seq}`
+  const p = await admin.post('/api/admin/products', { slug, name: `Test part ${slug}`, kind: 'part', summary: 'A part made for one test.', weightGrams: 100, tiers })
+  if (p.status !== 201) throw new Error(`product create failed: ${p.status} ${JSON.stringify(p.body)}`)
+  const b = await admin.post('/api/admin/batches', { productId: p.body.id, code: `T-${slug.slice(-10)}`, quantity })
+  if (b.status !== 201) throw new Error(`batch create failed: ${b.status} ${JSON.stringify(b.body)}`)
+  return { productId: p.body.id as number, batchId: b.body.id as number, slug }
+}
+
+export async function productBySlug(slug: string) {
+  const r = await new Client().get('/api/products')
+  const p = r.body.data.find((x: any) => x.slug === slug)
+  if (!p) throw new Error(`no product ${slug}`)
+  return p
+}
+
+export function fakeStripe() {
+  const base = new URL(inject('baseUrl'))
+  return new Stripe(FAKE_KEY, { host: base.hostname, port: Number(base.port), protocol: 'http', telemetry: false })
+}
+
+/** Submits a card number on the fake's hosted page, like a buyer's browser would. */
+export async function payOnPage(url: string, card: string) {
+  const page = await fetch(url)
+  const html = await page.text()
+  const action = html.match(/<form method="post" action="([^"]+)"/)?.[1]
+  if (!action) throw new Error(`no card form on ${url}: ${html.slice(0, 300)}`)
+  const res = await fetch(new URL(action, url), { method: 'POST', body: new URLSearchParams({ card }), redirect: 'manual', headers: { 'content-type': 'application/x-www-form-urlencoded' } })
+  return { status: res.status, location: res.headers.get('location'), html: await res.text(), pageHtml: html }
+}
+
+export async function waitForOrder(c: Client, id: number, done: (o: any) => boolean, timeoutMs = 10_000) {
+  const deadline = Date.now() + timeoutMs
+  for (;;) {
+    const r = await c.get(`/api/orders/${id}`)
+    if (r.status === 200 && done(r.body)) return r.body
+    if (Date.now() > deadline) throw new Error(`order ${id} did not reach the expected state: ${JSON.stringify(r.body).slice(0, 500)}`)
+    await new Promise((ok) => setTimeout(ok, 150))
+  }
+}
+
+export async function attachmentBytes(mailId: number, n = 0) {
+  const res = await fetch(`${inject('mailUrl')}/messages/${mailId}/attachments/${n}`)
+  if (!res.ok) throw new Error(`attachment ${n} of mail ${mailId}: ${res.status}`)
+  return new Uint8Array(await res.arrayBuffer())
+}
+
+export async function pdfText(bytes: Uint8Array) {
+  const { extractText, getDocumentProxy } = await import('unpdf')
+  const pdf = await getDocumentProxy(bytes)
+  const { text } = await extractText(pdf, { mergePages: true })
+  return text
+}
+
+// Smallest real files whose first bytes file-type recognises (PDF header, PNG signature + IHDR).
+export const PDF_BYTES = Buffer.from('%PDF-1.4\n1 0 obj<</Type/Catalog/Pages 2 0 R>>endobj\n2 0 obj<</Type/Pages/Kids[]/Count 0>>endobj\ntrailer<</Root 1 0 R>>\n%%EOF\n')
+export const PNG_BYTES = Buffer.from('89504e470d0a1a0a0000000d49484452000000010000000108060000001f15c4890000000d4944415478da63f8ffff3f0005fe02fea7d6a4f20000000049454e44ae426082', 'hex')
+
+export function poForm(fields: { lines?: unknown; quoteId?: number; poNumber?: string; apEmail?: string; poFile?: { data: Buffer; name: string; type?: string } | null; taxCertificate?: { data: Buffer; name: string; type?: string } }) {
+  const f = new FormData()
+  if (fields.lines !== undefined) f.set('lines', JSON.stringify(fields.lines))
+  if (fields.quoteId !== undefined) f.set('quoteId', String(fields.quoteId))
+  f.set('poNumber', fields.poNumber ?? `PO-${Math.floor(Math.random() * 1e6)}`)
+  f.set('apEmail', fields.apEmail ?? 'payables@district.test')
+  const po = fields.poFile === undefined ? { data: PDF_BYTES, name: 'po.pdf', type: 'application/pdf' } : fields.poFile
+  if (po) f.set('poFile', new Blob([po.data], { type: po.type ?? 'application/pdf' }), po.name)
+  if (fields.taxCertificate) f.set('taxCertificate', new Blob([fields.taxCertificate.data], { type: fields.taxCertificate.type ?? 'image/png' }), fields.taxCertificate.name)
+  return f
+}
