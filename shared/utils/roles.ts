@@ -37,8 +37,16 @@ export interface NavLink { to: string; label: string }
 
 /** The header's links for a role (anonymous visitors get the public ones). */
 export function navigationFor(u: Who): NavLink[] {
-  const links: NavLink[] = [{ to: '/planner', label: 'Gain Planner' }, { to: '/safety', label: 'Safety' }]
+  const shop = u?.role !== 'builder'
+  const links: NavLink[] = [
+    ...(shop ? [{ to: '/kits', label: 'Kits' }] : []),
+    { to: '/planner', label: 'Gain Planner' },
+    { to: '/safety', label: 'Safety' },
+  ]
+  if (!u || canBuy(u)) links.push({ to: '/cart', label: 'Cart' })
   if (!u) return links
+  if (canBuy(u)) links.push({ to: '/quotes', label: 'Quotes' }, { to: '/orders', label: 'Orders' })
+  if (isCustomer(u)) links.push({ to: '/sheets', label: 'My sheets' })
   if (isStaff(u)) links.push({ to: '/staff', label: 'Staff desk' })
   if (isAdmin(u)) links.push({ to: '/admin/staff', label: 'Staff accounts' })
   return links

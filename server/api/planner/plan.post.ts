@@ -1,0 +1,9 @@
+// Suggested gains for a rig and targets. Open to anyone, nothing saved; rate-limited in
+// nuxt.config (routeRules) because it is computation on demand.
+import { planRequestSchema } from '../../../shared/schemas/planner'
+import { planGains } from '../../../shared/utils/planner/plan'
+
+export default defineEventHandler(async (event) => {
+  const { rig, targets } = await readBodyAs(event, planRequestSchema)
+  return planGains(rig, targets)
+})

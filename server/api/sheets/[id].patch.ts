@@ -1,0 +1,15 @@
+import { eq } from 'drizzle-orm'
+import { idParams } from '../../../shared/schemas/ids'
+import { updateSheetSchema } from '../../../shared/schemas/planner'
+import { canEditSheet } from '../../../shared/utils/sheets'
+import { tuningSheets } from '../../database/schema'
+
+export default defineEventHandler(async (event) => {
+  const user = await requireUser(event)
+  const { id } = paramsAs(event, idParams)
+  const input = await readBodyAs(event, updateSheetSchema)
+  const sheet = await loadVisibleSheet(user, id)
+  if (!canEditSheet(user, sheet)) throw forbidden('Only the sheet\'s author can change it.')
+  await useDb().update(tuningSheets).set({ ...(input.title ? { title: input.title } : {}), note: input.note }).where(eq(tuningSheets.id, id))
+  return await loadVisibleSheet(user, id)
+})

@@ -1,0 +1,169 @@
+// Rail sensor calibration (DOMAIN.md §6): a least-squares line position = slope·reading + offset
+// through (ADC reading, measured position) pairs. Readings pinned at 0 or at full scale carry no
+// position (no ball bridging the rails, or a ball that does not conduct) and are left out.
+import { fmt } from './format'
+
+export interface CalibrationPair {
+  /** ADC reading, counts (an average of several readings may be fractional). */
+  reading: number
+  /** Measured ball position, m. */
+  position: number
+}
+
+export type CalibrationIssueCode =
+  | 'reading-at-zero'
+  | 'reading-at-full-scale'
+  | 'reading-outside-adc-range'
+  | 'too-few-readings'
+  | 'readings-identical'
+  | 'poor-fit'
+  | 'outlier'
+
+export interface CalibrationIssue {
+  code: CalibrationIssueCode
+  /** Index into the pairs given, when the issue is about one reading. */
+  index: number | null
+  message: string
+}
+
+export interface CalibrationFit {
+  /** A line was fitted from at least two distinct in-range readings. */
+  ok: boolean
+  /** m per count. */
+  slope: number | null
+  slopeMmPerCount: number | null
+  /** Position at reading 0, m. */
+  offset: number | null
+  offsetMm: number | null
+  /** 1/|slope|: the k_s to give the planner, counts per metre. */
+  countsPerMeter: number | null
+  /** Coefficient of determination over the readings used. */
+  r2: number | null
+  /** position − fitted position per pair, m; null for a reading left out. */
+  residuals: (number | null)[]
+  /** Largest |residual| among the readings used. */
+  worstResidual: { index: number; residual: number } | null
+  /** Readings used in the fit. */
+  used: number
+  issues: CalibrationIssue[]
+}
+
+const R2_MIN = 0.995
+
+export function fitCalibration(pairs: readonly CalibrationPair[], adcBits: number): CalibrationFit {
+  const fullScale = 2 ** adcBits - 1
+  const issues: CalibrationIssue[] = []
+  const use: number[] = []
+  pairs.forEach((p, i) => {
+    const where = `${fmt(p.position * 1000)} mm`
+    if (p.reading < 0 || p.reading > fullScale) {
+      issues.push({
+        code: 'reading-outside-adc-range',
+        index: i,
+        message: `Reading ${fmt(p.reading)} at ${where} is outside what a ${adcBits}-bit ADC can give (0 to ${fullScale}); check it was typed right.`,
+      })
+    } else if (p.reading <= 0) {
+      issues.push({
+        code: 'reading-at-zero',
+        index: i,
+        message:
+          `Reading 0 at ${where}: the sensor sees no ball there. The ball is off the rails or not touching both, ` +
+          'or it does not conduct (glass and plastic balls cannot be sensed). Left out of the fit.',
+      })
+    } else if (p.reading >= fullScale) {
+      issues.push({
+        code: 'reading-at-full-scale',
+        index: i,
+        message:
+          `Reading ${fullScale} (full scale) at ${where}: the sensor sees no ball there, or the rail is wired ` +
+          'with the wrong reference. A ball that does not conduct reads like this too. Left out of the fit.',
+      })
+    } else {
+      use.push(i)
+    }
+  })
+  const residuals: (number | null)[] = pairs.map(() => null)
+  const empty: CalibrationFit = {
+    ok: false,
+    slope: null,
+    slopeMmPerCount: null,
+    offset: null,
+    offsetMm: null,
+    countsPerMeter: null,
+    r2: null,
+    residuals,
+    worstResidual: null,
+    used: use.length,
+    issues,
+  }
+  if (use.length < 2) {
+    issues.push({ code: 'too-few-readings', index: null, message: 'At least two good readings at different positions are needed for a calibration line.' })
+    return empty
+  }
+  let mx = 0
+  let my = 0
+  for (const i of use) {
+    mx += pairs[i]!.reading
+    my += pairs[i]!.position
+  }
+  mx /= use.length
+  my /= use.length
+  let sxx = 0
+  let sxy = 0
+  let syy = 0
+  for (const i of use) {
+    const dx = pairs[i]!.reading - mx
+    const dy = pairs[i]!.position - my
+    sxx += dx * dx
+    sxy += dx * dy
+    syy += dy * dy
+  }
+  if (!(sxx > 0)) {
+    issues.push({ code: 'readings-identical', index: null, message: 'Every good reading is the same, so no line can be fitted: move the ball further between readings.' })
+    return empty
+  }
+  const slope = sxy / sxx
+  const offset = my - slope * mx
+  let sse = 0
+  let worst: { index: number; residual: number } | null = null
+  for (const i of use) {
+    const res = pairs[i]!.position - (slope * pairs[i]!.reading + offset)
+    residuals[i] = res
+    sse += res * res
+    if (worst === null || Math.abs(res) > Math.abs(worst.residual)) worst = { index: i, residual: res }
+  }
+  const r2 = syy > 0 ? 1 - sse / syy : 1
+  if (r2 < R2_MIN) {
+    issues.push({
+      code: 'poor-fit',
+      index: null,
+      message: `The readings do not lie on a straight line (R² = ${fmt(r2, 4)}): a rail may be dirty or loose, or a position was misread.`,
+    })
+  }
+  if (use.length >= 4 && worst !== null) {
+    // Compare the worst point with the scatter of the others, so it cannot hide its own size.
+    let others = 0
+    for (const i of use) if (i !== worst.index) others += residuals[i]! ** 2
+    const rmsOthers = Math.sqrt(others / (use.length - 1))
+    if (Math.abs(worst.residual) > 4 * rmsOthers && Math.abs(worst.residual) > 1e-4) {
+      issues.push({
+        code: 'outlier',
+        index: worst.index,
+        message: `The reading at ${fmt(pairs[worst.index]!.position * 1000)} mm is ${fmt(Math.abs(worst.residual) * 1000, 2)} mm off the line, far more than the others: measure it again.`,
+      })
+    }
+  }
+  return {
+    ok: true,
+    slope,
+    slopeMmPerCount: slope * 1000,
+    offset,
+    offsetMm: offset * 1000,
+    countsPerMeter: slope !== 0 ? 1 / Math.abs(slope) : null,
+    r2,
+    residuals,
+    worstResidual: worst,
+    used: use.length,
+    issues,
+  }
+}

@@ -1,0 +1,241 @@
+// The drawn response (DOMAIN.md §4): a nonlinear simulation of the rig as built.
+//   ball     x'' = eta·g·sin(alpha), stopped (inelastically) at the beam ends
+//   linkage  alpha(theta): exact lever geometry (default for a lever drive) or d/L_a·theta; theta/N_g direct
+//   servo    first-order lag tau_s towards the held command, speed limited to omega_max, command
+//            clamped as the generated firmware does (±travel/2, or the lever linkage's fold point)
+//   sensor   ADC counts: floor(x·k_s) clamped to [0, 2^bits − 1], read back at the count's centre
+//   firmware the §5 controller at every sample, command written on the next tick and held,
+//            integral held while the command is clamped (anti-windup)
+// Within a hold the servo angle is known in closed form (slew phase, then exponential), so only
+// the ball is integrated, by RK4 on sub-steps of T/subSteps.
+import { filterTimeConstant } from './design'
+import { beamAngleRange, leverBeamAngle, leverGeometryOf, reachableServoRange, smallAngleBeamAngle } from './geometry'
+import { plantOf } from './plant'
+import { derivativeCoefficients } from './sampled'
+import type { Discretization, Gains, Rig } from './schema'
+
+export interface SimulateOptions {
+  /** s; default 10. */
+  duration?: number
+  /** Ball start, m from the sensor's zero; default the middle of the sensor. */
+  initialPosition?: number
+  /** The nudge: ball speed at t = 0, m/s; default 0. */
+  initialSpeed?: number
+  /** A further nudge: extra ball speed (m/s) added at `time` (s). */
+  nudge?: { time: number; speed: number } | null
+  /** Setpoint before the change, m; default the start position. */
+  initialSetpoint?: number
+  /** Setpoint after the change, m; default a quarter of the sensor past the start (or before it, near the end). */
+  setpoint?: number
+  /** When the setpoint changes, s; default 0.5. */
+  setpointTime?: number
+  /** ADC quantisation; default true. */
+  quantize?: boolean
+  /** Servo travel and slew limits; default true. */
+  limits?: boolean
+  /** Lever linkage model; default 'exact'. Ignored for a direct drive. */
+  linkage?: 'exact' | 'small-angle'
+  discretization?: Discretization
+  /** RK4 sub-steps per sample; default 20. */
+  subSteps?: number
+  /** Output every this many sub-steps; default 5. */
+  outputEvery?: number
+}
+
+export interface SimulationResult {
+  /** s */
+  t: number[]
+  /** Ball position, m from the sensor's zero. */
+  x: number[]
+  /** rad */
+  beamAngle: number[]
+  /** rad */
+  servoAngle: number[]
+  /** m */
+  setpoint: number[]
+  /** Held servo command, rad. */
+  command: number[]
+  /** Ball speed, m/s. */
+  speed: number[]
+  events: {
+    /** The command was clamped at ±travel/2 at least once. */
+    travelSaturated: boolean
+    /** The servo ran at its speed limit at least once. */
+    slewLimited: boolean
+    /** The ball reached a beam end. */
+    hitEnd: boolean
+    /** The linkage could not follow the servo and was held at its reach. */
+    linkageLimited: boolean
+    /** The sensor read 0 or full scale. */
+    sensorOutOfRange: boolean
+  }
+}
+
+/** Servo angle a time t into a hold with command c, from theta0: slew-limited first-order lag. */
+export function servoAngleAt(theta0: number, c: number, t: number, tau: number, slew: number): number {
+  const gap = c - theta0
+  const dir = gap >= 0 ? 1 : -1
+  const mag = Math.abs(gap)
+  const knee = tau * slew // beyond this gap the lag would ask for more than the slew limit
+  if (mag > knee) {
+    const tSlew = (mag - knee) / slew
+    if (t <= tSlew) return theta0 + dir * slew * t
+    return c - dir * knee * Math.exp(-(t - tSlew) / tau)
+  }
+  return c - gap * Math.exp(-t / tau)
+}
+
+export function simulate(rig: Rig, gains: Gains, options: SimulateOptions = {}): SimulationResult {
+  const plant = plantOf(rig)
+  const T = plant.period
+  const tau = plant.servoLag
+  const limits = options.limits ?? true
+  const slew = limits ? plant.slewLimit : Infinity
+  // The firmware's clamp (see firmwareConstants): the servo's travel, or the linkage's fold point.
+  const range = beamAngleRange(rig)
+  const usable = Math.min(Math.abs(range.maxAtServoAngle), Math.abs(range.minAtServoAngle))
+  const half = limits ? usable : Infinity
+  const quantize = options.quantize ?? true
+  const subSteps = Math.max(1, Math.round(options.subSteps ?? 20))
+  const outputEvery = Math.max(1, Math.round(options.outputEvery ?? 5))
+  const h = T / subSteps
+  const duration = options.duration ?? 10
+  const ks = plant.countsPerMeter
+  const fullScale = 2 ** rig.adcBits - 1
+  const ag = plant.eta * plant.gravity
+  const radius = rig.ballDiameter / 2
+  const overhang = (rig.beamLength - plant.sensorLength) / 2
+  const xMin = -overhang + radius
+  const xMax = plant.sensorLength + overhang - radius
+
+  // linkage
+  let alphaOf: (theta: number) => number
+  let linkageLimited = false
+  if (rig.drive === 'direct') {
+    const ng = rig.gearRatio ?? 1
+    alphaOf = (theta) => theta / ng
+  } else {
+    const g = leverGeometryOf(rig)
+    if ((options.linkage ?? 'exact') === 'small-angle') {
+      alphaOf = (theta) => smallAngleBeamAngle(theta, g)
+    } else {
+      const [lo, hi] = reachableServoRange(g, Math.min(Math.PI, Math.max(plant.halfTravel, 0)))
+      alphaOf = (theta) => {
+        let th = theta
+        if (th > hi) {
+          th = hi
+          linkageLimited = true
+        } else if (th < lo) {
+          th = lo
+          linkageLimited = true
+        }
+        return leverBeamAngle(th, g) ?? 0
+      }
+    }
+  }
+
+  const x0 = options.initialPosition ?? plant.sensorLength / 2
+  const r0 = options.initialSetpoint ?? x0
+  let r1 = options.setpoint
+  if (r1 === undefined) {
+    const step = plant.sensorLength / 4
+    r1 = x0 + step <= plant.sensorLength ? x0 + step : x0 - step
+  }
+  const tChange = options.setpointTime ?? 0.5
+  const nudge = options.nudge ?? null
+
+  const tf = filterTimeConstant(gains.kp, gains.kd, gains.n)
+  const { a: da, b: db } = derivativeCoefficients(gains.kd, tf, T, options.discretization ?? 'backward-euler')
+  const kiT = gains.ki * T
+  const onMeasurement = gains.derivativeOn === 'measurement'
+
+  const out: SimulationResult = {
+    t: [],
+    x: [],
+    beamAngle: [],
+    servoAngle: [],
+    setpoint: [],
+    command: [],
+    speed: [],
+    events: { travelSaturated: false, slewLimited: false, hitEnd: false, linkageLimited: false, sensorOutOfRange: false },
+  }
+  const record = (t: number, x: number, v: number, th: number, r: number, c: number) => {
+    out.t.push(t)
+    out.x.push(x)
+    out.speed.push(v)
+    out.servoAngle.push(th)
+    out.beamAngle.push(alphaOf(th))
+    out.setpoint.push(r)
+    out.command.push(c)
+  }
+
+  let x = x0
+  let v = options.initialSpeed ?? 0
+  let th = 0
+  let held = 0
+  let D = 0
+  let sPrev = Number.NaN // first sample starts the derivative without a kick
+  let I = 0
+  let nudged = nudge === null
+  const samples = Math.ceil(duration / T - 1e-9)
+  for (let k = 0; k < samples; k++) {
+    const t0 = k * T
+    // sample k
+    const r = t0 < tChange ? r0 : r1
+    let xm = x
+    if (quantize) {
+      let count = Math.floor(x * ks)
+      if (count <= 0 || count >= fullScale) out.events.sensorOutOfRange = true
+      count = Math.min(Math.max(count, 0), fullScale)
+      xm = (count + 0.5) / ks
+    }
+    const e = r - xm
+    const s = onMeasurement ? -xm : e
+    if (Number.isNaN(sPrev)) sPrev = s
+    D = da * D + db * (s - sPrev)
+    sPrev = s
+    const iNext = I + kiT * e
+    let u = gains.kp * e + iNext + D
+    if (Math.abs(u) > half) {
+      out.events.travelSaturated = true
+      // Integrate only when that drives the command back inside (conditional integration).
+      if (Math.sign(e) !== Math.sign(u)) I = iNext
+      u = Math.max(-half, Math.min(half, gains.kp * e + I + D))
+    } else {
+      I = iNext
+    }
+    // the hold [kT, (k+1)T] under the command from the previous sample
+    const c = held
+    const thStart = th
+    if (Math.abs(c - thStart) > tau * slew) out.events.slewLimited = true
+    const acc = (tt: number) => ag * Math.sin(alphaOf(servoAngleAt(thStart, c, tt, tau, slew)))
+    for (let j = 0; j < subSteps; j++) {
+      const ta = j * h
+      if (j % outputEvery === 0) record(t0 + ta, x, v, servoAngleAt(thStart, c, ta, tau, slew), r, c)
+      if (!nudged && nudge !== null && t0 + ta >= nudge.time) {
+        v += nudge.speed
+        nudged = true
+      }
+      const a1 = acc(ta)
+      const a2 = acc(ta + h / 2)
+      const a4 = acc(ta + h)
+      // x'' = f(t) does not depend on x or v, so RK4's two midpoint stages coincide.
+      x += h * v + (h * h * (a1 + 2 * a2)) / 6
+      v += (h * (a1 + 4 * a2 + a4)) / 6
+      if (x < xMin) {
+        x = xMin
+        if (v < 0) v = 0
+        out.events.hitEnd = true
+      } else if (x > xMax) {
+        x = xMax
+        if (v > 0) v = 0
+        out.events.hitEnd = true
+      }
+    }
+    th = servoAngleAt(thStart, c, T, tau, slew)
+    held = u
+  }
+  record(samples * T, x, v, th, samples * T < tChange ? r0 : r1, held)
+  out.events.linkageLimited = linkageLimited
+  return out
+}
