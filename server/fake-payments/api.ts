@@ -46,6 +46,14 @@ export async function payInvoice(inv: FakeObject, outOfBand: boolean) {
   return paid
 }
 
+/** A newest-first list page; `type` filters events by their type. */
+async function listOf(type: string, event: H3Event) {
+  const q = getQuery(event)
+  const limit = Math.min(100, Math.max(1, Number(q.limit) || 10))
+  const data = (await listObjects(type, 500)).filter((o) => !q.type || o.type === q.type).slice(0, limit)
+  return { object: 'list', data: data.map(publicView), has_more: false, url: `/v1/${type}s` }
+}
+
 const routes: Route[] = [
   { method: 'POST', pattern: /^\/v1\/customers$/, run: async (_m, b) => putObject({
     id: newId('cus'), object: 'customer', created: nowSeconds(), livemode: false,
@@ -82,6 +90,7 @@ const routes: Route[] = [
       lines: { object: 'list', data: [], has_more: false, url: '/v1/invoices/lines' }, status_transitions: { finalized_at: null, paid_at: null },
     }))
   } },
+  { method: 'GET', pattern: /^\/v1\/invoices$/, run: async (_m, _b, event) => listOf('invoice', event) },
   { method: 'GET', pattern: /^\/v1\/invoices\/([\w]+)$/, run: async (m) => mustGet('invoice', m[1]!) },
   { method: 'POST', pattern: /^\/v1\/invoices\/([\w]+)\/add_lines$/, run: async (m, b) => {
     const inv = await mustGet('invoice', m[1]!)
@@ -112,12 +121,7 @@ const routes: Route[] = [
 
   { method: 'GET', pattern: /^\/v1\/payment_intents\/([\w]+)$/, run: async (m) => mustGet('payment_intent', m[1]!) },
 
-  { method: 'GET', pattern: /^\/v1\/events$/, run: async (_m, _b, event) => {
-    const q = getQuery(event)
-    const limit = Math.min(100, Math.max(1, Number(q.limit) || 10))
-    const data = (await listObjects('event', 500)).filter((e) => !q.type || e.type === q.type).slice(0, limit)
-    return { object: 'list', data: data.map(publicView), has_more: false, url: '/v1/events' }
-  } },
+  { method: 'GET', pattern: /^\/v1\/events$/, run: async (_m, _b, event) => listOf('event', event) },
   { method: 'GET', pattern: /^\/v1\/events\/([\w]+)$/, run: async (m) => mustGet('event', m[1]!) },
 ]
 

@@ -204,7 +204,7 @@ export async function orderView(db: DbOrTx, order: OrderRow, user: SessionUser):
     : order.paymentMethod === 'card' ? (order.status === 'awaiting payment' ? order.checkoutUrl : null) : order.invoiceUrl
   return {
     id: order.id, number: order.number!, status: order.status, paymentMethod: order.paymentMethod,
-    subtotalCents: order.subtotalCents, shippingCents: order.shippingCents, taxCents: order.taxCents, totalCents: order.totalCents, taxExempt: order.taxExempt,
+    subtotalCents: order.subtotalCents, shippingCents: order.shippingCents, taxCents: order.taxCents, totalCents: order.totalCents, taxExempt: order.taxExempt, taxRateBasisPoints: Number(useRuntimeConfig().taxRateBasisPoints),
     createdAt: order.createdAt.toISOString(), paidAt: order.paidAt?.toISOString() ?? null,
     school: { id: people.school.id, name: people.school.name, district: people.school.district, taxExemption: people.school.taxExemption },
     placedBy: people.buyer, quoteId: order.quoteId,

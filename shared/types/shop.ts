@@ -36,7 +36,7 @@ export interface OrderDocument { kind: 'quote' | 'invoice' | 'receipt' | 'packin
 
 export interface OrderView {
   id: number; number: string; status: OrderStatus; paymentMethod: PaymentMethod
-  subtotalCents: number; shippingCents: number; taxCents: number; totalCents: number; taxExempt: boolean
+  subtotalCents: number; shippingCents: number; taxCents: number; totalCents: number; taxExempt: boolean; taxRateBasisPoints: number
   createdAt: string; paidAt: string | null
   school: { id: number; name: string; district: string | null; taxExemption: string }
   placedBy: { name: string; email: string }

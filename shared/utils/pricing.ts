@@ -116,3 +116,10 @@ export const INVOICE_NET_DAYS = 30
 export function addDays(date: Date, days: number): Date {
   return new Date(date.getTime() + days * 24 * 3600_000)
 }
+
+/** "24.5" or "$1,240.00" typed by a person → whole cents; null when it is not a price. */
+export function parseDollars(text: string): number | null {
+  const m = text.trim().replace(/^\$/, '').replace(/,/g, '').match(/^(\d{1,7})(?:\.(\d{1,2}))?$/)
+  if (!m) return null
+  return Number(m[1]) * 100 + Number((m[2] ?? '').padEnd(2, '0'))
+}

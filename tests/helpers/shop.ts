@@ -95,7 +95,7 @@ export function poForm(fields: { lines?: unknown; quoteId?: number; poNumber?: s
   f.set('poNumber', fields.poNumber ?? `PO-${Math.floor(Math.random() * 1e6)}`)
   f.set('apEmail', fields.apEmail ?? 'payables@district.test')
   const po = fields.poFile === undefined ? { data: PDF_BYTES, name: 'po.pdf', type: 'application/pdf' } : fields.poFile
-  if (po) f.set('poFile', new Blob([po.data], { type: po.type ?? 'application/pdf' }), po.name)
-  if (fields.taxCertificate) f.set('taxCertificate', new Blob([fields.taxCertificate.data], { type: fields.taxCertificate.type ?? 'image/png' }), fields.taxCertificate.name)
+  if (po) f.set('poFile', new Blob([new Uint8Array(po.data)], { type: po.type ?? 'application/pdf' }), po.name)
+  if (fields.taxCertificate) f.set('taxCertificate', new Blob([new Uint8Array(fields.taxCertificate.data)], { type: fields.taxCertificate.type ?? 'image/png' }), fields.taxCertificate.name)
   return f
 }

@@ -87,3 +87,11 @@ describe('money as text', () => {
     expect([0, 5, 100, 123_456, 100_000_000, -250].map(formatCents)).toEqual(['$0.00', '$0.05', '$1.00', '$1,234.56', '$1,000,000.00', '-$2.50'])
   })
 })
+
+describe('prices typed by an admin', () => {
+  it('turns dollar text into whole cents without floating point', async () => {
+    const { parseDollars } = await import('../../shared/utils/pricing')
+    expect(['24.5', '$1,240.00', '0.07', '19', '4.10'].map(parseDollars)).toEqual([2450, 124_000, 7, 1900, 410])
+    expect(['', 'abc', '1.234', '-3', '1e3'].map(parseDollars)).toEqual([null, null, null, null, null])
+  })
+})

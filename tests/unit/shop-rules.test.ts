@@ -65,3 +65,16 @@ describe('quotes and stock', () => {
     expect(unitsLeft({ quantityBuilt: 3, reserved: 5 })).toBe(0)
   })
 })
+
+describe('shop links in the header', () => {
+  it('shows the shop to visitors and teachers, not to builders, and the cart only to buyers', async () => {
+    const { navigationFor } = await import('../../shared/utils/roles')
+    const labels = (u: Parameters<typeof navigationFor>[0]) => navigationFor(u).map((l) => l.label)
+    expect(labels(null)).toEqual(expect.arrayContaining(['Kits', 'Cart']))
+    expect(labels(null)).not.toContain('Orders')
+    expect(labels({ role: 'teacher' })).toEqual(expect.arrayContaining(['Kits', 'Cart', 'Quotes', 'Orders']))
+    expect(labels({ role: 'builder' })).not.toEqual(expect.arrayContaining(['Kits']))
+    expect(labels({ role: 'builder' })).not.toContain('Cart')
+    expect(labels({ role: 'admin' })).not.toContain('Cart')
+  })
+})

@@ -1,4 +1,5 @@
 import { productSchema } from '../../../../shared/schemas/shop'
+import { max } from 'drizzle-orm'
 import { priceTiers, products } from '../../../database/schema'
 
 export default defineEventHandler(async (event) => {
@@ -6,7 +7,8 @@ export default defineEventHandler(async (event) => {
   const { tiers, ...input } = await readBodyAs(event, productSchema)
   try {
     const id = await useDb().transaction(async (tx) => {
-      const [row] = await tx.insert(products).values(input).$returningId()
+      const [last] = await tx.select({ n: max(products.sortOrder) }).from(products)
+      const [row] = await tx.insert(products).values({ ...input, sortOrder: (last?.n ?? 0) + 1 }).$returningId()
       await tx.insert(priceTiers).values(tiers.map((t) => ({ productId: row!.id, ...t })))
       await audit(tx, { actorId: admin.id, action: 'product.created', subjectType: 'product', subjectId: row!.id })
       return row!.id

@@ -1,0 +1,141 @@
+// The purchase-order path end to end: upload, review, approve (invoice through the SDK, net
+// 30, e-mailed as a PDF), pay on the fake's invoice page, webhook, ship; and the refusals.
+import { describe, expect, it } from 'vitest'
+import { Client } from '../helpers/client'
+import { waitForMail } from '../helpers/mail'
+import { CARD_OK, PDF_BYTES, PNG_BYTES, attachmentBytes, fakeStripe, newTeacher, payOnPage, pdfText, poForm, productBySlug, productWithStock, signedIn, waitForOrder } from '../helpers/shop'
+
+describe('purchase-order checkout', () => {
+  it('goes from PO upload to an approved, invoiced, paid and shipped order', async () => {
+    const admin = await signedIn('admin@tiltwright.test')
+    const kit = await productBySlug('long-beam-kit')
+    const t = await newTeacher('po')
+    const lines = [{ productId: kit.id, quantity: 6 }]
+    const price = (await t.client.post('/api/cart/price', { lines })).body
+    expect(price.taxCents).toBeGreaterThan(0)
+
+    const r = await t.client.post('/api/checkout/purchase-order', poForm({
+      lines, poNumber: 'CH-2026-0417', apEmail: 'payables@cobalt-district.test',
+      poFile: { data: PDF_BYTES, name: 'district PO <final>.pdf' }, taxCertificate: { data: PNG_BYTES, name: 'exempt.png' },
+    }))
+    expect(r.status).toBe(201)
+    const id = r.body.orderId
+    let order = (await t.client.get(`/api/orders/${id}`)).body
+    expect(order).toMatchObject({ status: 'po review', paymentMethod: 'purchase-order', totalCents: price.totalCents, purchaseOrder: { poNumber: 'CH-2026-0417', status: 'review' } })
+    expect(order.school.taxExemption).toBe('pending')
+    const poDoc = order.documents.find((d: any) => d.kind === 'purchase-order')
+    expect(poDoc.label).toContain('district PO final.pdf')
+    const file = await t.client.raw(poDoc.url)
+    expect(file.headers.get('content-type')).toBe('application/pdf')
+    expect(file.headers.get('x-content-type-options')).toBe('nosniff')
+    expect(Buffer.from(await file.arrayBuffer()).equals(PDF_BYTES)).toBe(true)
+    await waitForMail(t.email, /^Order TW-\d+ placed/)
+
+    // Approve, accepting the certificate: the tax drops to zero before the invoice is made.
+    const a = await admin.post(`/api/admin/orders/${id}/approve`, { acceptTaxCertificate: true })
+    expect(a.status).toBe(200)
+    expect(a.body).toMatchObject({ status: 'awaiting payment', taxCents: 0, taxExempt: true, totalCents: price.subtotalCents + price.shippingCents })
+    expect(a.body.invoice.number).toMatch(/^TWF-/)
+    expect(a.body.purchaseOrder.status).toBe('approved')
+    expect((await admin.post(`/api/admin/orders/${id}/approve`, {})).status).toBe(409)
+
+    const invoiceId = (await fakeStripe().invoices.list({ limit: 1 } as any)).data[0]?.id
+    const inv = await fakeStripe().invoices.retrieve(invoiceId!)
+    expect(inv).toMatchObject({ collection_method: 'send_invoice', status: 'open', amount_due: a.body.totalCents, metadata: { orderId: String(id) } })
+    // Net 30: the due date is 30 days after finalizing.
+    expect(inv.due_date! - inv.status_transitions.finalized_at!).toBe(30 * 86_400)
+
+    await waitForMail(t.email, /^Purchase order CH-2026-0417 approved/)
+    const invoiceMail = await waitForMail('payables@cobalt-district.test', /^Invoice TWF-/)
+    expect(invoiceMail.attachments[0]!.filename).toMatch(/^Tiltwright-invoice-TWF-\d+\.pdf$/)
+    const text = await pdfText(await attachmentBytes(invoiceMail.id))
+    expect(text).toContain('CH-2026-0417')
+    expect(text).toContain('Net 30')
+    expect(text).toContain('exempt')
+
+    // Pay on the fake's invoice page: the invoice.paid webhook marks the order paid.
+    const paid = await payOnPage(a.body.payUrl, CARD_OK)
+    expect(paid.status).toBe(303)
+    order = await waitForOrder(t.client, id, (o) => o.status === 'paid')
+    expect(order.events.map((e: any) => e.kind)).toEqual(['placed', 'po-received', 'tax-exempt', 'po-approved', 'invoice-issued', 'paid'])
+    expect(order.payUrl).toBeNull()
+    await waitForMail(t.email, /^Payment received/)
+
+    await admin.post(`/api/admin/orders/${id}/allocate`)
+    const ship = await admin.post(`/api/admin/orders/${id}/shipments`, { carrier: 'Ridgeline Freight', tracking: 'RF 1000 2000' })
+    expect(ship.status).toBe(201)
+    expect((await waitForMail(t.email, /has shipped/)).text).toContain('RF 1000 2000')
+    expect((await admin.post(`/api/admin/orders/${id}/deliver`)).body.status).toBe('delivered')
+  })
+
+  it('rejects a PO with a reason, releases the stock and tells the teacher', async () => {
+    const admin = await signedIn('admin@tiltwright.test')
+    const { productId } = await productWithStock(admin, 10)
+    const t = await newTeacher('reject')
+    const r = await t.client.post('/api/checkout/purchase-order', poForm({ lines: [{ productId, quantity: 10 }], poNumber: 'BAD-1' }))
+    expect(r.status).toBe(201)
+    expect((await t.client.post('/api/checkout/purchase-order', poForm({ lines: [{ productId, quantity: 1 }] }))).status).toBe(409)
+    const short = await admin.post(`/api/admin/orders/${r.body.orderId}/reject`, { reason: 'no' })
+    expect(short.status).toBe(422)
+    expect(short.body.data.fields.reason).toMatch(/few words/)
+    const rej = await admin.post(`/api/admin/orders/${r.body.orderId}/reject`, { reason: 'The PO is not signed by the district office.' })
+    expect(rej.status).toBe(200)
+    expect(rej.body).toMatchObject({ status: 'cancelled', purchaseOrder: { status: 'rejected', rejectReason: 'The PO is not signed by the district office.' } })
+    expect(rej.body.reservations.every((x: any) => x.status === 'released')).toBe(true)
+    const mail = await waitForMail(t.email, /could not be accepted/)
+    expect(mail.text).toContain('not signed by the district office')
+    expect((await t.client.post('/api/checkout/purchase-order', poForm({ lines: [{ productId, quantity: 10 }] }))).status).toBe(201)
+  })
+
+  it('lets an admin record a cheque, closing the provider invoice without paying twice', async () => {
+    const admin = await signedIn('admin@tiltwright.test')
+    const { productId } = await productWithStock(admin, 3)
+    const t = await newTeacher('cheque')
+    const r = await t.client.post('/api/checkout/purchase-order', poForm({ lines: [{ productId, quantity: 2 }] }))
+    await admin.post(`/api/admin/orders/${r.body.orderId}/approve`, {})
+    const p = await admin.post(`/api/admin/orders/${r.body.orderId}/payments`, { reference: 'Cheque 004512' })
+    expect(p.status).toBe(200)
+    expect(p.body.status).toBe('paid')
+    expect(p.body.events.filter((e: any) => e.kind === 'paid')).toHaveLength(1)
+    const order = await waitForOrder(t.client, r.body.orderId, (o) => o.status === 'paid')
+    expect(order.events.filter((e: any) => e.kind === 'paid')).toHaveLength(1)
+    expect((await admin.post(`/api/admin/orders/${r.body.orderId}/payments`, { reference: 'again' })).status).toBe(409)
+  })
+})
+
+describe('hostile and bad uploads', () => {
+  it('refuses HTML named .pdf, an oversize file, a missing file and bad fields, field by field', async () => {
+    const t = await newTeacher('hostile')
+    const kit = await productBySlug('steel-balls')
+    const lines = [{ productId: kit.id, quantity: 1 }]
+    const html = await t.client.post('/api/checkout/purchase-order', poForm({ lines, poFile: { data: Buffer.from('<html><script>alert(1)</script></html>'), name: 'po.pdf', type: 'application/pdf' } }))
+    expect(html.status).toBe(422)
+    expect(html.body.data.fields.poFile).toMatch(/must be a PDF/)
+    const big = Buffer.concat([PDF_BYTES, Buffer.alloc(5 * 1024 * 1024 + 10, 32)])
+    const huge = await t.client.post('/api/checkout/purchase-order', poForm({ lines, poFile: { data: big, name: 'po.pdf' } }))
+    expect(huge.status).toBe(422)
+    expect(huge.body.data.fields.poFile).toMatch(/larger than 5 MB/)
+    const none = await t.client.post('/api/checkout/purchase-order', poForm({ lines, poFile: null, poNumber: '', apEmail: 'nope' }))
+    expect(none.status).toBe(422)
+    expect(Object.keys(none.body.data.fields).sort()).toEqual(['apEmail', 'poFile', 'poNumber'])
+    const cert = await t.client.post('/api/checkout/purchase-order', poForm({ lines, taxCertificate: { data: Buffer.from('MZ fake exe'), name: 'cert.png' } }))
+    expect(cert.status).toBe(422)
+    expect(cert.body.data.fields.taxCertificate).toMatch(/must be a PDF/)
+    const badLines = await t.client.post('/api/checkout/purchase-order', poForm({ lines: [{ productId: kit.id, quantity: -2 }] }))
+    expect(badLines.status).toBe(422)
+    expect(badLines.body.data.fields['lines.0.quantity']).toBe('At least 1.')
+    const json = await t.client.post('/api/checkout/purchase-order', { poNumber: 'X' })
+    expect(json.status).toBe(422)
+    expect((await t.client.get('/api/orders')).body.data).toEqual([])
+  })
+})
+
+describe('who may check out', () => {
+  it('answers 401 when signed out and 403 to builders and staff', async () => {
+    expect((await new Client().post('/api/checkout/card', { lines: [] })).status).toBe(401)
+    for (const who of ['builder', 'support', 'admin']) {
+      const c = await signedIn(`${who}@tiltwright.test`)
+      expect((await c.post('/api/checkout/card', { lines: [{ productId: 1, quantity: 1 }] })).status).toBe(403)
+    }
+  })
+})
