@@ -3,7 +3,7 @@
 // database is empty, start the fake SMTP server, then the app. Ctrl-C or SIGTERM stops
 // everything this script started, the database included.
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process'
-import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs'
+import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
 import { randomBytes } from 'node:crypto'
 import { resolve } from 'node:path'
 import { createConnection } from 'node:net'
@@ -34,6 +34,23 @@ function sessionSecret() {
   return readFileSync(file, 'utf8').trim()
 }
 
+// One `npm start` / `npm run dev` per checkout: a second one says so and leaves the first alone.
+const pidFile = resolve(projectRoot, 'data', 'tiltwright.pid')
+let ownsPidFile = false
+function claimPidFile() {
+  if (existsSync(pidFile)) {
+    const other = Number(readFileSync(pidFile, 'utf8'))
+    let alive = false
+    try { if (other && other !== process.pid) { process.kill(other, 0); alive = true } } catch { /* gone */ }
+    if (alive) {
+      console.error(`[tiltwright] Tiltwright is already running from this folder (process ${other}); nothing to do. Stop it with Ctrl-C first.`)
+      process.exit(1)
+    }
+  }
+  writeFileSync(pidFile, String(process.pid))
+  ownsPidFile = true
+}
+
 let db: Started | undefined
 let catcher: Catcher | undefined
 let app: ChildProcess | undefined
@@ -49,13 +66,24 @@ async function stop(code = 0) {
   }
   await catcher?.close()
   if (db?.startedHere) { db.stop(); console.log('[tiltwright] database stopped') }
+  if (ownsPidFile) rmSync(pidFile, { force: true })
   process.exit(code)
 }
 process.on('SIGINT', () => void stop(0))
 process.on('SIGTERM', () => void stop(0))
+process.on('SIGHUP', () => void stop(0))
+// npm does not pass a SIGTERM it receives on to this script: if whoever started us goes away,
+// we are orphaned (a new parent id) and stop everything ourselves.
+const parentAtStart = process.ppid
+setInterval(() => { if (process.ppid !== parentAtStart) void stop(0) }, 1000).unref()
 
 async function main() {
   mkdirSync(resolve(projectRoot, 'data'), { recursive: true })
+  claimPidFile()
+  if (!dbOnly && await portInUse(port)) {
+    console.error(`[tiltwright] port ${port} is already in use: is Tiltwright already running? Stop it first, or start this one with PORT=<another port>.`)
+    process.exit(1)
+  }
   const target = instance('dev', dbPort, 'tiltwright')
   db = await startMariaDb(target)
   console.log(`[tiltwright] MariaDB ${db.startedHere ? 'started' : 'already running'} on 127.0.0.1:${dbPort} (data in data/mariadb-dev)`)
