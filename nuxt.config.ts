@@ -44,6 +44,7 @@ export default defineNuxtConfig({
     smtpPassword: '',
     mailFrom: 'Tiltwright <hello@tiltwright.test>',
     mailCatcherUrl: 'http://127.0.0.1:1080',
+    outboxRetryBaseMs: 15_000,
     publicUrl: 'http://localhost:3000',
     fakePayments,
     // The payment SDK: key, API address (empty = the provider's own; in fake mode the app

@@ -4,6 +4,7 @@
 //   GET /messages    JSON, newest first; ?to=address filters
 //   GET /messages/:id/attachments/:n   the attachment's bytes
 //   DELETE /messages forget everything
+//   POST /control?refuse=1|0   answer new mail with a temporary failure (451), to rehearse an outage
 // Usage: tsx scripts/mail-catcher.ts [--smtp 1025] [--http 1080] [--name dev]
 import { createServer } from 'node:http'
 import { appendFileSync, existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs'
@@ -26,10 +27,16 @@ export async function startMailCatcher(opts: { smtpPort: number; httpPort: numbe
     ? readFileSync(file, 'utf8').split('\n').filter(Boolean).map((l) => JSON.parse(l) as CaughtMail)
     : []
   let nextId = messages.reduce((m, x) => Math.max(m, x.id), 0) + 1
+  let refusing = false
 
   const smtp = new SMTPServer({
     authOptional: true, disabledCommands: ['STARTTLS'], logger: false, banner: 'Tiltwright mail catcher',
     async onData(stream, session, callback) {
+      if (refusing) {
+        stream.resume()
+        stream.once('end', () => callback(Object.assign(new Error('Mailbox temporarily unavailable, try again later'), { responseCode: 451 })))
+        return
+      }
       try {
         const parsed = await simpleParser(stream)
         const to = session.envelope.rcptTo.map((r) => r.address.toLowerCase())
@@ -56,6 +63,10 @@ export async function startMailCatcher(opts: { smtpPort: number; httpPort: numbe
       messages.length = 0
       writeFileSync(file, '')
       return json(200, { ok: true })
+    }
+    if (req.method === 'POST' && url.pathname === '/control') {
+      refusing = url.searchParams.get('refuse') === '1'
+      return json(200, { refusing })
     }
     if (req.method !== 'GET') return json(405, { error: 'method not allowed' })
     const att = url.pathname.match(/^\/messages\/(\d+)\/attachments\/(\d+)$/)

@@ -21,8 +21,10 @@ export async function enqueueMail(tx: DbOrTx, kind: string, to: string, mail: Re
   scheduleOutboxRun()
 }
 
+/** Exponential back-off from runtimeConfig.outboxRetryBaseMs (15 s unless configured). */
 export function retryDelayMs(attempts: number) {
-  return Math.min(OUTBOX.maxDelayMs, OUTBOX.baseDelayMs * 2 ** Math.max(0, attempts - 1))
+  const base = Number(useRuntimeConfig().outboxRetryBaseMs) || OUTBOX.baseDelayMs
+  return Math.min(OUTBOX.maxDelayMs, base * 2 ** Math.max(0, attempts - 1))
 }
 
 let running: Promise<number> | null = null

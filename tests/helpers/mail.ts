@@ -25,3 +25,9 @@ export function linkIn(mail: Caught, pattern: RegExp): string {
   if (!m) throw new Error(`no link matching ${pattern} in: ${mail.text}`)
   return m[0]
 }
+
+/** Make the fake SMTP server answer 451 (temporary failure) to new mail, or accept again. */
+export async function refuseMail(refuse: boolean) {
+  const res = await fetch(`${inject('mailUrl')}/control?refuse=${refuse ? 1 : 0}`, { method: 'POST' })
+  if (!res.ok) throw new Error(`the mail catcher did not take the control call: ${res.status}`)
+}

@@ -47,6 +47,8 @@ export default async function setup(project: TestProject) {
       NUXT_DATABASE_URL: db.db.url, NUXT_SMTP_HOST: '127.0.0.1', NUXT_SMTP_PORT: String(SMTP_PORT),
       NUXT_MAIL_CATCHER_URL: `http://127.0.0.1:${MAIL_HTTP_PORT}`, NUXT_PUBLIC_URL: baseUrl,
       NUXT_SESSION_PASSWORD: randomBytes(32).toString('hex'),
+      // Retry failed mail quickly, so the outage test need not wait 15 s.
+      NUXT_OUTBOX_RETRY_BASE_MS: '400',
     },
     stdio: ['ignore', 'pipe', 'pipe'],
   })
