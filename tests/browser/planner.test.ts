@@ -60,6 +60,9 @@ describe('Gain Planner page', () => {
     await page.getByRole('link', { name: 'Browser bench sheet' }).first().click()
     await page.waitForURL(/\/planner\?sheet=\d+/)
     await page.getByText('Working from the sheet “Browser bench sheet”').waitFor()
+    // Overlay the saved sheet on the plot: its series appears in the plot's legend.
+    await page.getByLabel('Overlay a sheet').selectOption({ label: 'Browser bench sheet' })
+    await expect.poll(() => page.getByTestId('response-plot').textContent()).toContain('sheet: Browser bench sheet')
     await page.close()
   })
 })
