@@ -1,8 +1,10 @@
 // The cart: only product ids and quantities, kept in localStorage across reloads. Prices,
 // tiers, shipping and tax are never stored here; the server works them out every time.
+// A quantity is kept exactly as the teacher typed it (even 0 or 99999): the cart page says
+// what is wrong beside the line instead of quietly changing it (lineQuantityProblem).
 import { defineStore } from 'pinia'
 import type { CartLine } from '~~/shared/schemas/shop'
-import { MAX_LINE_QUANTITY } from '~~/shared/schemas/shop'
+import { lineQuantityProblem } from '~~/shared/schemas/shop'
 
 const KEY = 'tiltwright-cart-v1'
 
@@ -15,8 +17,8 @@ export const useCartStore = defineStore('cart', () => {
     try {
       const raw = JSON.parse(localStorage.getItem(KEY) ?? '[]') as unknown
       if (Array.isArray(raw)) {
-        lines.value = raw.filter((l): l is CartLine => Number.isInteger(l?.productId) && Number.isInteger(l?.quantity) && l.quantity > 0)
-          .map((l) => ({ productId: l.productId, quantity: Math.min(l.quantity, MAX_LINE_QUANTITY) }))
+        lines.value = raw.filter((l): l is CartLine => Number.isInteger(l?.productId) && typeof l?.quantity === 'number')
+          .map((l) => ({ productId: l.productId, quantity: l.quantity }))
       }
     } catch { /* a damaged entry starts an empty cart */ }
     restored.value = true
@@ -26,16 +28,23 @@ export const useCartStore = defineStore('cart', () => {
 
   function add(productId: number, quantity: number) {
     const line = lines.value.find((l) => l.productId === productId)
-    if (line) line.quantity = Math.min(MAX_LINE_QUANTITY, line.quantity + quantity)
-    else lines.value.push({ productId, quantity: Math.min(MAX_LINE_QUANTITY, quantity) })
+    if (line) line.quantity += quantity
+    else lines.value.push({ productId, quantity })
   }
   function setQuantity(productId: number, quantity: number) {
     const line = lines.value.find((l) => l.productId === productId)
-    if (line && Number.isInteger(quantity) && quantity > 0) line.quantity = Math.min(MAX_LINE_QUANTITY, quantity)
+    if (line) line.quantity = quantity
   }
   function remove(productId: number) { lines.value = lines.value.filter((l) => l.productId !== productId) }
   function clear() { lines.value = [] }
-  const count = computed(() => lines.value.reduce((s, l) => s + l.quantity, 0))
+  const count = computed(() => lines.value.reduce((s, l) => s + (lineQuantityProblem(l.quantity) ? 0 : l.quantity), 0))
+  /** The lines whose quantity can be priced and ordered at all (stock aside). */
+  const validLines = computed(() => lines.value.filter((l) => !lineQuantityProblem(l.quantity)))
+  /** True when the cart holds exactly these lines (same products, same quantities). */
+  function holds(other: readonly CartLine[]) {
+    const key = (ls: readonly CartLine[]) => ls.map((l) => `${l.productId}:${l.quantity}`).sort().join(',')
+    return lines.value.length > 0 && key(lines.value) === key(other)
+  }
 
-  return { lines, restored, restore, add, setQuantity, remove, clear, count }
+  return { lines, restored, restore, add, setQuantity, remove, clear, count, validLines, holds }
 })

@@ -13,7 +13,11 @@ export interface ProductDetail extends ProductView {
   description: string; specs: { label: string; value: string }[]; weightGrams: number
 }
 
-export interface PricedCartLine extends PricedLine { slug: string; image: string; available: number; short: boolean }
+export interface PricedCartLine extends PricedLine {
+  slug: string; image: string; available: number; short: boolean
+  /** The tier's quantity range as the kit page shows it, "1–4" or "12+" (tierRangeLabel). */
+  tierLabel: string
+}
 
 export interface PricedCart extends Totals {
   lines: PricedCartLine[]

@@ -101,6 +101,12 @@ export function tierRangeLabel(tiers: readonly PriceTier[], tier: PriceTier): st
   return next - 1 === tier.minQuantity ? `${tier.minQuantity}` : `${tier.minQuantity}–${next - 1}`
 }
 
+/** The one wording of "which tier this line is priced at", wherever a line shows it: the
+ *  range as the kit page's tier table shows it ("1–4", "12+"). */
+export function tierWording(label: string): string {
+  return `price for ${label}`
+}
+
 /** A tier list is usable when it starts at 1, has no repeated minimum, and every price is positive. */
 export function tierProblems(tiers: readonly PriceTier[]): string | null {
   if (!tiers.length) return 'Add at least one price tier.'

@@ -3,6 +3,7 @@
 import { z } from 'zod'
 import { cartLineSchema } from '../../../shared/schemas/shop'
 import type { PricedCart } from '../../../shared/types/shop'
+import { tierRangeLabel } from '../../../shared/utils/pricing'
 
 const body = z.object({ lines: z.array(cartLineSchema).max(40, 'At most 40 different items in one order.') })
 
@@ -18,7 +19,7 @@ export default defineEventHandler(async (event): Promise<PricedCart> => {
     ...rest,
     lines: priced.lines.map((l) => {
       const c = byId.get(l.productId)!
-      return { ...l, slug: c.row.slug, image: c.row.image, available: c.available, short: c.available < l.quantity }
+      return { ...l, tierLabel: tierRangeLabel(c.tiers, { minQuantity: l.tierMinQuantity, unitPriceCents: l.unitPriceCents }), slug: c.row.slug, image: c.row.image, available: c.available, short: c.available < l.quantity }
     }),
     signedIn: !!user,
   }
