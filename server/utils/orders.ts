@@ -6,7 +6,7 @@ import {
   batches, orderEvents, orderLines, orders, purchaseOrders, quoteLines, quotes, schools, shipments, stockReservations, storedFiles, users,
 } from '../database/schema'
 import type { OrderView, OrderDocument } from '../../shared/types/shop'
-import { canCancelOrder, canSeeOrder, canSeeOrderDocuments, isQuoteValid, unitsLeft } from '../../shared/utils/shop-rules'
+import { canCancelOrder, canSeeOrder, canSeeOrderDocuments, isQuoteValid, releasedWords, unitsLeft } from '../../shared/utils/shop-rules'
 import type { SessionUser } from '../../shared/utils/roles'
 import { formatCents, type PricedLine, type Totals } from '../../shared/utils/pricing'
 import type { CartLine } from '../../shared/schemas/shop'
@@ -232,7 +232,7 @@ export async function replyWithOrder(orderId: number, user: SessionUser) {
 export async function cancelOrderIn(tx: Tx, order: OrderRow, actor: SessionUser, message: string) {
   await tx.update(orders).set({ status: 'cancelled', updatedAt: new Date() }).where(eq(orders.id, order.id))
   const released = await releaseStock(tx, order.id)
-  await addOrderEvent(tx, order.id, 'cancelled', `${message}${released ? ` ${released} reserved unit(s) went back into stock.` : ''}`, actor.id)
+  await addOrderEvent(tx, order.id, 'cancelled', [message, releasedWords(released)].filter(Boolean).join(' '), actor.id)
   if (order.quoteId) await tx.update(quotes).set({ orderId: null }).where(and(eq(quotes.id, order.quoteId), eq(quotes.orderId, order.id)))
 }
 

@@ -67,3 +67,23 @@ export function adminActions(order: { status: OrderStatus; paymentMethod: Paymen
 
 /** Stock left in a batch, never shown below zero. */
 export const unitsLeft = (batch: { quantityBuilt: number; reserved: number }) => Math.max(0, batch.quantityBuilt - batch.reserved)
+
+/** The timeline's words for stock given back when an order ends: "The 7 units it held were released." */
+export function releasedWords(units: number): string {
+  if (units <= 0) return ''
+  return units === 1 ? 'The 1 unit it held was released.' : `The ${units} units it held were released.`
+}
+
+/** What the order page says about shipping, in words that match the order's state. */
+export function shippingNote(order: { status: OrderStatus; paymentMethod: PaymentMethod; allocated?: boolean; purchaseOrder?: { status: string; rejectReason: string | null } | null }): string {
+  if (order.status === 'cancelled') {
+    if (order.purchaseOrder?.status === 'rejected') return `Rejected: ${order.purchaseOrder.rejectReason ?? 'the purchase order was not accepted'}. Nothing will ship.`
+    return 'Cancelled: nothing will ship.'
+  }
+  if (order.status === 'shipped' || order.status === 'delivered') return 'Shipped.'
+  const waitFor = order.paymentMethod === 'card'
+    ? (order.status === 'paid' ? null : 'paid')
+    : (order.status === 'po review' ? 'the PO is approved' : null)
+  if (order.allocated) return waitFor ? `Ships once ${waitFor}.` : 'Ready to ship.'
+  return waitFor ? `Ships once ${waitFor} and allocated.` : 'Ships once allocated for packing.'
+}
