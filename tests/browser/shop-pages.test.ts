@@ -1,0 +1,115 @@
+// The shop pages' QA fixes in the browser: the admin catalog form recovers as it is corrected,
+// the cart says what is wrong with a quantity instead of changing it, pages a role cannot use
+// are not found, and the tables fit a phone. Screenshots go to tests/.artifacts/shop/.
+import { mkdirSync } from 'node:fs'
+import { resolve } from 'node:path'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { Browser, Page } from 'playwright-core'
+import { launch, signInThroughPage, url } from '../helpers/browser'
+
+const shots = resolve(import.meta.dirname, '../.artifacts/shop')
+mkdirSync(shots, { recursive: true })
+let browser: Browser
+beforeAll(async () => { browser = await launch() })
+afterAll(async () => { await browser?.close() })
+const phone = { width: 390, height: 844 }
+
+/** Opens a page on a phone as `email`: the page must not scroll sideways, and `last` (its
+ *  right-most control or heading) must be on screen. */
+async function fitsPhone(email: string, path: string, last: (page: Page) => ReturnType<Page['getByRole']>, shotName: string) {
+  const ctx = await browser.newContext({ viewport: phone })
+  const page = await ctx.newPage()
+  await signInThroughPage(page, email)
+  await page.goto(url(path))
+  await page.locator('h1').waitFor()
+  expect(await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth)).toBe(0)
+  const box = (await last(page).boundingBox())!
+  expect(box.x + box.width).toBeLessThanOrEqual(phone.width)
+  await page.screenshot({ path: resolve(shots, `${shotName}.png`), fullPage: true })
+  await ctx.close()
+}
+
+describe('the admin catalog form', () => {
+  it('gives every field its message and recovers as the admin corrects them', async () => {
+    const page = await browser.newPage()
+    await signInThroughPage(page, 'admin@tiltwright.test')
+    await page.goto(url('/admin/catalog'))
+    await page.getByRole('button', { name: 'Add a product' }).click()
+    await page.getByRole('button', { name: 'Save' }).click()
+    const form = page.locator('form')
+    for (const text of ['Enter the name.', 'Enter a slug.', 'Enter a one-line summary.', 'Enter a price like 24.50.']) await form.getByText(text).waitFor()
+    await page.getByLabel('Each ($)').fill('24.50')
+    await expect.poll(() => form.getByText('Enter a price like 24.50.').count()).toBe(0)
+    await page.getByLabel('Name').fill('QA Spare Bracket')
+    await page.getByLabel('Slug (in the address)').fill('qa-spare-bracket')
+    await page.getByLabel('One-line summary').fill('A bracket for the QA walkthrough.')
+    await page.getByLabel('On sale').uncheck()
+    const sent = page.waitForRequest((r) => r.url().endsWith('/api/admin/products') && r.method() === 'POST')
+    await page.getByRole('button', { name: 'Save' }).click()
+    await sent
+    await page.getByText('QA Spare Bracket saved.').waitFor()
+    await page.close()
+  })
+
+  it('fits a phone without sideways scrolling', async () => {
+    await fitsPhone('admin@tiltwright.test', '/admin/catalog', (page) => page.getByRole('button', { name: 'Edit Classroom Rig Kit' }), 'admin-catalog-phone')
+  })
+})
+
+describe('the cart', () => {
+  it('keeps what the teacher typed, says what is wrong and blocks ordering until it is fixed', async () => {
+    const page = await browser.newPage()
+    await signInThroughPage(page, 'teacher@tiltwright.test')
+    await page.goto(url('/kits/steel-balls'))
+    await page.getByLabel('How many?').fill('2')
+    await page.getByRole('button', { name: 'Add to cart' }).click()
+    await page.goto(url('/cart'))
+    await page.getByTestId('total').waitFor()
+    const qty = page.getByLabel(/^Quantity of /)
+    const pay = page.getByRole('button', { name: 'Pay by card' })
+    for (const typed of ['0', '-2', '99999']) {
+      await qty.fill(typed)
+      await qty.blur()
+      await page.getByText(/The quantity must be a whole number from 1 to 500\./).waitFor()
+      expect(await qty.inputValue()).toBe(typed)
+      expect(await pay.isDisabled()).toBe(true)
+      expect(await page.getByRole('button', { name: 'Save as a formal quote (PDF)' }).isDisabled()).toBe(true)
+    }
+    await qty.fill('500')
+    await qty.blur()
+    await page.getByText(/^Only \d+ left in stock: lower the quantity/).waitFor()
+    expect(await pay.isDisabled()).toBe(true)
+    await page.screenshot({ path: resolve(shots, 'cart-over-stock.png'), fullPage: true })
+    await qty.fill('3')
+    await qty.blur()
+    await expect.poll(() => pay.isDisabled()).toBe(false)
+    await page.getByRole('button', { name: /^Remove / }).click()
+    await page.close()
+  })
+})
+
+describe('pages for the role', () => {
+  it('shows teachers\' shop pages only to teachers, and sends staff to their desk after sign-in', async () => {
+    for (const who of ['support', 'builder'] as const) {
+      const page = await browser.newPage()
+      await signInThroughPage(page, `${who}@tiltwright.test`)
+      if (who === 'support') expect(new URL(page.url()).pathname).toBe('/staff')
+      for (const path of ['/orders', '/quotes', '/cart', '/checkout']) {
+        const reply = await page.goto(url(path))
+        expect({ who, path, status: reply?.status() }).toEqual({ who, path, status: 404 })
+      }
+      await page.goto(url('/kits/rig-kit'))
+      await page.locator('h1').waitFor()
+      expect(await page.getByRole('button', { name: 'Add to cart' }).count()).toBe(0)
+      await page.close()
+    }
+    const page = await browser.newPage()
+    await signInThroughPage(page, 'teacher@tiltwright.test')
+    expect(new URL(page.url()).pathname).toBe('/')
+    await page.close()
+  })
+
+  it('fits the teacher\'s orders on a phone', async () => {
+    await fitsPhone('teacher@tiltwright.test', '/orders', (page) => page.getByRole('columnheader', { name: 'Status' }), 'orders-phone-fit')
+  })
+})
