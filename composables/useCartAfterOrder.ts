@@ -1,0 +1,11 @@
+// What happens to the cart once an order is placed. Ordered from the cart: the cart is
+// emptied, so the same lines cannot be ordered twice by accident. Ordered from a saved quote:
+// the cart may hold something else the teacher is still putting together, so it is kept,
+// unless it holds exactly the quote's lines (same products, same quantities) — then it is
+// that quote's cart, already ordered, and keeping it would invite a double order.
+import type { DocLine } from '~~/shared/types/shop'
+
+export function emptyCartIfItWasThisQuote(cart: ReturnType<typeof useCartStore>, quoteLines: readonly Pick<DocLine, 'productId' | 'quantity'>[]) {
+  cart.restore()
+  if (cart.holds(quoteLines)) cart.clear()
+}
