@@ -20,6 +20,15 @@ export function orderPlacedMail(name: string, o: { number: string; totalCents: n
   ])
 }
 
+/** To each admin when a purchase order arrives for review. */
+export function poReviewMail(name: string, o: { number: string; poNumber: string; schoolName: string; totalCents: number }, url: string) {
+  return renderMail(`Purchase order ${o.poNumber} to review (order ${o.number})`, hello(name), [
+    { paragraph: `${o.schoolName} sent purchase order ${o.poNumber} for order ${o.number}, ${formatCents(o.totalCents)}. Its stock is reserved while it waits for review.` },
+    { paragraph: 'Check the document, then approve it (the net-30 invoice goes out) or reject it with a reason the teacher will read.' },
+    { link: { label: 'Review the purchase order', url } },
+  ])
+}
+
 export function poApprovedMail(name: string, o: { number: string; poNumber: string }, url: string) {
   return renderMail(`Purchase order ${o.poNumber} approved`, hello(name), [
     { paragraph: `Your purchase order ${o.poNumber} for order ${o.number} is approved. The invoice (net 30) follows in a separate e-mail to you and your accounts-payable contact.` },

@@ -2,7 +2,7 @@
 // 30, e-mailed as a PDF), pay on the fake's invoice page, webhook, ship; and the refusals.
 import { describe, expect, it } from 'vitest'
 import { Client } from '../helpers/client'
-import { waitForMail } from '../helpers/mail'
+import { linkIn, waitForMail } from '../helpers/mail'
 import { CARD_OK, PDF_BYTES, PNG_BYTES, attachmentBytes, fakeStripe, newTeacher, payOnPage, pdfText, poForm, productBySlug, productWithStock, signedIn, waitForOrder } from '../helpers/shop'
 
 describe('purchase-order checkout', () => {
@@ -30,6 +30,9 @@ describe('purchase-order checkout', () => {
     expect(file.headers.get('x-content-type-options')).toBe('nosniff')
     expect(Buffer.from(await file.arrayBuffer()).equals(PDF_BYTES)).toBe(true)
     await waitForMail(t.email, /^Order TW-\d+ placed/)
+    // Each admin is told, from the same transaction, that a purchase order waits for review.
+    const review = await waitForMail('admin@tiltwright.test', /^Purchase order CH-2026-0417 to review \(order TW-\d+\)$/)
+    expect(linkIn(review, /https?:\/\/\S+\/admin\/orders\/\d+/)).toMatch(new RegExp(`/admin/orders/${id}$`))
 
     // Approve, accepting the certificate: the tax drops to zero before the invoice is made.
     const a = await admin.post(`/api/admin/orders/${id}/approve`, { acceptTaxCertificate: true })

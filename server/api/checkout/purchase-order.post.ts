@@ -1,12 +1,12 @@
 // Purchase-order checkout (multipart): the PO number and document, the accounts-payable
 // contact, optionally the school's tax-exemption certificate. The order waits in `po review`.
-import { eq } from 'drizzle-orm'
+import { and, eq, isNull } from 'drizzle-orm'
 import type { MultiPartData } from 'h3'
 import { checkoutSourceSchema, purchaseOrderFieldsSchema } from '../../../shared/schemas/shop'
 import { fieldErrorsOf } from '../../../shared/utils/field-errors'
-import { purchaseOrders, schools, storedFiles } from '../../database/schema'
+import { purchaseOrders, schools, storedFiles, users } from '../../database/schema'
 import { removeStoredFile, safeFilename, storeFile, uploadProblem } from '../../services/files'
-import { orderPlacedMail } from '../../emails/shop'
+import { orderPlacedMail, poReviewMail } from '../../emails/shop'
 
 const text = (parts: MultiPartData[], name: string) => {
   const p = parts.find((x) => x.name === name && !x.filename)
@@ -62,6 +62,12 @@ export default defineEventHandler(async (event) => {
       }
       await addOrderEvent(tx, order.id, 'po-received', `Purchase order ${po.data.poNumber} received${stored.length > 1 ? ' with a tax-exemption certificate' : ''}; waiting for review.`, user.id)
       await enqueueMail(tx, 'order-placed', user.email, orderPlacedMail(user.name, { number: order.number, totalCents: src.totals.totalCents, method: 'purchase-order' }, appUrl(`/orders/${order.id}`)))
+      // Every admin (not disabled) hears that a purchase order waits for review.
+      const admins = await tx.select({ email: users.email, name: users.name }).from(users).where(and(eq(users.role, 'admin'), isNull(users.disabledAt)))
+      const [school] = await tx.select({ name: schools.name }).from(schools).where(eq(schools.id, user.schoolId!)).limit(1)
+      for (const a of admins) {
+        await enqueueMail(tx, 'po-review', a.email, poReviewMail(a.name, { number: order.number, poNumber: po.data.poNumber, schoolName: school?.name ?? 'A school', totalCents: src.totals.totalCents }, appUrl(`/admin/orders/${order.id}`)))
+      }
       await audit(tx, { actorId: user.id, action: 'order.placed', subjectType: 'order', subjectId: order.id, detail: { method: 'purchase-order' } })
       return order
     })
