@@ -83,7 +83,33 @@ describe('the cart', () => {
     await qty.fill('3')
     await qty.blur()
     await expect.poll(() => pay.isDisabled()).toBe(false)
+
+    // Checkout shows the lines and where they ship before the teacher commits.
+    await page.getByRole('link', { name: 'Pay by purchase order' }).click()
+    const lines = page.getByRole('table', { name: 'What you are ordering' })
+    await lines.getByText('Steel Ball Set').waitFor()
+    expect(await lines.getByRole('cell', { name: '3', exact: true }).count()).toBe(1)
+    expect((await page.getByTestId('ship-to').textContent())!.trim().length).toBeGreaterThan(10)
+    await page.screenshot({ path: resolve(shots, 'checkout-lines-desktop.png'), fullPage: true })
+    await page.goto(url('/cart'))
     await page.getByRole('button', { name: /^Remove / }).click()
+    await page.close()
+  })
+})
+
+describe('the admin orders table', () => {
+  it('keeps its filter, sort and page in the address across a reload', async () => {
+    const page = await browser.newPage()
+    await signInThroughPage(page, 'admin@tiltwright.test')
+    await page.goto(url('/admin/orders'))
+    await page.getByLabel('Status').selectOption('cancelled')
+    await page.getByLabel('Search order, school or PO number').fill('TW')
+    await page.waitForURL((u) => u.searchParams.get('status') === 'cancelled' && u.searchParams.get('q') === 'TW')
+    await page.reload()
+    expect(await page.getByLabel('Status').inputValue()).toBe('cancelled')
+    expect(await page.getByLabel('Search order, school or PO number').inputValue()).toBe('TW')
+    await page.goto(url('/admin/orders?status=bogus&page=0'))
+    expect(await page.getByLabel('Status').inputValue()).toBe('')
     await page.close()
   })
 })
