@@ -17,34 +17,42 @@ export const DEMO_ACCOUNTS = [
   { email: 'admin@tiltwright.test', name: 'Marcus Teel', role: 'admin' },
 ] as const
 
-/** Seeds the demo scenario when the database has no users yet; returns whether it did. */
-export async function seedDemo(url: string): Promise<boolean> {
+/**
+ * Seeds the demo scenario into what is empty: the school and its people when there are no users,
+ * the catalog when there are no products (so a data folder from before the shop still gets
+ * one). Returns what it seeded.
+ */
+export async function seedDemo(url: string): Promise<{ people: boolean; catalog: boolean }> {
   const conn = await mysql.createConnection({ uri: url })
   try {
     const db = drizzle(conn, { schema, mode: 'default' })
-    const [existing] = await db.select({ n: count() }).from(schema.users)
-    if (existing && existing.n > 0) return false
+    const [people] = await db.select({ n: count() }).from(schema.users)
+    const [products] = await db.select({ n: count() }).from(schema.products)
+    const seeded = { people: !people?.n, catalog: !products?.n }
     // The same scrypt driver and defaults that nuxt-auth-utils' hashPassword uses.
-    const hasher = new Hash(new Scrypt({}))
-    const passwordHash = await hasher.make(DEMO_PASSWORD)
+    const passwordHash = seeded.people ? await new Hash(new Scrypt({})).make(DEMO_PASSWORD) : ''
     await db.transaction(async (tx) => {
-      const [school] = await tx.insert(schema.schools).values({
-        name: 'Wrenfield Middle School', district: 'Cobalt Hills School District',
-        addressLine1: '48 Orchard Terrace', city: 'Bramley Falls', region: 'OR', postalCode: '97999', country: 'US',
-        taxExemption: 'accepted',
-      }).$returningId()
-      for (const a of DEMO_ACCOUNTS) {
-        const customer = a.role === 'teacher' || a.role === 'builder'
-        await tx.insert(schema.users).values({ ...a, passwordHash, schoolId: customer ? school!.id : null, verifiedAt: new Date() })
+      if (seeded.people) {
+        const [school] = await tx.insert(schema.schools).values({
+          name: 'Wrenfield Middle School', district: 'Cobalt Hills School District',
+          addressLine1: '48 Orchard Terrace', city: 'Bramley Falls', region: 'OR', postalCode: '97999', country: 'US',
+          taxExemption: 'accepted',
+        }).$returningId()
+        for (const a of DEMO_ACCOUNTS) {
+          const customer = a.role === 'teacher' || a.role === 'builder'
+          await tx.insert(schema.users).values({ ...a, passwordHash, schoolId: customer ? school!.id : null, verifiedAt: new Date() })
+        }
       }
-      for (const [i, p] of DEMO_CATALOG.entries()) {
-        const { tiers, batches, ...product } = p
-        const [row] = await tx.insert(schema.products).values({ ...product, sortOrder: i }).$returningId()
-        await tx.insert(schema.priceTiers).values(tiers.map(([minQuantity, unitPriceCents]) => ({ productId: row!.id, minQuantity, unitPriceCents })))
-        await tx.insert(schema.batches).values(batches.map(([code, quantityBuilt, builtOn]) => ({ productId: row!.id, code, quantityBuilt, builtOn: new Date(`${builtOn}T12:00:00Z`) })))
+      if (seeded.catalog) {
+        for (const [i, p] of DEMO_CATALOG.entries()) {
+          const { tiers, batches, ...product } = p
+          const [row] = await tx.insert(schema.products).values({ ...product, sortOrder: i }).$returningId()
+          await tx.insert(schema.priceTiers).values(tiers.map(([minQuantity, unitPriceCents]) => ({ productId: row!.id, minQuantity, unitPriceCents })))
+          await tx.insert(schema.batches).values(batches.map(([code, quantityBuilt, builtOn]) => ({ productId: row!.id, code, quantityBuilt, builtOn: new Date(`${builtOn}T12:00:00Z`) })))
+        }
       }
     })
-    return true
+    return seeded
   } finally {
     await conn.end()
   }

@@ -89,7 +89,9 @@ async function main() {
   console.log(`[tiltwright] MariaDB ${db.startedHere ? 'started' : 'already running'} on 127.0.0.1:${dbPort} (data in data/mariadb-dev)`)
   await migrateDatabase(target.url)
   console.log('[tiltwright] migrations applied')
-  if (await seedDemo(target.url)) console.log('[tiltwright] demo data seeded (password for every demo account: tiltwright-demo)')
+  const seeded = await seedDemo(target.url)
+  if (seeded.people) console.log('[tiltwright] demo school and accounts seeded (password for every demo account: tiltwright-demo)')
+  if (seeded.catalog) console.log('[tiltwright] demo catalog seeded')
   if (dbOnly) {
     console.log(`[tiltwright] database ready at ${target.url.replace(/:[^:@]*@/, ':***@')}; Ctrl-C stops it`)
     setInterval(() => {}, 1 << 30)

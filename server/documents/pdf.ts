@@ -99,9 +99,13 @@ export function renderDocument(spec: DocSpec): Promise<Buffer> {
   y += 6
   for (const t of spec.totals ?? []) {
     doc.font(t.strong ? 'heavy' : 'regular').fontSize(t.strong ? 12 : 10).fillColor(COLORS.ink)
-    doc.text(t.label, left + width * 0.5, y, { width: width * 0.26, align: 'right' })
-    doc.text(formatCents(t.cents), left + width * 0.76, y, { width: width * 0.24 - 4, align: 'right' })
-    y = doc.y + 4
+    // A long label (e.g. the tax-exemption note) may wrap: the next row starts below the taller cell.
+    const label = { x: left + width * 0.3, width: width * 0.46 }
+    const amount = formatCents(t.cents)
+    const height = Math.max(doc.heightOfString(t.label, { width: label.width }), doc.heightOfString(amount, { width: width * 0.24 - 4 }))
+    doc.text(t.label, label.x, y, { width: label.width, align: 'right' })
+    doc.text(amount, left + width * 0.76, y, { width: width * 0.24 - 4, align: 'right' })
+    y += height + 4
   }
   if (spec.stamp) {
     doc.save().rotate(-12, { origin: [right - 90, 150] })

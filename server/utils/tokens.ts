@@ -13,9 +13,10 @@ export const TOKEN_LIFETIME_MS: Record<Purpose, number> = {
   'reset-password': 3600_000,
 }
 
-export async function issueToken(tx: DbOrTx, userId: number, purpose: Purpose): Promise<string> {
+/** lifetimeMs overrides the purpose's default (a staff invitation lives longer than a reset). */
+export async function issueToken(tx: DbOrTx, userId: number, purpose: Purpose, lifetimeMs = TOKEN_LIFETIME_MS[purpose]): Promise<string> {
   const raw = randomBytes(32).toString('base64url')
-  await tx.insert(authTokens).values({ userId, purpose, tokenHash: hash(raw), expiresAt: new Date(Date.now() + TOKEN_LIFETIME_MS[purpose]) })
+  await tx.insert(authTokens).values({ userId, purpose, tokenHash: hash(raw), expiresAt: new Date(Date.now() + lifetimeMs) })
   return raw
 }
 

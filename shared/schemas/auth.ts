@@ -9,9 +9,9 @@ export const passwordRule = z.string({ error: 'Enter a password.' })
   .min(10, 'Use at least 10 characters.').max(200, 'Use at most 200 characters.')
 
 const text = (label: string, max: number) => z.string({ error: `Enter ${label}.` }).trim()
-  .min(1, `Enter ${label}.`).max(max, `Keep ${label} under ${max + 1} characters.`)
+  .min(1, `Enter ${label}.`).max(max, `Keep ${label} to ${max} characters or fewer.`)
 const optionalText = (label: string, max: number) => z.string().trim()
-  .max(max, `Keep ${label} under ${max + 1} characters.`).optional().transform((v) => v || undefined)
+  .max(max, `Keep ${label} to ${max} characters or fewer.`).optional().transform((v) => v || undefined)
 
 export const schoolSchema = z.object({
   name: text('the school name', 160),
@@ -20,7 +20,8 @@ export const schoolSchema = z.object({
   addressLine2: optionalText('the second address line', 160),
   city: text('the city', 100),
   region: text('the state or region', 100),
-  postalCode: z.string({ error: 'Enter the postal code.' }).trim().min(3, 'Enter the postal code.').max(20, 'That postal code is too long.'),
+  postalCode: z.string({ error: 'Enter the postal code.' }).trim().min(3, 'Enter the postal code.').max(20, 'That postal code is too long.')
+    .regex(/^[A-Za-z0-9][A-Za-z0-9 -]*$/, 'Use letters, digits, spaces and hyphens only.'),
   country: z.string().trim().length(2, 'Use the two-letter country code, e.g. US.').toUpperCase().default('US'),
 })
 

@@ -8,7 +8,7 @@ export function listQuerySchema<const K extends readonly [string, ...string[]]>(
     pageSize: z.coerce.number().int().min(1).max(100, 'At most 100 rows a page.').default(20),
     sort: z.enum(sortKeys, { error: `Sort by one of: ${sortKeys.join(', ')}.` }).default(defaultSort as never),
     dir: z.enum(['asc', 'desc'], { error: 'Direction is asc or desc.' }).default(defaultDir),
-    q: z.string().trim().max(100, 'Keep the search under 100 characters.').optional(),
+    q: z.string().trim().max(100, 'Keep the search to 100 characters or fewer.').optional(),
   })
 }
 

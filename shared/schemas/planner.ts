@@ -14,8 +14,8 @@ export const sheetInputsSchema = z.object({
   gains: gainsSchema,
 })
 
-const title = z.string({ error: 'Give the sheet a title.' }).trim().min(1, 'Give the sheet a title.').max(120, 'Keep the title under 121 characters.')
-const note = z.string({ error: 'The note must be text.' }).trim().max(4000, 'Keep the note under 4001 characters.').nullish().transform((v) => v || null)
+const title = z.string({ error: 'Give the sheet a title.' }).trim().min(1, 'Give the sheet a title.').max(120, 'Keep the title to 120 characters or fewer.')
+const note = z.string({ error: 'The note must be text.' }).trim().max(4000, 'Keep the note to 4000 characters or fewer.').nullish().transform((v) => v || null)
 
 export const createSheetSchema = z.object({
   title,
@@ -34,7 +34,7 @@ export const sheetFileSchema = z.object({
   format: z.literal(SHEET_FILE_FORMAT, { error: `This is not a Tiltwright tuning sheet (format must be "${SHEET_FILE_FORMAT}").` }),
   version: z.literal(SHEET_FILE_VERSION, { error: `This Tiltwright reads tuning-sheet files of version ${SHEET_FILE_VERSION}.` }),
   title,
-  note: z.string().max(4000, 'Keep the note under 4001 characters.').nullable().optional(),
+  note: z.string().max(4000, 'Keep the note to 4000 characters or fewer.').nullable().optional(),
   savedAt: z.string().optional(),
   inputs: sheetInputsSchema,
   results: z.record(z.string(), z.unknown()).optional(),

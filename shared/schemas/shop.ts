@@ -38,7 +38,7 @@ const email = (label: string) => z.string({ error: `Enter ${label}.` }).trim().t
 
 /** The text fields of the purchase-order form (the files are checked from their bytes). */
 export const purchaseOrderFieldsSchema = z.object({
-  poNumber: z.string({ error: 'Enter the purchase-order number.' }).trim().min(1, 'Enter the purchase-order number.').max(60, 'Keep the PO number under 61 characters.')
+  poNumber: z.string({ error: 'Enter the purchase-order number.' }).trim().min(1, 'Enter the purchase-order number.').max(60, 'Keep the PO number to 60 characters or fewer.')
     .regex(/^[A-Za-z0-9][A-Za-z0-9 ./_#-]*$/, 'Use letters, digits, spaces and . / _ # - only.'),
   apEmail: email('the accounts-payable e-mail address'),
 })
@@ -47,7 +47,7 @@ export const UPLOAD_LIMIT_BYTES = 5 * 1024 * 1024
 export const UPLOAD_TYPES = ['application/pdf', 'image/png', 'image/jpeg', 'image/webp'] as const
 
 export const rejectSchema = z.object({
-  reason: z.string({ error: 'Say why the purchase order is rejected.' }).trim().min(5, 'Say why in a few words (the teacher reads this).').max(500, 'Keep the reason under 501 characters.'),
+  reason: z.string({ error: 'Say why the purchase order is rejected.' }).trim().min(5, 'Say why in a few words (the teacher reads this).').max(500, 'Keep the reason to 500 characters or fewer.'),
 })
 
 export const approveSchema = z.object({
@@ -55,13 +55,13 @@ export const approveSchema = z.object({
 })
 
 export const shipmentSchema = z.object({
-  carrier: z.string({ error: 'Enter the carrier.' }).trim().min(2, 'Enter the carrier.').max(60, 'Keep the carrier under 61 characters.'),
-  tracking: z.string({ error: 'Enter the tracking number.' }).trim().min(4, 'Enter the tracking number.').max(80, 'Keep the tracking number under 81 characters.')
+  carrier: z.string({ error: 'Enter the carrier.' }).trim().min(2, 'Enter the carrier.').max(60, 'Keep the carrier to 60 characters or fewer.'),
+  tracking: z.string({ error: 'Enter the tracking number.' }).trim().min(4, 'Enter the tracking number.').max(80, 'Keep the tracking number to 80 characters or fewer.')
     .regex(/^[A-Za-z0-9 -]+$/, 'Use letters, digits, spaces and dashes only.'),
 })
 
 export const recordPaymentSchema = z.object({
-  reference: z.string({ error: 'Enter the payment reference.' }).trim().min(2, 'Enter the payment reference (cheque or transfer number).').max(120, 'Keep the reference under 121 characters.'),
+  reference: z.string({ error: 'Enter the payment reference.' }).trim().min(2, 'Enter the payment reference (cheque or transfer number).').max(120, 'Keep the reference to 120 characters or fewer.'),
 })
 
 export const adminOrderListQuery = listQuerySchema(['number', 'createdAt', 'status', 'totalCents', 'school'] as const, 'createdAt').extend({
@@ -69,7 +69,7 @@ export const adminOrderListQuery = listQuerySchema(['number', 'createdAt', 'stat
   method: z.enum(['card', 'purchase-order'], { error: 'Filter by card or purchase-order.' }).optional(),
 })
 
-const slug = z.string({ error: 'Enter a slug.' }).trim().toLowerCase().min(2, 'Enter a slug.').max(80, 'Keep the slug under 81 characters.')
+const slug = z.string({ error: 'Enter a slug.' }).trim().toLowerCase().min(2, 'Enter a slug.').max(80, 'Keep the slug to 80 characters or fewer.')
   .regex(/^[a-z0-9]+(-[a-z0-9]+)*$/, 'Use lowercase letters, digits and single dashes, e.g. long-beam-kit.')
 
 export const tierSchema = z.object({
@@ -89,10 +89,10 @@ const specSchema = z.object({
 
 export const productSchema = z.object({
   slug,
-  name: z.string({ error: 'Enter the name.' }).trim().min(2, 'Enter the name.').max(120, 'Keep the name under 121 characters.'),
+  name: z.string({ error: 'Enter the name.' }).trim().min(2, 'Enter the name.').max(120, 'Keep the name to 120 characters or fewer.'),
   kind: z.enum(['kit', 'part'], { error: 'A product is a kit or a part.' }),
-  summary: z.string({ error: 'Enter a one-line summary.' }).trim().min(5, 'Enter a one-line summary.').max(300, 'Keep the summary under 301 characters.'),
-  description: z.string().trim().max(4000, 'Keep the description under 4001 characters.').default(''),
+  summary: z.string({ error: 'Enter a one-line summary.' }).trim().min(5, 'Enter a one-line summary.').max(300, 'Keep the summary to 300 characters or fewer.'),
+  description: z.string().trim().max(4000, 'Keep the description to 4000 characters or fewer.').default(''),
   specs: z.array(specSchema).max(20, 'At most 20 specs.').default([]),
   image: z.string().trim().regex(/^\/catalog\/[a-z0-9-]+\.svg$/, 'Use a drawing from /catalog/, e.g. /catalog/rig-kit.svg.').default('/catalog/part.svg'),
   weightGrams: z.coerce.number({ error: 'Enter the packed weight.' }).int('Use whole grams.').min(1, 'At least 1 g.').max(50_000, 'At most 50 kg.'),
@@ -104,7 +104,7 @@ export const productPatchSchema = productSchema.partial()
 
 export const batchSchema = z.object({
   productId: id('a product'),
-  code: z.string({ error: 'Enter the batch code.' }).trim().min(1, 'Enter the batch code.').max(40, 'Keep the code under 41 characters.')
+  code: z.string({ error: 'Enter the batch code.' }).trim().min(1, 'Enter the batch code.').max(40, 'Keep the code to 40 characters or fewer.')
     .regex(/^[A-Za-z0-9-]+$/, 'Use letters, digits and dashes only.'),
   quantity: z.coerce.number({ error: 'Enter how many were built.' }).int('Use a whole number.').min(1, 'At least 1.').max(100_000, 'At most 100000.'),
   builtOn: z.coerce.date({ error: 'Enter the date it was built.' }).optional(),

@@ -32,6 +32,8 @@ export interface PlannerForm {
   method: Targets['method']
   derivativeOn: Targets['derivativeOn']
   stepSizeMm: number | null
+  /** PID only; blank = a quarter of the natural frequency. */
+  integralPole: number | null
   discretization: NonNullable<Targets['discretization']>
 }
 
@@ -42,7 +44,7 @@ export const FORM_FIELD_OF: Record<string, keyof PlannerForm> = {
   railGap: 'railGapMm', servoSecondsPer60: 'servoSecondsPer60', servoTravel: 'servoTravelDeg', servoType: 'servoType',
   loopRate: 'loopRateHz', adcBits: 'adcBits', sensorSpanRatio: 'sensorSpanRatio', sensorLength: 'sensorLengthMm',
   overshootPct: 'overshootPct', settlingTime: 'settlingTime', form: 'form', derivativeFilterN: 'derivativeFilterN',
-  method: 'method', derivativeOn: 'derivativeOn', stepSize: 'stepSizeMm', discretization: 'discretization',
+  method: 'method', derivativeOn: 'derivativeOn', stepSize: 'stepSizeMm', integralPole: 'integralPole', discretization: 'discretization',
 }
 
 const num = (v: unknown) => (v === '' || v === null || v === undefined ? Number.NaN : Number(v))
@@ -62,6 +64,7 @@ export function targetsFromForm(f: PlannerForm): Targets {
   return {
     overshootPct: num(f.overshootPct), settlingTime: num(f.settlingTime), form: f.form, derivativeFilterN: num(f.derivativeFilterN),
     method: f.method, derivativeOn: f.derivativeOn, stepSize: opt(f.stepSizeMm, MM), discretization: f.discretization,
+    integralPole: f.form === 'PID' ? opt(f.integralPole) : undefined,
   }
 }
 
@@ -77,12 +80,20 @@ export function formFrom(rig: Rig, targets: Targets): PlannerForm {
     sensorLengthMm: rig.sensorLength === undefined ? null : round(rig.sensorLength / MM),
     overshootPct: targets.overshootPct, settlingTime: targets.settlingTime, form: targets.form, derivativeFilterN: targets.derivativeFilterN,
     method: targets.method, derivativeOn: targets.derivativeOn, stepSizeMm: targets.stepSize === undefined ? null : round(targets.stepSize / MM),
+    integralPole: targets.integralPole ?? null,
     discretization: targets.discretization ?? 'backward-euler',
   }
 }
 
-/** Drop the "(key)" the model puts in its messages: the form shows them beside the field. */
-export const plainMessage = (m: string) => m.replace(/ \(\w+\)/g, '')
+/**
+ * The model's message in the form's words: without the "(key)" (the form shows it beside the
+ * field) and, for a field the form asks in mm, with metres given in mm.
+ */
+export function plainMessage(m: string, formField?: string) {
+  let out = m.replace(/ \(\w+\)/g, '')
+  if (formField?.endsWith('Mm')) out = out.replace(/(\d+(?:\.\d+)?) m(?![\w/²])/g, (_, v: string) => `${Number((Number(v) * 1000).toPrecision(6))} mm`)
+  return out
+}
 
 export type PlannerCheck =
   | { ok: true; rig: Rig; targets: Targets; errors: FieldErrors }
@@ -95,7 +106,10 @@ export function checkPlannerForm(f: PlannerForm): PlannerCheck {
   const errors: FieldErrors = {}
   for (const r of [rig, targets]) {
     if (r.success) continue
-    for (const [k, m] of Object.entries(fieldErrorsOf(r.error as z.ZodError))) errors[FORM_FIELD_OF[k] ?? k] ??= plainMessage(m)
+    for (const [k, m] of Object.entries(fieldErrorsOf(r.error as z.ZodError))) {
+      const field = FORM_FIELD_OF[k] ?? k
+      errors[field] ??= plainMessage(m, field)
+    }
   }
   if (rig.success && targets.success) return { ok: true, rig: rig.data, targets: targets.data, errors }
   return { ok: false, errors }

@@ -54,7 +54,7 @@ describe('register and verify', () => {
     expect(f.name).toBe('Enter your name.')
     expect(f.email).toMatch(/e-mail address/)
     expect(f.password).toMatch(/at least 10/)
-    expect(f['school.name']).toMatch(/under 161/)
+    expect(f['school.name']).toMatch(/160 characters or fewer/)
     expect(f['school.city']).toBe('Enter the city.')
 
     const wrongTypes = await c.post('/api/auth/register', { name: 42, email: [], password: null, school: 'yes' })

@@ -2,6 +2,7 @@
 // existence must not leak), the right role gets through.
 import { describe, expect, it } from 'vitest'
 import { Client, uniqueEmail } from '../helpers/client'
+import { waitForMail } from '../helpers/mail'
 
 async function as(role: string) {
   const c = new Client()
@@ -45,6 +46,10 @@ describe('role checks', () => {
     const r = await admin.post('/api/admin/staff', { name: 'New Colleague', email, role: 'support' })
     expect(r.status).toBe(201)
     expect(typeof r.body.id).toBe('number')
+    const invite = await waitForMail(email, /staff account/)
+    expect(invite.text).toContain('Marcus Teel has added you')
+    expect(invite.text).toMatch(/reset-password\/[A-Za-z0-9_-]+/)
+    expect(invite.text).toContain('expires in 3 days')
     const dup = await admin.post('/api/admin/staff', { name: 'Twice', email, role: 'support' })
     expect(dup.status).toBe(409)
     expect(dup.body.data.fields.email).toBeDefined()

@@ -29,6 +29,30 @@ describe('signing in through the page', () => {
     })
   }
 
+  it('signs out: the header and the session both forget the user', async () => {
+    const context = await browser.newContext()
+    const page = await context.newPage()
+    await signInThroughPage(page, 'teacher@tiltwright.test')
+    await page.getByRole('button', { name: 'Sign out' }).click()
+    await page.getByRole('link', { name: 'Sign in' }).waitFor()
+    expect(await page.getByTestId('account-link').count()).toBe(0)
+    const session = await page.evaluate(() => fetch('/api/_auth/session').then((r) => r.json()))
+    expect(session.user).toBeUndefined()
+    await page.goto(url('/account'))
+    await page.waitForURL(/\/login/)
+    await context.close()
+  })
+
+  it('shows Tiltwright\'s own page, with the header, for an address that does not exist', async () => {
+    const page = await browser.newPage()
+    const res = await page.goto(url('/no-such-page'))
+    expect(res?.status()).toBe(404)
+    await page.getByRole('heading', { name: 'There is nothing here' }).waitFor()
+    expect(await page.getByRole('navigation', { name: 'Main' }).count()).toBe(1)
+    expect(await page.title()).toBe('Not found — Tiltwright')
+    await page.close()
+  })
+
   it('keeps what was typed and ties the error to the field on a wrong password', async () => {
     const page = await browser.newPage()
     await page.goto(url('/login'))
@@ -61,7 +85,8 @@ describe('signing in through the page', () => {
     await page.keyboard.press('Tab')
     await page.keyboard.type('tiltwright-demo')
     await page.keyboard.press('Enter')
-    await page.waitForURL((u) => u.pathname === '/')
+    // Staff land on their desk after signing in.
+    await page.waitForURL((u) => u.pathname === '/staff')
     expect(await page.getByTestId('account-link').textContent()).toMatch(/admin/i)
     await page.close()
   })

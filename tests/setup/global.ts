@@ -37,7 +37,11 @@ export default async function setup(project: TestProject) {
     TILTWRIGHT_UPLOAD_DIR: resolve(projectRoot, `data/uploads-test${SUFFIX}`),
   }
   const build = spawnSync(resolve(projectRoot, 'node_modules/.bin/nuxt'), ['build'], { cwd: projectRoot, env: buildEnv, encoding: 'utf8' })
-  if (build.status !== 0) throw new Error(`nuxt build failed:\n${build.stdout}\n${build.stderr}`)
+  if (build.status !== 0) {
+    await catcher.close()
+    db.stop()
+    throw new Error(`nuxt build failed:\n${build.stdout}\n${build.stderr}`)
+  }
 
   const baseUrl = `http://localhost:${APP_PORT}`
   const app: ChildProcess = spawn(process.execPath, [resolve(projectRoot, `.output-test${SUFFIX}/server/index.mjs`)], {
@@ -56,12 +60,19 @@ export default async function setup(project: TestProject) {
   app.stdout!.on('data', (d) => { log += d })
   app.stderr!.on('data', (d) => { log += d })
   const deadline = Date.now() + 60_000
+  // A failed start must not leave the database, the mail catcher or the app running.
+  const abandon = async (why: string) => {
+    app.kill('SIGTERM')
+    await catcher.close()
+    db.stop()
+    return new Error(why)
+  }
   for (;;) {
-    if (app.exitCode !== null) throw new Error(`the app exited during start-up:\n${log}`)
+    if (app.exitCode !== null) throw await abandon(`the app exited during start-up:\n${log}`)
     try {
       if ((await fetch(`${baseUrl}/api/_auth/session`)).ok) break
     } catch { /* not up yet */ }
-    if (Date.now() > deadline) throw new Error(`the app did not answer within 60 s:\n${log}`)
+    if (Date.now() > deadline) throw await abandon(`the app did not answer within 60 s:\n${log}`)
     await new Promise((r) => setTimeout(r, 250))
   }
 

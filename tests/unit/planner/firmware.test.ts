@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest'
-import { beamAngleRange, derivativeCoefficients, firmwareConstants, KIT_PRESETS, type Gains } from '../../../shared/utils/planner'
+import { REFERENCE_RIG } from './fixtures'
+import { beamAngleRange, derivativeCoefficients, firmwareConstants, type Gains } from '../../../shared/utils/planner'
 
-const rig = KIT_PRESETS[0]!.rig // 50 Hz, 2560 counts/m
+const rig = REFERENCE_RIG // 50 Hz, 2560 counts/m
 const DEG = 180 / Math.PI
 
 describe('firmwareConstants', () => {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
+import { REFERENCE_RIG } from './fixtures'
 import {
   beamAngleRange,
-  KIT_PRESETS,
   leverBeamAngle,
   leverRatioAt,
   leverServoAngle,
@@ -55,7 +55,7 @@ describe('exact lever geometry', () => {
   })
 
   it('finds where the linkage folds back: past it more servo angle tilts the beam less', () => {
-    const r = beamAngleRange(KIT_PRESETS[0]!.rig) // d = 25 mm, L_a = 200 mm, ℓ = 100 mm
+    const r = beamAngleRange(REFERENCE_RIG) // d = 25 mm, L_a = 200 mm, ℓ = 100 mm
     expect(r.maxAtServoAngle).toBeGreaterThan(1)
     expect(r.maxAtServoAngle).toBeLessThan(Math.PI / 2)
     expect(leverRatioAt(r.maxAtServoAngle, g)!).toBeCloseTo(0, 5)
@@ -66,7 +66,7 @@ describe('exact lever geometry', () => {
   })
 
   it('gives the beam angle limit of a kit rig, below the small-angle estimate', () => {
-    const r = beamAngleRange(KIT_PRESETS[0]!.rig)
+    const r = beamAngleRange(REFERENCE_RIG)
     expect(r.reachable).toBe(true)
     expect(r.smallAngle).toBeCloseTo((0.025 / 0.2) * (Math.PI / 2), 12)
     expect(r.max).toBeGreaterThan(0)
@@ -75,7 +75,7 @@ describe('exact lever geometry', () => {
   })
 
   it('uses θ/N_g for a direct drive', () => {
-    const r = beamAngleRange({ ...KIT_PRESETS[0]!.rig, drive: 'direct', gearRatio: 30 })
+    const r = beamAngleRange({ ...REFERENCE_RIG, drive: 'direct', gearRatio: 30 })
     expect(r.max).toBeCloseTo(Math.PI / 2 / 30, 14)
   })
 })

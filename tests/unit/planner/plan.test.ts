@@ -1,8 +1,7 @@
 import { describe, expect, it } from 'vitest'
+import { REFERENCE_RIG, REFERENCE_TARGETS } from './fixtures'
 import {
   compareProportionalAndPd,
-  DEFAULT_TARGETS,
-  KIT_PRESETS,
   planGains,
   plantOf,
   stabilityMap,
@@ -13,11 +12,11 @@ import {
   type WarningCode,
 } from '../../../shared/utils/planner'
 
-const rig: Rig = KIT_PRESETS[0]!.rig // τ_eff = 40 ms + 30 ms = 70 ms
+const rig: Rig = REFERENCE_RIG // τ_eff = 40 ms + 30 ms = 70 ms
 const codes = (p: GainPlan) => p.warnings.map((w) => w.code)
 const seen = new Set<WarningCode>()
 function plan(r: Rig, t: Partial<Targets> = {}) {
-  const p = planGains(r, { ...DEFAULT_TARGETS, ...t })
+  const p = planGains(r, { ...REFERENCE_TARGETS, ...t })
   for (const c of codes(p)) seen.add(c)
   return p
 }
@@ -169,7 +168,7 @@ describe('planGains', () => {
 
 describe('compareProportionalAndPd', () => {
   it('shows P only swinging and growing next to a settling PD with the same Kp', () => {
-    const c = compareProportionalAndPd(rig, DEFAULT_TARGETS)
+    const c = compareProportionalAndPd(rig, REFERENCE_TARGETS)
     expect(c.pOnly.gains!.kp).toBe(c.pd.gains!.kp)
     expect(c.pOnly.gains!.kd).toBe(0)
     expect(c.pOnly.analysis!.stable).toBe(false)

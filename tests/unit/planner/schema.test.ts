@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
+import { REFERENCE_RIG, REFERENCE_TARGETS } from './fixtures'
 import {
   calibrationSchema,
-  DEFAULT_TARGETS,
   gainsSchema,
   KIT_PRESETS,
   rigSchema,
@@ -9,7 +9,7 @@ import {
   type Rig,
 } from '../../../shared/utils/planner'
 
-const rig: Rig = KIT_PRESETS[0]!.rig
+const rig: Rig = REFERENCE_RIG
 
 function issuesOf(result: { success: boolean; error?: { issues: { path: PropertyKey[]; message: string }[] } }) {
   expect(result.success).toBe(false)
@@ -82,7 +82,7 @@ describe('rigSchema', () => {
 
 describe('targetsSchema', () => {
   it('accepts the default targets', () => {
-    expect(targetsSchema.safeParse(DEFAULT_TARGETS).success).toBe(true)
+    expect(targetsSchema.safeParse(REFERENCE_TARGETS).success).toBe(true)
   })
   it.each([
     ['100 % overshoot', { overshootPct: 100 }, 'overshootPct'],
@@ -97,7 +97,7 @@ describe('targetsSchema', () => {
     ['a zero step size', { stepSize: 0 }, 'stepSize'],
     ['an unknown discretisation', { discretization: 'euler' }, 'discretization'],
   ] as const)('rejects %s with a message naming the field', (_, patch, field) => {
-    expectFieldError(targetsSchema.safeParse({ ...DEFAULT_TARGETS, ...patch }), field)
+    expectFieldError(targetsSchema.safeParse({ ...REFERENCE_TARGETS, ...patch }), field)
   })
 })
 

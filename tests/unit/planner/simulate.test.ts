@@ -2,13 +2,12 @@
 // port of Hairer & Wanner's ODEX (Gragg–Bulirsch–Stoer extrapolation, adaptive step size),
 // integrating the same equations between samples.
 import { Solver } from 'odex'
+import { REFERENCE_RIG, REFERENCE_TARGETS } from './fixtures'
 import { describe, expect, it } from 'vitest'
 import {
   analyzeLoop,
   beamAngleRange,
-  DEFAULT_TARGETS,
   filterTimeConstant,
-  KIT_PRESETS,
   leverBeamAngle,
   leverGeometryOf,
   planGains,
@@ -21,8 +20,8 @@ import {
   type Rig,
 } from '../../../shared/utils/planner'
 
-const rig: Rig = KIT_PRESETS[0]!.rig
-const plan = planGains(rig, DEFAULT_TARGETS)
+const rig: Rig = REFERENCE_RIG
+const plan = planGains(rig, REFERENCE_TARGETS)
 const gains: Gains = plan.gains!
 
 function solver(n: number, tol = 1e-12): Solver {
@@ -151,7 +150,7 @@ describe('nonlinear simulation', () => {
 describe('sampled step metrics', () => {
   it('overshoot and 2 % settling match the linear loop integrated by odex with dense output', () => {
     for (const form of ['PD', 'PID'] as const) {
-      const p = planGains(rig, { ...DEFAULT_TARGETS, form })
+      const p = planGains(rig, { ...REFERENCE_TARGETS, form })
       const g = p.gains!
       const a = analyzeLoop(rig, g)
       const plant = plantOf(rig)

@@ -2,6 +2,7 @@
 import { randomBytes } from 'node:crypto'
 import { createStaffSchema } from '../../../../shared/schemas/staff'
 import { users } from '../../../database/schema'
+import { staffInvitationMail } from '../../../emails/staff'
 
 export default defineEventHandler(async (event) => {
   const admin = await requireRole(event, 'admin')
@@ -10,7 +11,9 @@ export default defineEventHandler(async (event) => {
   try {
     const id = await useDb().transaction(async (tx) => {
       const [row] = await tx.insert(users).values({ ...input, passwordHash, verifiedAt: null }).$returningId()
-      await sendPasswordReset(tx, { id: row!.id, name: input.name, email: input.email })
+      // The invitation is a password-setting link that lives 3 days, not a reset's 1 hour.
+      const token = await issueToken(tx, row!.id, 'reset-password', 3 * 24 * 3600_000)
+      await enqueueMail(tx, 'staff-invitation', input.email, staffInvitationMail(input.name, admin.name, input.role, appUrl(`/reset-password/${token}`)))
       await audit(tx, { actorId: admin.id, action: 'staff.created', subjectType: 'user', subjectId: row!.id, detail: { role: input.role } })
       return row!.id
     })
