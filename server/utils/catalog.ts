@@ -2,7 +2,7 @@
 import { and, asc, eq, inArray, sql } from 'drizzle-orm'
 import { batches, priceTiers, products, schools } from '../database/schema'
 import type { BatchView, ProductView } from '../../shared/types/shop'
-import { priceCart, type PriceTier } from '../../shared/utils/pricing'
+import { priceCart, tierRangeLabel, type PriceTier } from '../../shared/utils/pricing'
 import { unitsLeft } from '../../shared/utils/shop-rules'
 import type { CartLine } from '../../shared/schemas/shop'
 
@@ -62,4 +62,16 @@ export async function priceLines(db: DbOrTx, lines: CartLine[], schoolId: number
 
 export function taxRate(): number {
   return Number(useRuntimeConfig().taxRateBasisPoints)
+}
+
+/** Stored quote and order lines with their tier's range in the kit page's words ("1–4"), from
+ *  the product's tiers as they stand; a tier no longer in the catalog reads "12+". */
+export async function withTierLabels<L extends { productId: number; tierMinQuantity: number }>(db: DbOrTx, lines: L[]): Promise<(L & { tierLabel: string })[]> {
+  const ids = [...new Set(lines.map((l) => l.productId))]
+  const rows = ids.length ? await db.select().from(priceTiers).where(inArray(priceTiers.productId, ids)) : []
+  return lines.map((l) => {
+    const tiers = rows.filter((t) => t.productId === l.productId)
+    const tier = tiers.find((t) => t.minQuantity === l.tierMinQuantity)
+    return { ...l, tierLabel: tier ? tierRangeLabel(tiers, tier) : `${l.tierMinQuantity}+` }
+  })
 }

@@ -208,7 +208,7 @@ export async function orderView(db: DbOrTx, order: OrderRow, user: SessionUser):
     createdAt: order.createdAt.toISOString(), paidAt: order.paidAt?.toISOString() ?? null,
     school: { id: people.school.id, name: people.school.name, district: people.school.district, taxExemption: people.school.taxExemption },
     placedBy: people.buyer, quoteId: order.quoteId,
-    lines: lines.map((l) => ({ productId: l.productId, name: l.name, quantity: l.quantity, tierMinQuantity: l.tierMinQuantity, unitPriceCents: l.unitPriceCents, lineTotalCents: l.lineTotalCents })),
+    lines: await withTierLabels(db, lines.map((l) => ({ productId: l.productId, name: l.name, quantity: l.quantity, tierMinQuantity: l.tierMinQuantity, unitPriceCents: l.unitPriceCents, lineTotalCents: l.lineTotalCents }))),
     events: events.map((e) => ({ id: e.id, kind: e.kind, message: e.message, createdAt: e.createdAt.toISOString() })),
     shipments: ships.map((s) => ({ id: s.id, carrier: s.carrier, tracking: s.tracking, shippedAt: s.shippedAt.toISOString() })),
     documents: docs,

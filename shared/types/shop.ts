@@ -26,7 +26,11 @@ export interface PricedCart extends Totals {
   signedIn: boolean
 }
 
-export interface DocLine { name: string; quantity: number; tierMinQuantity: number; unitPriceCents: number; lineTotalCents: number; productId: number }
+export interface DocLine {
+  name: string; quantity: number; tierMinQuantity: number; unitPriceCents: number; lineTotalCents: number; productId: number
+  /** The tier's range as the kit page shows it ("1–4", "12+"), when the view adds it. */
+  tierLabel?: string
+}
 
 export interface QuoteView extends Totals {
   id: number; number: string; createdAt: string; validUntil: string; valid: boolean; orderId: number | null

@@ -88,6 +88,8 @@ describe('the cart', () => {
     await page.getByRole('link', { name: 'Pay by purchase order' }).click()
     const lines = page.getByRole('table', { name: 'What you are ordering' })
     await lines.getByText('Steel Ball Set').waitFor()
+    // One tier wording everywhere: the kit page's range, not "tier 1+".
+    await lines.getByText('price for 1–9').waitFor()
     expect(await lines.getByRole('cell', { name: '3', exact: true }).count()).toBe(1)
     expect((await page.getByTestId('ship-to').textContent())!.trim().length).toBeGreaterThan(10)
     await page.screenshot({ path: resolve(shots, 'checkout-lines-desktop.png'), fullPage: true })
