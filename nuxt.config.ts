@@ -45,6 +45,8 @@ export default defineNuxtConfig({
     mailFrom: 'Tiltwright <hello@tiltwright.test>',
     mailCatcherUrl: 'http://127.0.0.1:1080',
     outboxRetryBaseMs: 15_000,
+    cardHoldHours: 48,
+    cardHoldSweepMs: 600_000,
     publicUrl: 'http://localhost:3000',
     fakePayments,
     // The payment SDK: key, API address (empty = the provider's own; in fake mode the app

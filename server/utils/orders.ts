@@ -229,10 +229,10 @@ export async function replyWithOrder(orderId: number, user: SessionUser) {
 }
 
 /** Cancels an unpaid order and releases its stock, inside the caller's transaction. */
-export async function cancelOrderIn(tx: Tx, order: OrderRow, actor: SessionUser, message: string) {
+export async function cancelOrderIn(tx: Tx, order: OrderRow, actor: Pick<SessionUser, 'id'> | null, message: string) {
   await tx.update(orders).set({ status: 'cancelled', updatedAt: new Date() }).where(eq(orders.id, order.id))
   const released = await releaseStock(tx, order.id)
-  await addOrderEvent(tx, order.id, 'cancelled', [message, releasedWords(released)].filter(Boolean).join(' '), actor.id)
+  await addOrderEvent(tx, order.id, 'cancelled', [message, releasedWords(released)].filter(Boolean).join(' '), actor?.id ?? null)
   if (order.quoteId) await tx.update(quotes).set({ orderId: null }).where(and(eq(quotes.id, order.quoteId), eq(quotes.orderId, order.id)))
 }
 

@@ -2,7 +2,7 @@
 // plots change at once; phone-sized without sideways scrolling; no serious a11y findings.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
-import { accessibilityViolations, launch, signInThroughPage, url } from '../helpers/browser'
+import { accessibilityViolations, gotoReady, launch, signInThroughPage, url } from '../helpers/browser'
 
 let browser: Browser
 beforeAll(async () => { browser = await launch() })
@@ -11,7 +11,7 @@ afterAll(async () => { await browser?.close() })
 describe('Gain Planner page', () => {
   it('re-plans and redraws when a measurement changes', async () => {
     const page = await browser.newPage({ viewport: { width: 1366, height: 900 } })
-    await page.goto(url('/planner'))
+    await gotoReady(page, '/planner')
     const kp = page.getByTestId('kp')
     await kp.waitFor()
     const plot = page.getByTestId('response-plot').locator('canvas').first()
@@ -30,7 +30,7 @@ describe('Gain Planner page', () => {
 
   it('shows a field error for a nonsense value and keeps what was typed', async () => {
     const page = await browser.newPage()
-    await page.goto(url('/planner'))
+    await gotoReady(page, '/planner')
     await page.getByLabel('Rail contact spacing (mm)').fill('25')
     await page.locator('#railGapMm-error').waitFor()
     expect(await page.locator('#railGapMm-error').textContent()).toMatch(/smaller than the ball diameter/)
@@ -52,7 +52,7 @@ describe('Gain Planner page', () => {
   it('lets a signed-in builder save a tuning sheet and find it under My sheets', async () => {
     const page = await browser.newPage({ viewport: { width: 1366, height: 900 } })
     await signInThroughPage(page, 'builder@tiltwright.test')
-    await page.goto(url('/planner'))
+    await gotoReady(page, '/planner')
     await page.getByLabel('Title').fill('Browser bench sheet')
     await page.getByRole('button', { name: 'Save sheet' }).click()
     await page.getByText('Saved.').waitFor()

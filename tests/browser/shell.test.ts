@@ -2,7 +2,7 @@
 // field errors tied to their inputs, and an automated accessibility check.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
-import { accessibilityViolations, launch, signInThroughPage, url } from '../helpers/browser'
+import { accessibilityViolations, gotoReady, launch, signInThroughPage, url } from '../helpers/browser'
 
 let browser: Browser
 beforeAll(async () => { browser = await launch() })
@@ -55,7 +55,7 @@ describe('signing in through the page', () => {
 
   it('keeps what was typed and ties the error to the field on a wrong password', async () => {
     const page = await browser.newPage()
-    await page.goto(url('/login'))
+    await gotoReady(page, '/login')
     await page.getByLabel('E-mail').fill('teacher@tiltwright.test')
     await page.getByLabel('Password').fill('wrong-password')
     await page.getByRole('button', { name: 'Sign in' }).click()
@@ -69,7 +69,7 @@ describe('signing in through the page', () => {
 
   it('shows field errors on the registration form before anything is sent', async () => {
     const page = await browser.newPage()
-    await page.goto(url('/register'))
+    await gotoReady(page, '/register')
     await page.getByRole('button', { name: 'Open the account' }).click()
     await page.locator('#name-error').waitFor()
     expect(await page.locator('#school-city-error').textContent()).toBe('Enter the city.')
@@ -79,7 +79,7 @@ describe('signing in through the page', () => {
 
   it('lets a keyboard user reach the sign-in form', async () => {
     const page = await browser.newPage()
-    await page.goto(url('/login'))
+    await gotoReady(page, '/login')
     await page.getByLabel('E-mail').focus()
     await page.keyboard.type('admin@tiltwright.test')
     await page.keyboard.press('Tab')

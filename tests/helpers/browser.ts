@@ -30,8 +30,16 @@ export async function accessibilityViolations(page: Page): Promise<AxeViolation[
   return (result as AxeViolation[]).filter((v) => v.impact === 'serious' || v.impact === 'critical')
 }
 
+/** Go to a page and wait until Vue has hydrated it: a click before that would submit the
+ *  server-rendered form natively instead of through the page's own handler. */
+export async function gotoReady(page: Page, path: string) {
+  const reply = await page.goto(url(path))
+  await page.waitForFunction(() => !!(document.querySelector('#__nuxt') as unknown as { __vue_app__?: unknown } | null)?.__vue_app__)
+  return reply
+}
+
 export async function signInThroughPage(page: Page, email: string, password = 'tiltwright-demo') {
-  await page.goto(url('/login'))
+  await gotoReady(page, '/login')
   await page.getByLabel('E-mail').fill(email)
   await page.getByLabel('Password').fill(password)
   await page.getByRole('button', { name: 'Sign in' }).click()

@@ -14,10 +14,11 @@ import { ensureDebianPackage } from '../../scripts/lib/system'
 // TILTWRIGHT_TEST_SLOT lets two suites run side by side on one machine (each slot has its
 // own ports, data folder and build folders).
 const SLOT = Number(process.env.TILTWRIGHT_TEST_SLOT || 0)
-const APP_PORT = 3417 + SLOT * 10
-const SMTP_PORT = 2525 + SLOT * 10
-const MAIL_HTTP_PORT = 2580 + SLOT * 10
-const DB_PORT = 3407 + SLOT * 10
+// A step of 100 keeps every slot's four ports clear of every other slot's.
+const APP_PORT = 3417 + SLOT * 100
+const SMTP_PORT = 2525 + SLOT * 100
+const MAIL_HTTP_PORT = 2580 + SLOT * 100
+const DB_PORT = 3407 + SLOT * 100
 const SUFFIX = SLOT ? String(SLOT) : ''
 
 declare module 'vitest' {
@@ -53,6 +54,8 @@ export default async function setup(project: TestProject) {
       NUXT_SESSION_PASSWORD: randomBytes(32).toString('hex'),
       // Retry failed mail quickly, so the outage test need not wait 15 s.
       NUXT_OUTBOX_RETRY_BASE_MS: '400',
+      // Sweep stale card orders every second, so the hold test need not wait 10 minutes.
+      NUXT_CARD_HOLD_SWEEP_MS: '1000',
     },
     stdio: ['ignore', 'pipe', 'pipe'],
   })
