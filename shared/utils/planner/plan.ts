@@ -1,14 +1,15 @@
 // The Gain Planner: targets in, suggested gains, their check, firmware constants, hardware
 // limits and warnings out. Inputs are expected to have passed rigSchema / targetsSchema.
 import { analyzePlantLoop, type LoopAnalysis } from './analyze'
-import { designGains, filterTimeConstant } from './design'
+import { designGains, filterTimeConstant, type GainDesign } from './design'
 import { firmwareConstants, type FirmwareConstants } from './firmware'
 import { computeLimits, type PlannerLimits } from './limits'
 import { plantOf, type Plant } from './plant'
 import type { Discretization, Gains, Rig, Targets } from './schema'
 import { collectWarnings, type PlannerWarning } from './warnings'
 
-export interface GainPlan {
+/** The design's ζ, ω_n, third pole, integral pole and settling-time bounds, as designGains gives them. */
+export interface GainPlan extends Pick<GainDesign, 'zeta' | 'wn' | 'p3' | 'integralPole' | 'fastestSettlingTime' | 'recommendedSettlingTime'> {
   plant: Plant
   /**
    * The targets can be met: the method yields gains (lag-aware: p3 > 0; P only: never) and those
@@ -21,16 +22,6 @@ export interface GainPlan {
   gains: Gains | null
   /** Gains the formulas gave but the check refused (unstable); null otherwise. Never load these. */
   rejectedGains: Gains | null
-  zeta: number
-  wn: number
-  /** Lag-aware third pole, rad/s (≤ 0 when infeasible); null for the ideal method and P. */
-  p3: number | null
-  /** PID integral pole used, rad/s; null otherwise. */
-  integralPole: number | null
-  /** Lag-aware: settling times at or below this cannot be met, s. */
-  fastestSettlingTime: number | null
-  /** Lag-aware: settling time from which the third pole is far enough (28·τ_eff for PD), s. */
-  recommendedSettlingTime: number | null
   /** analyzeLoop of the suggestion; null when infeasible. */
   analysis: LoopAnalysis | null
   /** Constants to paste; null when infeasible. */
