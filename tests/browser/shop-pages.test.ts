@@ -5,7 +5,7 @@ import { mkdirSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
-import { launch, signInThroughPage, url } from '../helpers/browser'
+import { gotoReady, launch, signInThroughPage, url } from '../helpers/browser'
 
 const shots = resolve(import.meta.dirname, '../.artifacts/shop')
 mkdirSync(shots, { recursive: true })
@@ -20,7 +20,7 @@ async function fitsPhone(email: string, path: string, last: (page: Page) => Retu
   const ctx = await browser.newContext({ viewport: phone })
   const page = await ctx.newPage()
   await signInThroughPage(page, email)
-  await page.goto(url(path))
+  await gotoReady(page, path)
   await page.locator('h1').waitFor()
   expect(await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth)).toBe(0)
   const box = (await last(page).boundingBox())!
@@ -33,7 +33,7 @@ describe('the admin catalog form', () => {
   it('gives every field its message and recovers as the admin corrects them', async () => {
     const page = await browser.newPage()
     await signInThroughPage(page, 'admin@tiltwright.test')
-    await page.goto(url('/admin/catalog'))
+    await gotoReady(page, '/admin/catalog')
     await page.getByRole('button', { name: 'Add a product' }).click()
     await page.getByRole('button', { name: 'Save' }).click()
     const form = page.locator('form')
@@ -60,10 +60,10 @@ describe('the cart', () => {
   it('keeps what the teacher typed, says what is wrong and blocks ordering until it is fixed', async () => {
     const page = await browser.newPage()
     await signInThroughPage(page, 'teacher@tiltwright.test')
-    await page.goto(url('/kits/steel-balls'))
+    await gotoReady(page, '/kits/steel-balls')
     await page.getByLabel('How many?').fill('2')
     await page.getByRole('button', { name: 'Add to cart' }).click()
-    await page.goto(url('/cart'))
+    await gotoReady(page, '/cart')
     await page.getByTestId('total').waitFor()
     const qty = page.getByLabel(/^Quantity of /)
     const pay = page.getByRole('button', { name: 'Pay by card' })
@@ -93,7 +93,7 @@ describe('the cart', () => {
     expect(await lines.getByRole('cell', { name: '3', exact: true }).count()).toBe(1)
     expect((await page.getByTestId('ship-to').textContent())!.trim().length).toBeGreaterThan(10)
     await page.screenshot({ path: resolve(shots, 'checkout-lines-desktop.png'), fullPage: true })
-    await page.goto(url('/cart'))
+    await gotoReady(page, '/cart')
     await page.getByRole('button', { name: /^Remove / }).click()
     await page.close()
   })
@@ -103,14 +103,14 @@ describe('the admin orders table', () => {
   it('keeps its filter, sort and page in the address across a reload', async () => {
     const page = await browser.newPage()
     await signInThroughPage(page, 'admin@tiltwright.test')
-    await page.goto(url('/admin/orders'))
+    await gotoReady(page, '/admin/orders')
     await page.getByLabel('Status').selectOption('cancelled')
     await page.getByLabel('Search order, school or PO number').fill('TW')
     await page.waitForURL((u) => u.searchParams.get('status') === 'cancelled' && u.searchParams.get('q') === 'TW')
     await page.reload()
     expect(await page.getByLabel('Status').inputValue()).toBe('cancelled')
     expect(await page.getByLabel('Search order, school or PO number').inputValue()).toBe('TW')
-    await page.goto(url('/admin/orders?status=bogus&page=0'))
+    await gotoReady(page, '/admin/orders?status=bogus&page=0')
     expect(await page.getByLabel('Status').inputValue()).toBe('')
     await page.close()
   })
@@ -123,10 +123,10 @@ describe('pages for the role', () => {
       await signInThroughPage(page, `${who}@tiltwright.test`)
       if (who === 'support') expect(new URL(page.url()).pathname).toBe('/staff')
       for (const path of ['/orders', '/quotes', '/cart', '/checkout']) {
-        const reply = await page.goto(url(path))
+        const reply = await gotoReady(page, path)
         expect({ who, path, status: reply?.status() }).toEqual({ who, path, status: 404 })
       }
-      await page.goto(url('/kits/rig-kit'))
+      await gotoReady(page, '/kits/rig-kit')
       await page.locator('h1').waitFor()
       expect(await page.getByRole('button', { name: 'Add to cart' }).count()).toBe(0)
       await page.close()

@@ -5,7 +5,7 @@ import { mkdirSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, BrowserContext, Page } from 'playwright-core'
-import { accessibilityViolations, launch, signInThroughPage, url } from '../helpers/browser'
+import { accessibilityViolations, gotoReady, launch, signInThroughPage, url } from '../helpers/browser'
 import { waitForMail } from '../helpers/mail'
 import { CARD_OK, PDF_BYTES } from '../helpers/shop'
 
@@ -63,10 +63,10 @@ describe('buying in the browser', () => {
     const ctx = await context()
     const page = await ctx.newPage()
     await signInThroughPage(page, 'teacher@tiltwright.test')
-    await page.goto(url('/kits/steel-balls'))
+    await gotoReady(page, '/kits/steel-balls')
     await page.getByLabel('How many?').fill('30')
     await page.getByRole('button', { name: 'Add to cart' }).click()
-    await page.goto(url('/cart'))
+    await gotoReady(page, '/cart')
     await page.getByRole('link', { name: 'Pay by purchase order' }).click()
     await page.getByLabel('Purchase-order number').fill('CH-7781')
     await page.getByLabel('Accounts-payable e-mail').fill('ap@cobalt-hills.test')
@@ -82,7 +82,7 @@ describe('buying in the browser', () => {
     const adminCtx = await context()
     const admin = await adminCtx.newPage()
     await signInThroughPage(admin, 'admin@tiltwright.test')
-    await admin.goto(url('/admin/orders'))
+    await gotoReady(admin, '/admin/orders')
     await admin.getByLabel('Search order, school or PO number').fill('CH-7781')
     await admin.getByRole('link', { name: number }).click()
     await admin.getByRole('heading', { name: 'Purchase order CH-7781' }).waitFor()
@@ -98,19 +98,19 @@ describe('buying in the browser', () => {
     await admin.getByText('Shipment recorded').waitFor()
     expect(await admin.getByTestId('order-status').textContent()).toBe('Shipped')
     await shot(admin, 'admin-order-shipped')
-    await admin.goto(url('/admin/orders'))
+    await gotoReady(admin, '/admin/orders')
     await shot(admin, 'admin-orders-desktop')
     await adminCtx.close()
 
     await waitForMail('ap@cobalt-hills.test', /^Invoice TWF-/)
-    await page.goto(url(orderPath))
+    await gotoReady(page, orderPath)
     expect(await page.getByTestId('tracking').textContent()).toBe('RF 5555 0101')
     await page.getByRole('link', { name: 'Pay the invoice online' }).click()
     await page.waitForURL(/\/fake-pay\/invoice\//)
     await page.getByLabel('Card number').fill(CARD_OK)
     await page.getByRole('button', { name: /^Pay \$/ }).click()
     await page.getByText('This invoice is paid').waitFor()
-    await page.goto(url(orderPath))
+    await gotoReady(page, orderPath)
     await page.getByRole('link', { name: 'Receipt (PDF)' }).waitFor()
     await shot(page, 'order-po-paid')
     await ctx.close()
@@ -121,7 +121,7 @@ describe('buying in the browser', () => {
     const page = await ctx.newPage()
     await signInThroughPage(page, 'teacher@tiltwright.test')
     for (const [path, name] of [['/kits', 'kits-phone'], ['/kits/rig-kit', 'kit-phone'], ['/cart', 'cart-phone'], ['/quotes', 'quotes-phone'], ['/orders', 'orders-phone']] as const) {
-      await page.goto(url(path))
+      await gotoReady(page, path)
       await page.locator('h1').first().waitFor()
       const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth)
       expect({ path, overflow }).toEqual({ path, overflow: 0 })
@@ -139,12 +139,12 @@ describe('shop pages accessibility (axe-core, WCAG 2.1 A/AA, serious and critica
   it('finds no serious violations on the catalog, product, checkout and admin pages', async () => {
     const page = await browser.newPage()
     for (const path of ['/kits', '/kits/rig-kit']) {
-      await page.goto(url(path))
+      await gotoReady(page, path)
       expect({ path, violations: await accessibilityViolations(page) }).toEqual({ path, violations: [] })
     }
     await signInThroughPage(page, 'admin@tiltwright.test')
     for (const path of ['/admin/orders', '/admin/catalog', '/admin/batches']) {
-      await page.goto(url(path))
+      await gotoReady(page, path)
       await page.locator('h1').first().waitFor()
       expect({ path, violations: await accessibilityViolations(page) }).toEqual({ path, violations: [] })
       await shot(page, `${path.replace(/\//g, '-').slice(1)}`)
