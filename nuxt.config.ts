@@ -44,16 +44,22 @@ export default defineNuxtConfig({
     smtpPassword: '',
     mailFrom: 'Tiltwright <hello@tiltwright.test>',
     mailCatcherUrl: 'http://127.0.0.1:1080',
+    /** First retry delay of a failed job (mail, provider call, webhook delivery); doubles after. */
     outboxRetryBaseMs: 15_000,
     cardHoldHours: 48,
     cardHoldSweepMs: 600_000,
     publicUrl: 'http://localhost:3000',
     fakePayments,
     // The payment SDK: key, API address (empty = the provider's own; in fake mode the app
-    // itself at publicUrl) and the webhook signing secret.
-    paymentsSecretKey: 'sk_test_tiltwright_local_fake',
+    // itself at publicUrl) and the webhook signing secret. No secret lives here: they come from
+    // the environment (NUXT_PAYMENTS_SECRET_KEY, NUXT_PAYMENTS_WEBHOOK_SECRET), which
+    // `npm start` fills from data/secrets.json in fake mode; server/plugins/0.secrets.ts
+    // refuses to start without them.
+    paymentsSecretKey: '',
     paymentsApiUrl: '',
-    paymentsWebhookSecret: 'whsec_tiltwright_local_fake_signing_secret',
+    paymentsWebhookSecret: '',
+    /** Unpaid card orders a school may hold at once (each holds stock). */
+    maxUnpaidCardOrders: 3,
     taxRateBasisPoints: 725,
     // pdfkit embeds Nunito from here (the @fontsource files the pages use too).
     fontDir: resolve('node_modules/@fontsource/nunito/files'),
@@ -92,6 +98,10 @@ export default defineNuxtConfig({
   buildDir: process.env.TILTWRIGHT_BUILD_DIR || '.nuxt',
   serverHandlers: fakePaymentHandlers,
   nitro: {
+    // Durable jobs (server/utils/jobs.ts) are run by a scheduled task every five seconds, and
+    // nudged right after the transaction that queues them.
+    experimental: { tasks: true },
+    scheduledTasks: { '*/5 * * * * *': ['jobs:run'] },
     // Uploaded purchase orders and tax certificates: local disk outside anything served.
     storage: {
       uploads: { driver: 'fs', base: process.env.TILTWRIGHT_UPLOAD_DIR || resolve('data/uploads') },

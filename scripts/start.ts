@@ -4,13 +4,13 @@
 // everything this script started, the database included.
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process'
 import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
-import { randomBytes } from 'node:crypto'
 import { resolve } from 'node:path'
 import { createConnection } from 'node:net'
 import { instance, projectRoot, startMariaDb, type Started } from './lib/mariadb'
 import { migrateDatabase } from './lib/migrate'
 import { seedDemo } from './seed'
 import { startMailCatcher, type Catcher } from './mail-catcher'
+import { installSecrets, secretsEnv } from './lib/secrets'
 
 const dev = process.argv.includes('--dev')
 const dbOnly = process.argv.includes('--db-only')
@@ -25,13 +25,6 @@ function portInUse(p: number) {
     s.once('connect', () => { s.destroy(); ok(true) })
     s.once('error', () => ok(false))
   })
-}
-
-function sessionSecret() {
-  if (process.env.NUXT_SESSION_PASSWORD && process.env.NUXT_SESSION_PASSWORD.length >= 32) return process.env.NUXT_SESSION_PASSWORD
-  const file = resolve(projectRoot, 'data', 'session-secret')
-  if (!existsSync(file)) writeFileSync(file, randomBytes(32).toString('hex'), { mode: 0o600 })
-  return readFileSync(file, 'utf8').trim()
 }
 
 // One `npm start` / `npm run dev` per checkout: a second one says so and leaves the first alone.
@@ -110,7 +103,8 @@ async function main() {
     NUXT_SMTP_PORT: String(smtpPort),
     NUXT_MAIL_CATCHER_URL: `http://127.0.0.1:${mailHttpPort}`,
     NUXT_PUBLIC_URL: process.env.NUXT_PUBLIC_URL || `http://localhost:${port}`,
-    NUXT_SESSION_PASSWORD: sessionSecret(),
+    // Per-install secrets (data/secrets.json, made on first start); the environment wins.
+    ...secretsEnv(installSecrets(resolve(projectRoot, 'data', 'secrets.json')), process.env.TILTWRIGHT_FAKE_PAYMENTS !== '0'),
   }
   const nuxt = resolve(projectRoot, 'node_modules/.bin/nuxt')
   if (dev) {

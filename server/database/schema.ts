@@ -2,6 +2,7 @@
 // MariaDB notes: ids are unsigned bigint autoincrement (drizzle's serial() emits SQL
 // MariaDB rejects); there is no RETURNING, so inserts re-select by $returningId().
 import { sql } from 'drizzle-orm'
+import { ORDER_STATUSES, PAYMENT_METHODS } from '../../shared/utils/order-flow'
 import {
   bigint, boolean, datetime, index, int, json, mysqlEnum, mysqlTable, text, uniqueIndex, varchar,
 } from 'drizzle-orm/mysql-core'
@@ -58,24 +59,25 @@ export const signInFailures = mysqlTable('sign_in_failures', {
   createdAt: createdAt(),
 }, (t) => [index('sign_in_failures_email_idx').on(t.email, t.createdAt), index('sign_in_failures_address_idx').on(t.address, t.createdAt)])
 
-export interface OutboxAttachment { filename: string; contentType: string; contentBase64: string }
+export const JOB_STATES = ['pending', 'done', 'failed'] as const
 
-/** Every e-mail is written here in the transaction that causes it, then delivered with retries. */
-export const emailOutbox = mysqlTable('email_outbox', {
+/** Durable work done after a transaction commits: e-mail, calls to the payment provider, the
+ *  fake's webhook deliveries, sweeps. Written in the transaction of the change that causes
+ *  it, claimed with SKIP LOCKED by whichever app instance is free, retried with back-off.
+ *  `uniqueKey` makes a job that must exist once (an order's invoice, a sweep) idempotent. */
+export const jobs = mysqlTable('jobs', {
   id: id(),
-  kind: varchar('kind', { length: 60 }).notNull(),
-  toAddress: varchar('to_address', { length: 254 }).notNull(),
-  subject: varchar('subject', { length: 200 }).notNull(),
-  textBody: text('text_body').notNull(),
-  htmlBody: text('html_body'),
-  attachments: json('attachments').$type<OutboxAttachment[]>(),
-  status: mysqlEnum('status', ['pending', 'sent', 'failed']).notNull().default('pending'),
+  kind: varchar('kind', { length: 40 }).notNull(),
+  payload: json('payload').$type<Record<string, unknown>>().notNull(),
+  uniqueKey: varchar('unique_key', { length: 120 }),
+  state: mysqlEnum('state', JOB_STATES).notNull().default('pending'),
   attempts: int('attempts').notNull().default(0),
   nextAttemptAt: datetime('next_attempt_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
   lastError: varchar('last_error', { length: 500 }),
-  sentAt: datetime('sent_at', { mode: 'date', fsp: 3 }),
+  doneAt: datetime('done_at', { mode: 'date', fsp: 3 }),
   createdAt: createdAt(),
-}, (t) => [index('email_outbox_due_idx').on(t.status, t.nextAttemptAt)])
+}, (t) => [index('jobs_due_idx').on(t.state, t.nextAttemptAt), uniqueIndex('jobs_unique_key').on(t.uniqueKey),
+  index('jobs_kind_idx').on(t.kind, t.createdAt)])
 
 export const auditLog = mysqlTable('audit_log', {
   id: id(),
@@ -103,8 +105,6 @@ export const tuningSheets = mysqlTable('tuning_sheets', {
 // ── The shop: catalog, stock in production batches, quotes, orders, payments ─────────────
 
 export const PRODUCT_KINDS = ['kit', 'part'] as const
-export const ORDER_STATUSES = ['placed', 'po review', 'awaiting payment', 'paid', 'shipped', 'delivered', 'cancelled'] as const
-export const PAYMENT_METHODS = ['card', 'purchase-order'] as const
 export const PO_STATUSES = ['review', 'approved', 'rejected'] as const
 export const RESERVATION_STATUSES = ['reserved', 'allocated', 'released'] as const
 export const FILE_KINDS = ['purchase-order', 'tax-certificate'] as const
@@ -185,7 +185,7 @@ export const orders = mysqlTable('orders', {
   schoolId: ref('school_id').notNull().references(() => schools.id),
   placedById: ref('placed_by_id').notNull().references(() => users.id),
   quoteId: ref('quote_id'),
-  status: mysqlEnum('status', ORDER_STATUSES).notNull().default('placed'),
+  status: mysqlEnum('status', ORDER_STATUSES).notNull(),
   paymentMethod: mysqlEnum('payment_method', PAYMENT_METHODS).notNull(),
   subtotalCents: int('subtotal_cents').notNull(),
   shippingCents: int('shipping_cents').notNull(),
@@ -202,6 +202,11 @@ export const orders = mysqlTable('orders', {
   invoiceDueAt: datetime('invoice_due_at', { mode: 'date', fsp: 3 }),
   paidAt: datetime('paid_at', { mode: 'date', fsp: 3 }),
   paymentReference: varchar('payment_reference', { length: 120 }),
+  /** The provider's payment (a payment intent) behind paidAt, kept so it can be refunded. */
+  paymentIntentId: varchar('payment_intent_id', { length: 80 }),
+  refundedAt: datetime('refunded_at', { mode: 'date', fsp: 3 }),
+  refundReference: varchar('refund_reference', { length: 80 }),
+  invoiceVoidedAt: datetime('invoice_voided_at', { mode: 'date', fsp: 3 }),
   createdAt: createdAt(),
   updatedAt: datetime('updated_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
 }, (t) => [

@@ -66,9 +66,28 @@ export function shippedMail(name: string, o: { number: string; carrier: string; 
   ])
 }
 
-export function orderCancelledMail(name: string, o: { number: string }, url: string) {
+export function orderCancelledMail(name: string, o: { number: string; reason?: string }, url: string) {
   return renderMail(`Order ${o.number} cancelled`, hello(name), [
     { paragraph: `Order ${o.number} is cancelled and nothing will be charged for it. Its reserved stock is released.` },
+    ...(o.reason ? [{ paragraph: `The reason given: ${o.reason}` }] : []),
+    { link: { label: 'See the order', url } },
+  ])
+}
+
+/** To accounts payable and the teacher when a cancelled order's invoice is voided. */
+export function invoiceVoidedMail(o: { number: string; invoiceNumber: string; poNumber: string; reason: string }) {
+  return renderMail(`Invoice ${o.invoiceNumber} is void: do not pay it`, 'Hello,', [
+    { paragraph: `Tiltwright order ${o.number} (purchase order ${o.poNumber}) is cancelled, so invoice ${o.invoiceNumber} is void. Please do not pay it; nothing is owed for this order.` },
+    { paragraph: `The reason given: ${o.reason}` },
+    { paragraph: 'If a payment is already on its way, we refund it in full when it arrives.' },
+  ])
+}
+
+/** To the payer when money arrived for an order that had already ended. */
+export function paymentRefundedMail(name: string, o: { number: string; amountCents: number; status: string }, url: string) {
+  return renderMail(`Refund for order ${o.number}`, hello(name), [
+    { paragraph: `A payment of ${formatCents(o.amountCents)} reached us for order ${o.number} after the order was ${o.status}. We have refunded it in full; depending on the bank it shows within 5–10 working days.` },
+    { paragraph: 'Nothing else is needed from you. If you still want the kits, place a new order.' },
     { link: { label: 'See the order', url } },
   ])
 }

@@ -1,10 +1,14 @@
-// The local fake of the payment provider's HTTP API, the slice the app uses: customers,
-// checkout sessions, invoices (create, add lines, finalize, pay), payment intents and events.
-// Registered under /v1/** by nuxt.config only when runtimeConfig.fakePayments is on.
+// Tiltwright's local payment simulator: the slice of the provider's HTTP API the app uses
+// (customers, checkout sessions with expire, invoices with add lines/finalize/pay/void,
+// payment intents, refunds, events), answering the official SDK. Registered under /v1/** by
+// nuxt.config only in fake mode, and only for the per-install secret key. Idempotency keys
+// are honoured like the provider's: a repeated POST gets the first answer back.
+import { createHash, timingSafeEqual } from 'node:crypto'
 import { createError, defineEventHandler, getHeader, getQuery, readRawBody, setResponseStatus, type H3Event } from 'h3'
 import { asInt, asList, asRecord, asString, parseBracketForm, type FormValue } from './form'
 import { getObject, listObjects, newId, nowSeconds, publicView, putObject, type FakeObject } from './store'
 import { emitEvent } from './events'
+import { simulatorSettings, updateSimulator } from './simulator'
 
 type Body = Record<string, FormValue>
 type Route = { method: string; pattern: RegExp; run: (m: string[], body: Body, event: H3Event) => Promise<FakeObject | Record<string, unknown>> }
@@ -40,7 +44,14 @@ function invoiceTotals(inv: FakeObject): FakeObject {
 }
 
 export async function payInvoice(inv: FakeObject, outOfBand: boolean) {
-  const paid = invoiceTotals({ ...inv, status: 'paid', paid_out_of_band: outOfBand, status_transitions: { ...inv.status_transitions, paid_at: nowSeconds() } })
+  const intent = outOfBand ? null : await putObject({
+    id: newId('pi'), object: 'payment_intent', created: nowSeconds(), amount: inv.amount_due, currency: inv.currency,
+    status: 'succeeded', customer: inv.customer, metadata: inv.metadata, amount_refunded: 0,
+  })
+  const paid = invoiceTotals({
+    ...inv, status: 'paid', paid_out_of_band: outOfBand, payment_intent: intent?.id ?? null,
+    status_transitions: { ...inv.status_transitions, paid_at: nowSeconds() },
+  })
   await putObject(paid)
   await emitEvent('invoice.paid', paid)
   return paid
@@ -119,33 +130,92 @@ const routes: Route[] = [
     return payInvoice(inv, asString(b.paid_out_of_band) === 'true')
   } },
 
+  { method: 'POST', pattern: /^\/v1\/invoices\/([\w]+)\/void$/, run: async (m) => {
+    const inv = await mustGet('invoice', m[1]!)
+    if (inv.status === 'void') return inv
+    if (inv.status !== 'open') throw providerError(400, `An invoice that is ${inv.status} cannot be voided.`)
+    const voided = invoiceTotals({ ...inv, status: 'void', status_transitions: { ...inv.status_transitions, voided_at: nowSeconds() } })
+    await putObject(voided)
+    await emitEvent('invoice.voided', voided)
+    return voided
+  } },
+  { method: 'POST', pattern: /^\/v1\/checkout\/sessions\/([\w]+)\/expire$/, run: async (m) => {
+    const session = await mustGet('checkout.session', m[1]!)
+    if (session.status !== 'open') throw providerError(400, `A session that is ${session.status} cannot be expired.`)
+    const expired = await putObject({ ...session, status: 'expired' })
+    await emitEvent('checkout.session.expired', expired)
+    return expired
+  } },
+
   { method: 'GET', pattern: /^\/v1\/payment_intents\/([\w]+)$/, run: async (m) => mustGet('payment_intent', m[1]!) },
+  { method: 'POST', pattern: /^\/v1\/refunds$/, run: async (_m, b) => {
+    const id = asString(b.payment_intent)
+    if (!id) throw providerError(400, 'Missing required param: payment_intent.', 'invalid_request_error', 'payment_intent')
+    const intent = await mustGet('payment_intent', id)
+    const left = intent.amount - (intent.amount_refunded ?? 0)
+    const amount = asInt(b.amount, left)
+    if (amount < 1 || amount > left) throw providerError(400, `Refund amount must be between 1 and ${left}.`, 'invalid_request_error', 'amount')
+    const refund = await putObject({ id: newId('re'), object: 'refund', created: nowSeconds(), amount, currency: intent.currency, payment_intent: id, status: 'succeeded', metadata: asRecord(b.metadata) })
+    await putObject({ ...intent, amount_refunded: (intent.amount_refunded ?? 0) + amount })
+    await emitEvent('refund.created', refund)
+    return refund
+  } },
+  { method: 'GET', pattern: /^\/v1\/refunds\/([\w]+)$/, run: async (m) => mustGet('refund', m[1]!) },
+
+  { method: 'GET', pattern: /^\/v1\/simulator\/settings$/, run: async () => ({ object: 'simulator_settings', ...(await simulatorSettings()) }) },
+  { method: 'POST', pattern: /^\/v1\/simulator\/settings$/, run: async (_m, b) => ({
+    object: 'simulator_settings', ...(await updateSimulator({ api: asString(b.api), webhooks: asString(b.webhooks), slowMs: asString(b.slowMs) })),
+  }) },
 
   { method: 'GET', pattern: /^\/v1\/events$/, run: async (_m, _b, event) => listOf('event', event) },
   { method: 'GET', pattern: /^\/v1\/events\/([\w]+)$/, run: async (m) => mustGet('event', m[1]!) },
 ]
 
+/** The per-install secret key, compared in constant time. */
+function keyMatches(header: string, key: string) {
+  const a = createHash('sha256').update(header).digest()
+  const b = createHash('sha256').update(`Bearer ${key}`).digest()
+  return key.length > 0 && timingSafeEqual(a, b)
+}
+
+const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms))
+
 export default defineEventHandler(async (event) => {
   const cfg = useRuntimeConfig()
   if (!cfg.fakePayments) throw createError({ statusCode: 404 })
-  const auth = getHeader(event, 'authorization') ?? ''
-  if (auth !== `Bearer ${cfg.paymentsSecretKey}`) {
+  if (!keyMatches(getHeader(event, 'authorization') ?? '', String(cfg.paymentsSecretKey))) {
     setResponseStatus(event, 401)
     return { error: { type: 'invalid_request_error', message: 'Invalid API Key provided.' } }
   }
   const path = event.path.split('?')[0]!
+  if (!path.startsWith('/v1/simulator/')) {
+    const faults = await simulatorSettings()
+    if (faults.api === 'fail') {
+      setResponseStatus(event, 503)
+      return { error: { type: 'api_error', message: 'The local payment simulator is set to fail (simulator settings).' } }
+    }
+    if (faults.api === 'slow') await sleep(faults.slowMs)
+  }
   for (const r of routes) {
     const m = path.match(r.pattern)
     if (!m || r.method !== event.method) continue
+    const idemKey = event.method === 'POST' ? getHeader(event, 'idempotency-key') : undefined
+    const idemId = idemKey ? `idem_${createHash('sha256').update(`${event.method} ${path} ${idemKey}`).digest('hex').slice(0, 40)}` : null
+    if (idemId) {
+      const seen = await getObject('idempotency', idemId)
+      if (seen) return seen.response
+    }
     const body = event.method === 'POST' ? parseBracketForm((await readRawBody(event, 'utf8')) ?? '') : {}
     try {
       const result = await r.run(m, body, event)
-      return 'id' in result && typeof result.object === 'string' ? publicView(result as FakeObject) : result
+      const reply = 'id' in result && typeof result.object === 'string' ? publicView(result as FakeObject) : result
+      if (idemId) await putObject({ id: idemId, object: 'idempotency', response: reply })
+      return reply
     } catch (e: any) {
       if (e?.data?.error) { setResponseStatus(event, e.statusCode); return e.data }
       throw e
     }
   }
   setResponseStatus(event, 404)
-  return { error: { type: 'invalid_request_error', message: `Unrecognized request URL (${event.method}: ${path}). The local fake implements only what Tiltwright uses.` } }
+  return { error: { type: 'invalid_request_error', message: `Unrecognized request URL (${event.method}: ${path}). The local payment simulator implements only what Tiltwright uses.` } }
 })

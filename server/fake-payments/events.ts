@@ -1,9 +1,12 @@
-// The fake's events: stored, then delivered to the app's webhook endpoint signed the way
-// the SDK's constructEvent verifies them. A failed delivery is retried a few times.
+// The fake's events: stored, then delivered to the app's webhook endpoint by a durable job
+// (kind `fake-webhook`), signed the way the SDK's constructEvent verifies them. A failed
+// delivery is retried with back-off and survives a restart, as the provider's retries do.
 import { signWebhookPayload } from '../services/payments'
+import type { JobDefinition } from '../utils/jobs'
+import { enqueueJob } from '../utils/jobs'
+import { useDb } from '../utils/db'
 import { getObject, newId, nowSeconds, publicView, putObject, type FakeObject } from './store'
-
-const RETRY_DELAYS_MS = [1000, 5000, 20_000]
+import { simulatorSettings } from './simulator'
 
 export async function emitEvent(type: string, object: FakeObject): Promise<FakeObject> {
   const evt: FakeObject = {
@@ -12,24 +15,32 @@ export async function emitEvent(type: string, object: FakeObject): Promise<FakeO
     _delivered: false, _attempts: 0,
   }
   await putObject(evt)
-  await deliver(evt.id)
+  await enqueueJob(useDb(), 'fake-webhook', { eventId: evt.id })
   return evt
 }
 
-async function deliver(eventId: string, attempt = 0): Promise<void> {
-  const evt = await getObject('event', eventId)
-  if (!evt || evt._delivered) return
-  const payload = JSON.stringify(publicView(evt), null, 2)
-  const target = new URL('/api/webhooks/payments', useRuntimeConfig().publicUrl).toString()
-  let ok = false
-  try {
-    const res = await fetch(target, {
-      method: 'POST', body: payload, signal: AbortSignal.timeout(8000),
-      headers: { 'content-type': 'application/json', 'stripe-signature': signWebhookPayload(payload), 'user-agent': 'Tiltwright-FakePayments/1.0' },
-    })
-    ok = res.ok
-  } catch { /* counted as a failed attempt */ }
-  await putObject({ ...evt, _delivered: ok, _attempts: (evt._attempts ?? 0) + 1, pending_webhooks: ok ? 0 : 1 })
-  const delay = RETRY_DELAYS_MS[attempt]
-  if (!ok && delay !== undefined) setTimeout(() => { void deliver(eventId, attempt + 1).catch(() => {}) }, delay).unref?.()
+export const fakeWebhookJob: JobDefinition<{ eventId: string }> = {
+  maxAttempts: 10,
+  async run({ eventId }) {
+    const evt = await getObject('event', eventId)
+    if (!evt || evt._delivered) return
+    const attempts = (evt._attempts ?? 0) + 1
+    let ok = false
+    let why = ''
+    try {
+      if ((await simulatorSettings()).webhooks === 'fail') throw new Error('the simulator is set to fail webhook deliveries')
+      const payload = JSON.stringify(publicView(evt), null, 2)
+      const target = new URL('/api/webhooks/payments', useRuntimeConfig().publicUrl).toString()
+      const res = await fetch(target, {
+        method: 'POST', body: payload, signal: AbortSignal.timeout(8000),
+        headers: { 'content-type': 'application/json', 'stripe-signature': signWebhookPayload(payload), 'user-agent': 'Tiltwright-PaymentSimulator/1.0' },
+      })
+      ok = res.ok
+      if (!ok) why = `the webhook answered ${res.status}`
+    } catch (e) {
+      why = e instanceof Error ? e.message : String(e)
+    }
+    await putObject({ ...evt, _delivered: ok, _attempts: attempts, pending_webhooks: ok ? 0 : 1 })
+    if (!ok) throw new Error(`delivery ${attempts} of ${eventId} failed: ${why}`)
+  },
 }

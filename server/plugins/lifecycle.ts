@@ -1,18 +1,16 @@
 import { useMailTransport } from '../services/mail'
 
-// Starts the outbox's delivery loop and the card-hold sweep with the server, and closes the pool and SMTP
-// connections when the server stops.
+// With the server: make sure the recurring card-hold sweep exists as a job, and run what is
+// due soon after start. On close: stop the job timer, close SMTP and the database pool.
 export default defineNitroPlugin((nitro) => {
-  const interval = setInterval(() => { void runOutbox().catch((e) => console.error('[outbox]', e)) }, 5000)
-  interval.unref?.()
-  scheduleOutboxRun(1000)
-  // Unpaid card orders past their hold give their stock back (every 10 minutes unless configured).
-  const sweepMs = Number(useRuntimeConfig().cardHoldSweepMs) || 600_000
-  const sweep = setInterval(() => { void expireUnpaidCardOrders().catch((e) => console.error('[card holds]', e)) }, sweepMs)
-  sweep.unref?.()
+  const start = setTimeout(() => {
+    void enqueueJob(useDb(), 'sweep-card-holds', {}, { uniqueKey: 'sweep-card-holds' })
+      .catch((e) => console.error('[jobs] could not schedule the card-hold sweep:', e instanceof Error ? e.message : e))
+  }, 500)
+  start.unref?.()
   nitro.hooks.hook('close', async () => {
-    clearInterval(interval)
-    clearInterval(sweep)
+    clearTimeout(start)
+    stopJobTimer()
     useMailTransport().close()
     await closeDb()
   })

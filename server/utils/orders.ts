@@ -1,17 +1,16 @@
-// Order queries and steps that the checkout, order, admin and webhook routes share:
-// stock reservation under row locks, the timeline, payment, and the order's view.
+// Order queries that the order engine (order-steps.ts) and the routes share: stock
+// reservation under row locks, the checkout's lines and money, the timeline, the order's view.
 import { and, asc, eq, inArray, isNull } from 'drizzle-orm'
 import type { H3Event } from 'h3'
 import {
   batches, orderEvents, orderLines, orders, purchaseOrders, quoteLines, quotes, schools, shipments, stockReservations, storedFiles, users,
 } from '../database/schema'
 import type { OrderView, OrderDocument } from '../../shared/types/shop'
-import { canCancelOrder, canSeeOrder, canSeeOrderDocuments, isQuoteValid, releasedWords, unitsLeft } from '../../shared/utils/shop-rules'
+import { canCancelOrder, canSeeOrder, canSeeOrderDocuments, isQuoteValid, unitsLeft } from '../../shared/utils/shop-rules'
+import { CLOSED_STATUSES, openActions } from '../../shared/utils/order-flow'
 import type { SessionUser } from '../../shared/utils/roles'
-import { formatCents, type PricedLine, type Totals } from '../../shared/utils/pricing'
+import { type PricedLine, type Totals } from '../../shared/utils/pricing'
 import type { CartLine } from '../../shared/schemas/shop'
-import { cardReceiptPdf, invoicePdf } from '../documents/shop'
-import { paymentReceivedMail } from '../emails/shop'
 
 export type OrderRow = typeof orders.$inferSelect
 
@@ -113,27 +112,6 @@ export async function resolveCheckout(tx: Tx, user: SessionUser, input: { quoteI
   return { lines, totals, quoteId: null }
 }
 
-/** Creates the order with its lines, reserves its stock and starts its timeline. */
-export async function placeOrder(tx: Tx, user: SessionUser, method: 'card' | 'purchase-order', src: OrderSource) {
-  const [row] = await tx.insert(orders).values({
-    schoolId: user.schoolId!, placedById: user.id, quoteId: src.quoteId, paymentMethod: method,
-    status: method === 'card' ? 'awaiting payment' : 'po review',
-    subtotalCents: src.totals.subtotalCents, shippingCents: src.totals.shippingCents, taxCents: src.totals.taxCents,
-    totalCents: src.totals.totalCents, taxExempt: src.totals.taxExempt,
-  }).$returningId()
-  const id = row!.id
-  const number = orderNumberFor(id)
-  await tx.update(orders).set({ number }).where(eq(orders.id, id))
-  await tx.insert(orderLines).values(src.lines.map((l) => ({ orderId: id, ...l })))
-  await reserveStock(tx, id, src.lines)
-  if (src.quoteId) {
-    const [res] = await tx.update(quotes).set({ orderId: id }).where(and(eq(quotes.id, src.quoteId), isNull(quotes.orderId)))
-    if (res.affectedRows !== 1) throw conflict('This quote has already been turned into an order.', 'quote-used')
-  }
-  await addOrderEvent(tx, id, 'placed', `Order placed by ${user.name}${src.quoteId ? ' from a quote, at the quoted prices' : ''}; stock reserved.`, user.id)
-  return { id, number }
-}
-
 export async function loadOrder(db: DbOrTx, id: number, lock = false): Promise<OrderRow | undefined> {
   const q = db.select().from(orders).where(eq(orders.id, id)).limit(1)
   const [row] = lock ? await q.for('update') : await q
@@ -158,27 +136,6 @@ export async function orderPeople(db: DbOrTx, order: OrderRow) {
 
 export const linesOf = (db: DbOrTx, orderId: number) => db.select().from(orderLines).where(eq(orderLines.orderId, orderId)).orderBy(asc(orderLines.id))
 
-/** Records a payment once: a second call (a replayed webhook, a late admin entry) changes nothing. */
-export async function markOrderPaid(tx: Tx, orderId: number, how: { message: string; reference: string | null; actorId: number | null }) {
-  const order = await loadOrder(tx, orderId, true)
-  if (!order || order.paidAt || order.status === 'cancelled') return false
-  const paidAt = new Date()
-  await tx.update(orders).set({
-    paidAt, paymentReference: how.reference, updatedAt: paidAt,
-    status: order.status === 'awaiting payment' || order.status === 'po review' ? 'paid' : order.status,
-  }).where(eq(orders.id, orderId))
-  await addOrderEvent(tx, orderId, 'paid', how.message, how.actorId)
-  const { school, buyer, po } = await orderPeople(tx, order)
-  const lines = await linesOf(tx, orderId)
-  const money = { ...order, taxRateBasisPoints: useRuntimeConfig().taxRateBasisPoints as number }
-  const pdf = order.paymentMethod === 'card' || !po
-    ? await cardReceiptPdf({ ...money, number: order.number!, paidAt }, lines, school, buyer.name)
-    : await invoicePdf({ number: order.invoiceNumber ?? order.number!, dueAt: order.invoiceDueAt, poNumber: po.poNumber, orderNumber: order.number!, issuedAt: order.createdAt, payUrl: null }, money, lines, school, po.apEmail, { at: paidAt, reference: how.reference })
-  const mail = paymentReceivedMail(buyer.name, { number: order.number!, totalCents: order.totalCents }, appUrl(`/orders/${orderId}`))
-  await enqueueMail(tx, 'payment-received', buyer.email, mail, [{ filename: `Tiltwright-receipt-${order.number}.pdf`, contentType: 'application/pdf', content: pdf }])
-  return true
-}
-
 export async function orderView(db: DbOrTx, order: OrderRow, user: SessionUser): Promise<OrderView> {
   const [lines, events, ships, held, files, people] = await Promise.all([
     linesOf(db, order.id),
@@ -200,8 +157,9 @@ export async function orderView(db: DbOrTx, order: OrderRow, user: SessionUser):
     if (order.paidAt) docs.push({ kind: 'receipt', label: 'Receipt (PDF)', url: `${base}/receipt` })
     if (allocated) docs.push({ kind: 'packing-list', label: 'Packing list (PDF)', url: `${base}/packing-list` })
   }
-  const payUrl = order.paidAt || order.status === 'cancelled' ? null
+  const payUrl = order.paidAt || CLOSED_STATUSES.includes(order.status) || order.invoiceVoidedAt ? null
     : order.paymentMethod === 'card' ? (order.status === 'awaiting payment' ? order.checkoutUrl : null) : order.invoiceUrl
+  const facts = { status: order.status, paymentMethod: order.paymentMethod, allocated, paid: !!order.paidAt }
   return {
     id: order.id, number: order.number!, status: order.status, paymentMethod: order.paymentMethod,
     subtotalCents: order.subtotalCents, shippingCents: order.shippingCents, taxCents: order.taxCents, totalCents: order.totalCents, taxExempt: order.taxExempt, taxRateBasisPoints: Number(useRuntimeConfig().taxRateBasisPoints),
@@ -218,6 +176,9 @@ export async function orderView(db: DbOrTx, order: OrderRow, user: SessionUser):
     reservations: held.map((h) => ({ batchCode: h.code, productName: names.get(h.r.productId) ?? '', quantity: h.r.quantity, status: h.r.status })),
     allocated,
     canCancel: canCancelOrder(user, order),
+    actions: user.role === 'admin' ? openActions(facts, 'admin') : [],
+    refundedAt: order.refundedAt?.toISOString() ?? null,
+    invoiceVoided: !!order.invoiceVoidedAt,
   }
 }
 
@@ -228,14 +189,6 @@ export async function replyWithOrder(orderId: number, user: SessionUser) {
   return orderView(db, fresh!, user)
 }
 
-/** Cancels an unpaid order and releases its stock, inside the caller's transaction. */
-export async function cancelOrderIn(tx: Tx, order: OrderRow, actor: Pick<SessionUser, 'id'> | null, message: string) {
-  await tx.update(orders).set({ status: 'cancelled', updatedAt: new Date() }).where(eq(orders.id, order.id))
-  const released = await releaseStock(tx, order.id)
-  await addOrderEvent(tx, order.id, 'cancelled', [message, releasedWords(released)].filter(Boolean).join(' '), actor?.id ?? null)
-  if (order.quoteId) await tx.update(quotes).set({ orderId: null }).where(and(eq(quotes.id, order.quoteId), eq(quotes.orderId, order.id)))
-}
-
 /** The order's charge as the provider's line items: goods at their tier price, then shipping and tax. */
 export function chargeLinesFor(lines: Omit<PricedLine, 'productId'>[], totals: Pick<Totals, 'shippingCents' | 'taxCents'>) {
   return [
@@ -244,8 +197,6 @@ export function chargeLinesFor(lines: Omit<PricedLine, 'productId'>[], totals: P
     ...(totals.taxCents ? [{ description: 'Sales tax', quantity: 1, unitAmountCents: totals.taxCents }] : []),
   ]
 }
-
-export const formatCentsForEvent = (cents: number | null | undefined) => formatCents(cents ?? 0)
 
 export function orderRowOf(r: { o: OrderRow; school: string; poNumber: string | null }) {
   return {

@@ -116,3 +116,14 @@ export const batchPatchSchema = z.object({
 
 export type CartLine = z.output<typeof cartLineSchema>
 export type ProductInput = z.input<typeof productSchema>
+
+/** An admin cancels with a reason the teacher and accounts payable read. */
+export const adminCancelSchema = z.object({
+  reason: z.string({ error: 'Say why the order is cancelled.' }).trim()
+    .min(5, 'Say why in a few words (the teacher and accounts payable read this).')
+    .max(500, 'Keep the reason to 500 characters or fewer.'),
+})
+
+export const teacherCancelSchema = z.object({
+  reason: z.string().trim().max(500, 'Keep the reason to 500 characters or fewer.').optional(),
+})

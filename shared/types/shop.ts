@@ -59,6 +59,12 @@ export interface OrderView {
   reservations: { batchCode: string; productName: string; quantity: number; status: 'reserved' | 'allocated' | 'released' }[]
   allocated: boolean
   canCancel: boolean
+  /** The admin's open steps, from the order flow's table. */
+  actions: OrderAction[]
+  refundedAt: string | null
+  invoiceVoided: boolean
+  /** A word for the admin after a step, e.g. that the invoice will follow. */
+  notice?: string | null
 }
 
 export interface OrderSummary {

@@ -1,22 +1,11 @@
 // Who may see and do what with quotes and orders, and which order steps are open. Pure
 // rules shared by the routes (the gate) and the pages (to hide what cannot be used).
 import type { SessionUser } from './roles'
+import { isOpenUnpaid, type OrderStatus, type PaymentMethod } from './order-flow'
 
 type Who = Pick<SessionUser, 'role' | 'schoolId'> | null | undefined
 
-export const ORDER_STATUSES = ['placed', 'po review', 'awaiting payment', 'paid', 'shipped', 'delivered', 'cancelled'] as const
-export type OrderStatus = (typeof ORDER_STATUSES)[number]
-export type PaymentMethod = 'card' | 'purchase-order'
-
-export const ORDER_STATUS_LABELS: Record<OrderStatus, string> = {
-  'placed': 'Placed',
-  'po review': 'PO under review',
-  'awaiting payment': 'Awaiting payment',
-  'paid': 'Paid',
-  'shipped': 'Shipped',
-  'delivered': 'Delivered',
-  'cancelled': 'Cancelled',
-}
+export { ORDER_STATUSES, ORDER_STATUS_LABELS, type OrderStatus, type PaymentMethod } from './order-flow'
 
 /** Admins see every order; support read it for context; a teacher sees their own school's. */
 export function canSeeOrder(u: Who, order: { schoolId: number }): boolean {
@@ -41,28 +30,12 @@ export function isQuoteValid(quote: { validUntil: Date | string; orderId: number
   return quote.orderId === null && new Date(quote.validUntil).getTime() > now.getTime()
 }
 
-const UNPAID: readonly OrderStatus[] = ['placed', 'po review', 'awaiting payment']
-
-/** A teacher may cancel their own unpaid order; an admin may cancel any unpaid one. */
-export function canCancelOrder(u: Who, order: { schoolId: number; status: OrderStatus }): boolean {
-  if (!UNPAID.includes(order.status)) return false
+/** A teacher may cancel their own unpaid order; an admin may cancel any unpaid one
+ *  (the order flow's `cancel` rows). */
+export function canCancelOrder(u: Who, order: { schoolId: number; status: OrderStatus; paidAt?: Date | string | null }): boolean {
+  if (!isOpenUnpaid(order.status) || order.paidAt) return false
   if (u?.role === 'admin') return true
   return u?.role === 'teacher' && canSeeOrder(u, order)
-}
-
-/** The admin's next steps on an order, by its status. */
-/** A purchase order on net-30 terms ships once approved; a card order once paid. */
-export function adminActions(order: { status: OrderStatus; paymentMethod: PaymentMethod; allocated: boolean; paid: boolean }) {
-  const s = order.status
-  const approvedPo = order.paymentMethod === 'purchase-order' && s === 'awaiting payment'
-  return {
-    reviewPo: s === 'po review' && order.paymentMethod === 'purchase-order',
-    allocate: !order.allocated && ['po review', 'awaiting payment', 'paid'].includes(s),
-    ship: order.allocated && (s === 'paid' || approvedPo),
-    recordPayment: !order.paid && (approvedPo || (order.paymentMethod === 'purchase-order' && ['shipped', 'delivered'].includes(s))),
-    markDelivered: s === 'shipped',
-    cancel: UNPAID.includes(s),
-  }
 }
 
 /** Stock left in a batch, never shown below zero. */
@@ -76,10 +49,10 @@ export function releasedWords(units: number): string {
 
 /** What the order page says about shipping, in words that match the order's state. */
 export function shippingNote(order: { status: OrderStatus; paymentMethod: PaymentMethod; allocated?: boolean; purchaseOrder?: { status: string; rejectReason: string | null } | null }): string {
-  if (order.status === 'cancelled') {
-    if (order.purchaseOrder?.status === 'rejected') return `Rejected: ${order.purchaseOrder.rejectReason ?? 'the purchase order was not accepted'}. Nothing will ship.`
-    return 'Cancelled: nothing will ship.'
+  if (order.status === 'rejected') {
+    return `Purchase order rejected: ${order.purchaseOrder?.rejectReason ?? 'it was not accepted'}. Nothing will ship.`
   }
+  if (order.status === 'cancelled') return 'Cancelled: nothing will ship.'
   if (order.status === 'shipped' || order.status === 'delivered') return 'Shipped.'
   const waitFor = order.paymentMethod === 'card'
     ? (order.status === 'paid' ? null : 'paid')

@@ -1,6 +1,6 @@
-// The outbox keeps mail through an SMTP outage: while the fake SMTP server refuses mail
-// (451, temporary failure) the message waits in email_outbox with its error; once the
-// server accepts again, the retry delivers it. Nothing is lost, nothing is sent twice.
+// Mail jobs keep mail through an SMTP outage: while the fake SMTP server refuses mail
+// (451, temporary failure) the message waits as a pending `mail` job with its error; once
+// the server accepts again, the retry delivers it. Nothing is lost, nothing is sent twice.
 import { afterEach, describe, expect, it } from 'vitest'
 import { inject } from 'vitest'
 import mysql from 'mysql2/promise'
@@ -10,7 +10,8 @@ import { mailsTo, refuseMail, waitForMail } from '../helpers/mail'
 async function outboxRowsTo(email: string) {
   const conn = await mysql.createConnection({ uri: inject('dbUrl') })
   try {
-    const [rows] = await conn.query('SELECT status, attempts, last_error AS lastError FROM email_outbox WHERE to_address = ? ORDER BY id', [email])
+    const [rows] = await conn.query(`SELECT state AS status, attempts, last_error AS lastError FROM jobs
+      WHERE kind = 'mail' AND JSON_VALUE(payload, '$.to') = ? ORDER BY id`, [email])
     return rows as { status: string; attempts: number; lastError: string | null }[]
   } finally {
     await conn.end()
@@ -19,7 +20,7 @@ async function outboxRowsTo(email: string) {
 
 afterEach(() => refuseMail(false))
 
-describe('e-mail outbox', () => {
+describe('mail jobs', () => {
   it('holds a mail while SMTP refuses it and delivers it exactly once when SMTP is back', async () => {
     await refuseMail(true)
     const email = uniqueEmail('outage')
@@ -40,7 +41,7 @@ describe('e-mail outbox', () => {
     await refuseMail(false)
     const mail = await waitForMail(email, /Confirm your e-mail/, 20_000)
     expect(mail.text).toContain('/verify-email?token=')
-    await expect.poll(async () => (await outboxRowsTo(email))[0]?.status, { timeout: 10_000 }).toBe('sent')
+    await expect.poll(async () => (await outboxRowsTo(email))[0]?.status, { timeout: 10_000 }).toBe('done')
     await new Promise((r) => setTimeout(r, 1500))
     expect((await mailsTo(email)).length).toBe(1)
   })

@@ -3,7 +3,7 @@
 import { describe, expect, it } from 'vitest'
 import { Client } from '../helpers/client'
 import { mailsTo, waitForMail } from '../helpers/mail'
-import { CARD_DECLINED, CARD_OK, WEBHOOK_SECRET, attachmentBytes, fakeStripe, newTeacher, payOnPage, pdfText, productBySlug, productWithStock, signedIn, waitForOrder } from '../helpers/shop'
+import { CARD_DECLINED, CARD_OK, webhookSecret, attachmentBytes, fakeStripe, newTeacher, payOnPage, pdfText, productBySlug, productWithStock, signedIn, waitForOrder } from '../helpers/shop'
 
 describe('catalog and cart pricing', () => {
   it('lists the catalog with tiers and stock for anyone', async () => {
@@ -109,7 +109,7 @@ describe('card checkout', () => {
     const payload = JSON.stringify(evt)
     const post = (body: string, signature: string) => fetch(new URL('/api/webhooks/payments', t.client.baseUrl), { method: 'POST', body, headers: { 'content-type': 'application/json', 'stripe-signature': signature } })
 
-    const replay = await post(payload, stripe.webhooks.generateTestHeaderString({ payload, secret: WEBHOOK_SECRET }))
+    const replay = await post(payload, stripe.webhooks.generateTestHeaderString({ payload, secret: webhookSecret() }))
     expect(replay.status).toBe(200)
     expect(await replay.json()).toEqual({ received: true, duplicate: true })
     const order = (await t.client.get(`/api/orders/${r.body.orderId}`)).body
@@ -121,7 +121,7 @@ describe('card checkout', () => {
     const other = await t.client.post('/api/checkout/card', { lines: [{ productId, quantity: 1 }] })
     const forged = JSON.stringify({ ...evt, id: 'evt_forged_1', data: { object: { ...(evt.data.object as any), metadata: { orderId: String(other.body.orderId) } } } })
     expect((await post(forged, stripe.webhooks.generateTestHeaderString({ payload: forged, secret: 'whsec_someone_else' }))).status).toBe(400)
-    expect((await post(forged, stripe.webhooks.generateTestHeaderString({ payload, secret: WEBHOOK_SECRET }))).status).toBe(400)
+    expect((await post(forged, stripe.webhooks.generateTestHeaderString({ payload, secret: webhookSecret() }))).status).toBe(400)
     expect((await post(forged, 'nonsense')).status).toBe(400)
     expect((await post(forged, '')).status).toBe(400)
     expect((await t.client.get(`/api/orders/${other.body.orderId}`)).body.status).toBe('awaiting payment')

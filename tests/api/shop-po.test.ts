@@ -83,7 +83,7 @@ describe('purchase-order checkout', () => {
     expect(short.body.data.fields.reason).toMatch(/few words/)
     const rej = await admin.post(`/api/admin/orders/${r.body.orderId}/reject`, { reason: 'The PO is not signed by the district office.' })
     expect(rej.status).toBe(200)
-    expect(rej.body).toMatchObject({ status: 'cancelled', purchaseOrder: { status: 'rejected', rejectReason: 'The PO is not signed by the district office.' } })
+    expect(rej.body).toMatchObject({ status: 'rejected', purchaseOrder: { status: 'rejected', rejectReason: 'The PO is not signed by the district office.' } })
     expect(rej.body.reservations.every((x: any) => x.status === 'released')).toBe(true)
     const mail = await waitForMail(t.email, /could not be accepted/)
     expect(mail.text).toContain('not signed by the district office')

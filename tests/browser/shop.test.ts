@@ -89,7 +89,7 @@ describe('buying in the browser', () => {
     await shot(admin, 'admin-order-review')
     expect(await accessibilityViolations(admin)).toEqual([])
     await admin.getByRole('button', { name: 'Approve and send the invoice' }).click()
-    await admin.getByText('Approved; the net-30 invoice').waitFor()
+    await admin.getByText('Approved; the invoice was issued').waitFor()
     await admin.getByRole('button', { name: 'Allocate for packing' }).click()
     await admin.getByText('Units allocated for packing.').waitFor()
     await admin.getByLabel('Carrier').fill('Ridgeline Freight')

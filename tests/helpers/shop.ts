@@ -3,10 +3,15 @@
 import Stripe from 'stripe'
 import { inject } from 'vitest'
 import { Client, uniqueEmail } from './client'
+import { linkIn, waitForMail } from './mail'
 
-// The fake's key and webhook secret are nuxt.config.ts's runtimeConfig defaults.
-export const FAKE_KEY = 'sk_test_tiltwright_local_fake'
-export const WEBHOOK_SECRET = 'whsec_tiltwright_local_fake_signing_secret'
+// The simulator's key and webhook secret: this test run's own (tests/setup/global.ts makes them
+// as `npm start` makes an install's).
+export const paymentsKey = () => inject('paymentsKey')
+export const webhookSecret = () => inject('webhookSecret')
+// The secrets an earlier version printed in its source: nothing may accept them now.
+export const PUBLISHED_KEY = 'sk_test_tiltwright_local_fake'
+export const PUBLISHED_WEBHOOK_SECRET = 'whsec_tiltwright_local_fake_signing_secret'
 // The fake's test cards (server/fake-payments/pages.ts).
 export const CARD_OK = '4242 4242 4242 4242'
 export const CARD_DECLINED = '4000 0000 0000 0002'
@@ -17,7 +22,9 @@ export async function signedIn(email: string) {
   return c
 }
 
-export async function newTeacher(tag = 'shop') {
+/** A teacher of a new school, with the e-mail address confirmed through the mailed link
+ *  (ordering needs it) unless `verified: false`. */
+export async function newTeacher(tag = 'shop', opts: { verified?: boolean } = {}) {
   const c = new Client()
   const email = uniqueEmail(tag)
   const r = await c.post('/api/auth/register', {
@@ -25,6 +32,12 @@ export async function newTeacher(tag = 'shop') {
     school: { name: `${tag} Academy ${Math.random().toString(36).slice(2, 6)}`, addressLine1: '1 Test Lane', city: 'Ridgeford', region: 'WA', postalCode: '98999' },
   })
   if (r.status !== 201) throw new Error(`register failed: ${r.status} ${JSON.stringify(r.body)}`)
+  if (opts.verified !== false) {
+    const mail = await waitForMail(email, /Confirm your e-mail/)
+    const token = linkIn(mail, /verify-email\?token=[\w-]+/).split('=')[1]
+    const v = await c.post('/api/auth/verify-email', { token })
+    if (v.status !== 200) throw new Error(`verify failed: ${v.status} ${JSON.stringify(v.body)}`)
+  }
   return { client: c, email, user: r.body.user }
 }
 
@@ -48,7 +61,7 @@ export async function productBySlug(slug: string) {
 
 export function fakeStripe() {
   const base = new URL(inject('baseUrl'))
-  return new Stripe(FAKE_KEY, { host: base.hostname, port: Number(base.port), protocol: 'http', telemetry: false })
+  return new Stripe(paymentsKey(), { host: base.hostname, port: Number(base.port), protocol: 'http', telemetry: false })
 }
 
 /** Submits a card number on the fake's hosted page, like a buyer's browser would. */
@@ -59,6 +72,16 @@ export async function payOnPage(url: string, card: string) {
   if (!action) throw new Error(`no card form on ${url}: ${html.slice(0, 300)}`)
   const res = await fetch(new URL(action, url), { method: 'POST', body: new URLSearchParams({ card }), redirect: 'manual', headers: { 'content-type': 'application/x-www-form-urlencoded' } })
   return { status: res.status, location: res.headers.get('location'), html: await res.text(), pageHtml: html }
+}
+
+/** Sets the simulator's fault switch (server/fake-payments/simulator.ts). */
+export async function simulator(settings: { api?: 'normal' | 'fail' | 'slow'; webhooks?: 'deliver' | 'fail'; slowMs?: number }) {
+  const body = new URLSearchParams(Object.entries(settings).map(([k, v]) => [k, String(v)]))
+  const res = await fetch(new URL('/v1/simulator/settings', inject('baseUrl')), {
+    method: 'POST', body, headers: { authorization: `Bearer ${paymentsKey()}`, 'content-type': 'application/x-www-form-urlencoded' },
+  })
+  if (!res.ok) throw new Error(`simulator settings: ${res.status} ${await res.text()}`)
+  return res.json()
 }
 
 export async function waitForOrder(c: Client, id: number, done: (o: any) => boolean, timeoutMs = 10_000) {

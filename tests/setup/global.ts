@@ -2,7 +2,6 @@
 // and port, never the demo data), the fake SMTP server, and one production build of the
 // app. Every API and browser test file talks to that one server.
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process'
-import { randomBytes } from 'node:crypto'
 import { resolve } from 'node:path'
 import type { TestProject } from 'vitest/node'
 import { instance, projectRoot, startMariaDb } from '../../scripts/lib/mariadb'
@@ -10,6 +9,7 @@ import { migrateDatabase } from '../../scripts/lib/migrate'
 import { seedDemo } from '../../scripts/seed'
 import { startMailCatcher } from '../../scripts/mail-catcher'
 import { ensureDebianPackage } from '../../scripts/lib/system'
+import { newSecrets, secretsEnv } from '../../scripts/lib/secrets'
 
 // TILTWRIGHT_TEST_SLOT lets two suites run side by side on one machine (each slot has its
 // own ports, data folder and build folders).
@@ -22,7 +22,10 @@ const DB_PORT = 3407 + SLOT * 100
 const SUFFIX = SLOT ? String(SLOT) : ''
 
 declare module 'vitest' {
-  export interface ProvidedContext { baseUrl: string; mailUrl: string; dbUrl: string; chromium: string }
+  export interface ProvidedContext {
+    baseUrl: string; mailUrl: string; dbUrl: string; chromium: string
+    paymentsKey: string; webhookSecret: string; appEnv: Record<string, string>; dbPort: number
+  }
 }
 
 export default async function setup(project: TestProject) {
@@ -45,18 +48,24 @@ export default async function setup(project: TestProject) {
   }
 
   const baseUrl = `http://localhost:${APP_PORT}`
+  // This run's own secrets, as `npm start` makes per install; tests sign and call with them.
+  const secrets = newSecrets()
+  // The app is a production server, not a test process: without vitest's variables, so that
+  // Nitro's scheduled tasks (the job runner) start as they do in production.
+  const { VITEST: _v, VITEST_MODE: _vm, VITEST_POOL_ID: _vp, VITEST_WORKER_ID: _vw, TEST: _t, ...parentEnv } = process.env
+  const appEnv: Record<string, string> = {
+    PORT: String(APP_PORT), HOST: '127.0.0.1', NODE_ENV: 'production',
+    NUXT_DATABASE_URL: db.db.url, NUXT_SMTP_HOST: '127.0.0.1', NUXT_SMTP_PORT: String(SMTP_PORT),
+    NUXT_MAIL_CATCHER_URL: `http://127.0.0.1:${MAIL_HTTP_PORT}`, NUXT_PUBLIC_URL: baseUrl,
+    // Retry failed jobs quickly, so the outage test need not wait 15 s.
+    NUXT_OUTBOX_RETRY_BASE_MS: '400',
+    // Sweep stale card orders every second, so the hold test need not wait 10 minutes.
+    NUXT_CARD_HOLD_SWEEP_MS: '1000',
+    ...secretsEnv(secrets, true, {}),
+  }
   const app: ChildProcess = spawn(process.execPath, [resolve(projectRoot, `.output-test${SUFFIX}/server/index.mjs`)], {
     cwd: projectRoot,
-    env: {
-      ...process.env, PORT: String(APP_PORT), HOST: '127.0.0.1', NODE_ENV: 'production',
-      NUXT_DATABASE_URL: db.db.url, NUXT_SMTP_HOST: '127.0.0.1', NUXT_SMTP_PORT: String(SMTP_PORT),
-      NUXT_MAIL_CATCHER_URL: `http://127.0.0.1:${MAIL_HTTP_PORT}`, NUXT_PUBLIC_URL: baseUrl,
-      NUXT_SESSION_PASSWORD: randomBytes(32).toString('hex'),
-      // Retry failed mail quickly, so the outage test need not wait 15 s.
-      NUXT_OUTBOX_RETRY_BASE_MS: '400',
-      // Sweep stale card orders every second, so the hold test need not wait 10 minutes.
-      NUXT_CARD_HOLD_SWEEP_MS: '1000',
-    },
+    env: { ...parentEnv, ...appEnv },
     stdio: ['ignore', 'pipe', 'pipe'],
   })
   let log = ''
@@ -83,6 +92,10 @@ export default async function setup(project: TestProject) {
   project.provide('mailUrl', `http://127.0.0.1:${MAIL_HTTP_PORT}`)
   project.provide('dbUrl', db.db.url)
   project.provide('chromium', chromium)
+  project.provide('paymentsKey', secrets.paymentsSecretKey)
+  project.provide('webhookSecret', secrets.paymentsWebhookSecret)
+  project.provide('appEnv', appEnv)
+  project.provide('dbPort', DB_PORT)
 
   return async () => {
     app.kill('SIGTERM')

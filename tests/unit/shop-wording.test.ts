@@ -31,8 +31,8 @@ describe('an order\'s shipping note', () => {
     expect(shippingNote({ status: 'po review', paymentMethod: 'purchase-order' })).toBe('Ships once the PO is approved and allocated.')
     expect(shippingNote({ status: 'awaiting payment', paymentMethod: 'card' })).toBe('Ships once paid and allocated.')
     expect(shippingNote({ status: 'awaiting payment', paymentMethod: 'purchase-order', allocated: true })).toBe('Ready to ship.')
-    expect(shippingNote({ status: 'cancelled', paymentMethod: 'purchase-order', purchaseOrder: { status: 'rejected', rejectReason: 'The PO is unsigned' } }))
-      .toBe('Rejected: The PO is unsigned. Nothing will ship.')
+    expect(shippingNote({ status: 'rejected', paymentMethod: 'purchase-order', purchaseOrder: { status: 'rejected', rejectReason: 'The PO is unsigned' } }))
+      .toBe('Purchase order rejected: The PO is unsigned. Nothing will ship.')
     expect(shippingNote({ status: 'cancelled', paymentMethod: 'card' })).toBe('Cancelled: nothing will ship.')
   })
   it('counts the released units in words', () => {

@@ -1,12 +1,9 @@
 // Purchase-order checkout (multipart): the PO number and document, the accounts-payable
 // contact, optionally the school's tax-exemption certificate. The order waits in `po review`.
-import { and, eq, isNull } from 'drizzle-orm'
 import type { MultiPartData } from 'h3'
 import { checkoutSourceSchema, purchaseOrderFieldsSchema } from '../../../shared/schemas/shop'
 import { fieldErrorsOf } from '../../../shared/utils/field-errors'
-import { purchaseOrders, schools, storedFiles, users } from '../../database/schema'
 import { removeStoredFile, safeFilename, storeFile, uploadProblem } from '../../services/files'
-import { orderPlacedMail, poReviewMail } from '../../emails/shop'
 
 const text = (parts: MultiPartData[], name: string) => {
   const p = parts.find((x) => x.name === name && !x.filename)
@@ -16,7 +13,7 @@ const file = (parts: MultiPartData[], name: string) => parts.find((x) => x.name 
 
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'teacher')
-  if (!user.schoolId) throw forbidden('Your account has no school to order for.')
+  assertMayOrder(user)
   let parts: MultiPartData[] | undefined
   try {
     parts = await readMultipartFormData(event)
@@ -44,33 +41,12 @@ export default defineEventHandler(async (event) => {
   if (certCheck && 'problem' in certCheck) fields.taxCertificate = certCheck.problem
   if (Object.keys(fields).length || !source.success || !po.success || !('mime' in poCheck)) throw invalid(fields)
 
-  const stored: { kind: 'purchase-order' | 'tax-certificate'; key: string; filename: string; mime: string; size: number }[] = []
+  const stored: StoredUpload[] = []
   stored.push({ kind: 'purchase-order', key: await storeFile('po', poFile!.data), filename: safeFilename(poFile!.filename, poCheck.mime, `PO-${po.data.poNumber}`), mime: poCheck.mime, size: poFile!.data.length })
   if (certCheck && 'mime' in certCheck) stored.push({ kind: 'tax-certificate', key: await storeFile('tax', certFile!.data), filename: safeFilename(certFile!.filename, certCheck.mime, 'tax-exemption-certificate'), mime: certCheck.mime, size: certFile!.data.length })
 
   try {
-    const placed = await transactionWithRetry(async (tx) => {
-      const src = await resolveCheckout(tx, user, source.data)
-      const order = await placeOrder(tx, user, 'purchase-order', src)
-      await tx.insert(purchaseOrders).values({ orderId: order.id, poNumber: po.data.poNumber, apEmail: po.data.apEmail })
-      for (const s of stored) {
-        await tx.insert(storedFiles).values({ kind: s.kind, schoolId: user.schoolId!, orderId: order.id, storageKey: s.key, filename: s.filename, contentType: s.mime, size: s.size, uploadedById: user.id })
-      }
-      if (stored.some((s) => s.kind === 'tax-certificate')) {
-        const [school] = await tx.select().from(schools).where(eq(schools.id, user.schoolId!)).limit(1).for('update')
-        if (school && school.taxExemption !== 'accepted') await tx.update(schools).set({ taxExemption: 'pending' }).where(eq(schools.id, school.id))
-      }
-      await addOrderEvent(tx, order.id, 'po-received', `Purchase order ${po.data.poNumber} received${stored.length > 1 ? ' with a tax-exemption certificate' : ''}; waiting for review.`, user.id)
-      await enqueueMail(tx, 'order-placed', user.email, orderPlacedMail(user.name, { number: order.number, totalCents: src.totals.totalCents, method: 'purchase-order' }, appUrl(`/orders/${order.id}`)))
-      // Every admin (not disabled) hears that a purchase order waits for review.
-      const admins = await tx.select({ email: users.email, name: users.name }).from(users).where(and(eq(users.role, 'admin'), isNull(users.disabledAt)))
-      const [school] = await tx.select({ name: schools.name }).from(schools).where(eq(schools.id, user.schoolId!)).limit(1)
-      for (const a of admins) {
-        await enqueueMail(tx, 'po-review', a.email, poReviewMail(a.name, { number: order.number, poNumber: po.data.poNumber, schoolName: school?.name ?? 'A school', totalCents: src.totals.totalCents }, appUrl(`/admin/orders/${order.id}`)))
-      }
-      await audit(tx, { actorId: user.id, action: 'order.placed', subjectType: 'order', subjectId: order.id, detail: { method: 'purchase-order' } })
-      return order
-    })
+    const placed = await placePurchaseOrder(user, source.data, po.data, stored)
     setResponseStatus(event, 201)
     return { orderId: placed.id, number: placed.number }
   } catch (e) {

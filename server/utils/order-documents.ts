@@ -1,0 +1,45 @@
+// The order's generated documents (invoice, receipt, packing list) rendered from the rows
+// they describe. The documents route serves them; mail jobs render them when they send,
+// never inside a transaction that holds the order's row lock.
+import { and, desc, eq } from 'drizzle-orm'
+import { batches, shipments, stockReservations } from '../database/schema'
+import { cardReceiptPdf, invoicePdf, packingListPdf } from '../documents/shop'
+
+export const ORDER_DOCUMENT_KINDS = ['invoice', 'receipt', 'packing-list'] as const
+export type OrderDocumentKind = (typeof ORDER_DOCUMENT_KINDS)[number]
+
+/** The PDF and its file name, or null when the order has no such document (yet). */
+export async function renderOrderDocument(db: DbOrTx, order: OrderRow, kind: OrderDocumentKind) {
+  const { school, buyer, po } = await orderPeople(db, order)
+  const lines = await linesOf(db, order.id)
+  const money = { ...order, taxRateBasisPoints: Number(useRuntimeConfig().taxRateBasisPoints) }
+  const onInvoice = kind === 'invoice' || (kind === 'receipt' && order.paymentMethod === 'purchase-order')
+  if (onInvoice && order.invoiceId && po) {
+    if (kind === 'receipt' && !order.paidAt) return null
+    const info = {
+      number: order.invoiceNumber ?? order.number!, dueAt: order.invoiceDueAt, poNumber: po.poNumber,
+      orderNumber: order.number!, issuedAt: po.reviewedAt ?? order.createdAt,
+      payUrl: order.invoiceVoidedAt ? null : order.invoiceUrl,
+    }
+    const paid = kind === 'receipt' ? { at: order.paidAt!, reference: order.paymentReference } : undefined
+    const pdf = await invoicePdf(info, money, lines, school, po.apEmail, paid)
+    return { filename: `Tiltwright-${kind}-${info.number}.pdf`, pdf }
+  }
+  if (kind === 'receipt' && order.paidAt) {
+    const pdf = await cardReceiptPdf({ ...money, number: order.number!, paidAt: order.paidAt }, lines, school, buyer.name)
+    return { filename: `Tiltwright-receipt-${order.number}.pdf`, pdf }
+  }
+  if (kind === 'packing-list') {
+    const held = await db.select({ productId: stockReservations.productId, quantity: stockReservations.quantity, code: batches.code })
+      .from(stockReservations).innerJoin(batches, eq(batches.id, stockReservations.batchId))
+      .where(and(eq(stockReservations.orderId, order.id), eq(stockReservations.status, 'allocated')))
+    if (!held.length) return null
+    const [shipment] = await db.select().from(shipments).where(eq(shipments.orderId, order.id))
+      .orderBy(desc(shipments.shippedAt)).limit(1)
+    const names = new Map(lines.map((l) => [l.productId, l.name]))
+    const items = held.map((h) => ({ name: names.get(h.productId) ?? '', quantity: h.quantity, batchCode: h.code }))
+    const pdf = await packingListPdf(order as { number: string }, items, school, buyer.name, shipment)
+    return { filename: `Tiltwright-packing-list-${order.number}.pdf`, pdf }
+  }
+  return null
+}
