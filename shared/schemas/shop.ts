@@ -2,7 +2,7 @@
 import { z } from 'zod'
 import { tierProblems } from '../utils/pricing'
 import { listQuerySchema } from './list'
-import { ORDER_STATUSES } from '../utils/shop-rules'
+import { ORDER_STATUSES } from '../utils/order-flow'
 
 const id = (what: string) => z.coerce.number({ error: `Choose ${what}.` }).int(`Choose ${what}.`).positive(`Choose ${what}.`)
 

@@ -1,6 +1,6 @@
 // What the shop's routes answer; the pages type their useFetch calls with these.
 import type { PriceTier, PricedLine, Totals } from '../utils/pricing'
-import type { OrderStatus, PaymentMethod } from '../utils/shop-rules'
+import type { OrderStatus, PaymentMethod } from '../utils/order-flow'
 
 export interface BatchView { id: number; code: string; quantityBuilt: number; left: number; builtOn: string }
 

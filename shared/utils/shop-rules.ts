@@ -5,8 +5,6 @@ import { isOpenUnpaid, type OrderStatus, type PaymentMethod } from './order-flow
 
 type Who = Pick<SessionUser, 'role' | 'schoolId'> | null | undefined
 
-export { ORDER_STATUSES, ORDER_STATUS_LABELS, type OrderStatus, type PaymentMethod } from './order-flow'
-
 /** Admins see every order; support read it for context; a teacher sees their own school's. */
 export function canSeeOrder(u: Who, order: { schoolId: number }): boolean {
   if (!u) return false

@@ -20,9 +20,8 @@ export default defineEventHandler(async (event) => {
     await tx.update(quotes).set({ number }).where(eq(quotes.id, row!.id))
     await tx.insert(quoteLines).values(src.lines.map((l) => ({ quoteId: row!.id, ...l })))
     const [q] = await tx.select().from(quotes).where(eq(quotes.id, row!.id)).limit(1)
-    const pdf = await renderQuotePdf(tx, q!)
     const mail = quoteIssuedMail(user.name, { number, totalCents: q!.totalCents, validUntil: toDate(validUntil) }, appUrl(`/quotes/${q!.id}`))
-    await enqueueMail(tx, 'quote-issued', user.email, mail, [{ filename: `Tiltwright-quote-${number}.pdf`, contentType: 'application/pdf', content: pdf }])
+    await enqueueMail(tx, 'quote-issued', user.email, mail, [{ document: 'quote', quoteId: q!.id }])
     await audit(tx, { actorId: user.id, action: 'quote.issued', subjectType: 'quote', subjectId: q!.id })
     return { id: q!.id, number, totalCents: q!.totalCents, validUntil: validUntil.toISOString() }
   })
