@@ -2,7 +2,7 @@
 // the order (server/services/payments.ts), so a retry never creates a second object; each
 // records its outcome through a step of the order engine (server/utils/order-steps.ts).
 import { and, asc, eq, isNull, lt } from 'drizzle-orm'
-import { orders } from '../database/schema'
+import { jobs, orders } from '../database/schema'
 import {
   checkoutStatus, createCardCheckout, createNetInvoice, expireCheckout, markInvoicePaidOutOfBand, refundPayment,
   voidInvoice,
@@ -90,7 +90,7 @@ export const refundPaymentJob: JobDefinition<OrderJob & { paymentIntent: string;
 }
 
 /** Card orders unpaid after the hold: asks the provider about each before cancelling it.
- *  Runs again after runtimeConfig.cardHoldSweepMs. */
+ *  Runs again after runtimeConfig.cardHoldSweepMs, and clears jobs finished a month ago. */
 export const sweepCardHoldsJob: JobDefinition<Record<string, never>> = {
   // Recurring: it must never be given up.
   maxAttempts: Number.MAX_SAFE_INTEGER,
@@ -113,6 +113,8 @@ export const sweepCardHoldsJob: JobDefinition<Record<string, never>> = {
         console.error(`[card holds] order ${id}:`, e instanceof Error ? e.message : e)
       }
     }
+    // Finished jobs are kept a month for looking back, then cleared.
+    await useDb().delete(jobs).where(and(eq(jobs.state, 'done'), lt(jobs.doneAt, new Date(Date.now() - 30 * 86_400_000))))
     return { again: Number(cfg.cardHoldSweepMs) || 600_000 }
   },
 }
