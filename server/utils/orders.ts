@@ -8,8 +8,10 @@ import {
 import type { OrderView, OrderDocument } from '../../shared/types/shop'
 import { canCancelOrder, canSeeOrder, canSeeOrderDocuments, isQuoteValid, releasedWords, unitsLeft } from '../../shared/utils/shop-rules'
 import type { SessionUser } from '../../shared/utils/roles'
-import { formatCents, type PricedLine, type Totals } from '../../shared/utils/pricing'
+import { formatCents, lineTierWording, type PricedLine, type Totals } from '../../shared/utils/pricing'
+import { quoteTaxNote, retax, taxLineLabel } from '../../shared/utils/tax'
 import type { CartLine } from '../../shared/schemas/shop'
+import type { CheckoutAddresses } from '../../shared/schemas/address'
 import { cardReceiptPdf, invoicePdf } from '../documents/shop'
 import { paymentReceivedMail } from '../emails/shop'
 
@@ -88,29 +90,42 @@ export async function releaseStock(tx: Tx, orderId: number) {
   return held.reduce((s, h) => s + h.quantity, 0)
 }
 
-export interface OrderSource { lines: PricedLine[]; totals: Totals; quoteId: number | null }
+export interface OrderSource {
+  lines: PricedLine[]; totals: Totals; quoteId: number | null
+  /** Where it ships and whom it bills (the school's address unless checkout gave others). */
+  addresses: CheckoutAddresses
+  /** Said on the timeline when a quote's tax changed for the order (exemption, destination). */
+  taxNote: string | null
+}
 
 /** The lines and money of a checkout: the quote's (locked, still valid, the caller's school)
- *  or the cart's priced from the catalog now. */
-export async function resolveCheckout(tx: Tx, user: SessionUser, input: { quoteId?: number; lines?: CartLine[] }): Promise<OrderSource> {
+ *  or the cart's priced from the catalog now. Tax follows the ship-to state and the school's
+ *  exemption as they are now, also for a quote (its lines and shipping stay as quoted). */
+export async function resolveCheckout(
+  tx: Tx, user: SessionUser, input: { quoteId?: number; lines?: CartLine[]; addresses?: CheckoutAddresses | null },
+): Promise<OrderSource> {
+  const school = await loadSchool(tx, user.schoolId!)
+  const addresses = checkoutAddressesFor(school, input.addresses)
+  const basis = schoolTaxBasis(school, addresses.shipTo.region)
   if (input.quoteId) {
     const [q] = await tx.select().from(quotes).where(eq(quotes.id, input.quoteId)).limit(1).for('update')
     if (!q || q.schoolId !== user.schoolId) throw notFound('That quote')
     if (!isQuoteValid(q)) throw conflict(q.orderId ? 'This quote has already been turned into an order.' : 'This quote has expired. Save the cart as a new quote.', q.orderId ? 'quote-used' : 'quote-expired')
     const lines = await tx.select().from(quoteLines).where(eq(quoteLines.quoteId, q.id)).orderBy(asc(quoteLines.id))
+    const totals = retax(q, basis)
     return {
-      quoteId: q.id,
-      lines: lines.map((l) => ({ productId: l.productId, name: l.name, quantity: l.quantity, tierMinQuantity: l.tierMinQuantity, unitPriceCents: l.unitPriceCents, lineTotalCents: l.lineTotalCents })),
-      totals: { subtotalCents: q.subtotalCents, shippingCents: q.shippingCents, taxCents: q.taxCents, totalCents: q.totalCents, taxExempt: q.taxExempt, taxRateBasisPoints: q.taxRateBasisPoints },
+      quoteId: q.id, addresses, taxNote: quoteTaxNote(q, totals),
+      lines: lines.map((l) => ({ productId: l.productId, name: l.name, quantity: l.quantity, tierMinQuantity: l.tierMinQuantity, unitPriceCents: l.unitPriceCents, lineTotalCents: l.lineTotalCents, tierLabel: l.tierLabel })),
+      totals,
     }
   }
-  const priced = await priceLines(tx, input.lines ?? [], user.schoolId)
+  const priced = await priceLines(tx, input.lines ?? [], basis)
   if (priced.missing.length) {
     const fields = Object.fromEntries((input.lines ?? []).map((l, i) => [l, i] as const).filter(([l]) => priced.missing.includes(l.productId)).map(([, i]) => [`lines.${i}.productId`, 'This product is no longer sold.']))
     throw invalid(fields, 'Some items in the cart are no longer sold.')
   }
   const { lines, missing: _m, byId: _b, ...totals } = priced
-  return { lines, totals, quoteId: null }
+  return { lines, totals, quoteId: null, addresses, taxNote: null }
 }
 
 /** Creates the order with its lines, reserves its stock and starts its timeline. */
@@ -120,6 +135,8 @@ export async function placeOrder(tx: Tx, user: SessionUser, method: 'card' | 'pu
     status: method === 'card' ? 'awaiting payment' : 'po review',
     subtotalCents: src.totals.subtotalCents, shippingCents: src.totals.shippingCents, taxCents: src.totals.taxCents,
     totalCents: src.totals.totalCents, taxExempt: src.totals.taxExempt,
+    taxRateBasisPoints: src.totals.taxRateBasisPoints, taxState: src.totals.taxState,
+    shipTo: src.addresses.shipTo, billTo: src.addresses.billTo, deliveryNote: src.addresses.deliveryNote,
   }).$returningId()
   const id = row!.id
   const number = orderNumberFor(id)
@@ -130,7 +147,8 @@ export async function placeOrder(tx: Tx, user: SessionUser, method: 'card' | 'pu
     const [res] = await tx.update(quotes).set({ orderId: id }).where(and(eq(quotes.id, src.quoteId), isNull(quotes.orderId)))
     if (res.affectedRows !== 1) throw conflict('This quote has already been turned into an order.', 'quote-used')
   }
-  await addOrderEvent(tx, id, 'placed', `Order placed by ${user.name}${src.quoteId ? ' from a quote, at the quoted prices' : ''}; stock reserved.`, user.id)
+  const from = src.quoteId ? ' from a quote, at the quoted prices' : ''
+  await addOrderEvent(tx, id, 'placed', `Order placed by ${user.name}${from}; stock reserved.${src.taxNote ? ` ${src.taxNote}` : ''}`, user.id)
   return { id, number }
 }
 
@@ -170,10 +188,9 @@ export async function markOrderPaid(tx: Tx, orderId: number, how: { message: str
   await addOrderEvent(tx, orderId, 'paid', how.message, how.actorId)
   const { school, buyer, po } = await orderPeople(tx, order)
   const lines = await linesOf(tx, orderId)
-  const money = { ...order, taxRateBasisPoints: useRuntimeConfig().taxRateBasisPoints as number }
   const pdf = order.paymentMethod === 'card' || !po
-    ? await cardReceiptPdf({ ...money, number: order.number!, paidAt }, lines, school, buyer.name)
-    : await invoicePdf({ number: order.invoiceNumber ?? order.number!, dueAt: order.invoiceDueAt, poNumber: po.poNumber, orderNumber: order.number!, issuedAt: order.createdAt, payUrl: null }, money, lines, school, po.apEmail, { at: paidAt, reference: how.reference })
+    ? await cardReceiptPdf({ ...order, number: order.number!, paidAt }, lines, school, buyer.name)
+    : await invoicePdf({ number: order.invoiceNumber ?? order.number!, dueAt: order.invoiceDueAt, poNumber: po.poNumber, orderNumber: order.number!, issuedAt: order.createdAt, payUrl: null }, order, lines, school, po.apEmail, { at: paidAt, reference: how.reference })
   const mail = paymentReceivedMail(buyer.name, { number: order.number!, totalCents: order.totalCents }, appUrl(`/orders/${orderId}`))
   await enqueueMail(tx, 'payment-received', buyer.email, mail, [{ filename: `Tiltwright-receipt-${order.number}.pdf`, contentType: 'application/pdf', content: pdf }])
   return true
@@ -204,11 +221,12 @@ export async function orderView(db: DbOrTx, order: OrderRow, user: SessionUser):
     : order.paymentMethod === 'card' ? (order.status === 'awaiting payment' ? order.checkoutUrl : null) : order.invoiceUrl
   return {
     id: order.id, number: order.number!, status: order.status, paymentMethod: order.paymentMethod,
-    subtotalCents: order.subtotalCents, shippingCents: order.shippingCents, taxCents: order.taxCents, totalCents: order.totalCents, taxExempt: order.taxExempt, taxRateBasisPoints: Number(useRuntimeConfig().taxRateBasisPoints),
+    subtotalCents: order.subtotalCents, shippingCents: order.shippingCents, taxCents: order.taxCents, totalCents: order.totalCents, taxExempt: order.taxExempt,
+    taxRateBasisPoints: order.taxRateBasisPoints, taxState: order.taxState, addresses: addressesOfOrder(order, people.school),
     createdAt: order.createdAt.toISOString(), paidAt: order.paidAt?.toISOString() ?? null,
     school: { id: people.school.id, name: people.school.name, district: people.school.district, taxExemption: people.school.taxExemption },
     placedBy: people.buyer, quoteId: order.quoteId,
-    lines: await withTierLabels(db, lines.map((l) => ({ productId: l.productId, name: l.name, quantity: l.quantity, tierMinQuantity: l.tierMinQuantity, unitPriceCents: l.unitPriceCents, lineTotalCents: l.lineTotalCents }))),
+    lines: await withTierLabels(db, lines.map((l) => ({ productId: l.productId, name: l.name, quantity: l.quantity, tierMinQuantity: l.tierMinQuantity, unitPriceCents: l.unitPriceCents, lineTotalCents: l.lineTotalCents, tierLabel: l.tierLabel }))),
     events: events.map((e) => ({ id: e.id, kind: e.kind, message: e.message, createdAt: e.createdAt.toISOString() })),
     shipments: ships.map((s) => ({ id: s.id, carrier: s.carrier, tracking: s.tracking, shippedAt: s.shippedAt.toISOString() })),
     documents: docs,
@@ -218,6 +236,7 @@ export async function orderView(db: DbOrTx, order: OrderRow, user: SessionUser):
     reservations: held.map((h) => ({ batchCode: h.code, productName: names.get(h.r.productId) ?? '', quantity: h.r.quantity, status: h.r.status })),
     allocated,
     canCancel: canCancelOrder(user, order),
+    wayBack: canSeeOrderDocuments(user, order) ? await wayBackForOrder(db, order, people.po) : null,
   }
 }
 
@@ -236,12 +255,15 @@ export async function cancelOrderIn(tx: Tx, order: OrderRow, actor: Pick<Session
   if (order.quoteId) await tx.update(quotes).set({ orderId: null }).where(and(eq(quotes.id, order.quoteId), eq(quotes.orderId, order.id)))
 }
 
-/** The order's charge as the provider's line items: goods at their tier price, then shipping and tax. */
-export function chargeLinesFor(lines: Omit<PricedLine, 'productId'>[], totals: Pick<Totals, 'shippingCents' | 'taxCents'>) {
+/** The order's charge as the provider's line items: goods at their tier price (in the shop's
+ *  one tier wording), then shipping and tax. */
+export function chargeLinesFor(
+  lines: Omit<PricedLine, 'productId'>[], totals: Pick<Totals, 'shippingCents' | 'taxCents' | 'taxExempt' | 'taxRateBasisPoints' | 'taxState'>,
+) {
   return [
-    ...lines.map((l) => ({ description: `${l.name} (tier ${l.tierMinQuantity}+)`, quantity: l.quantity, unitAmountCents: l.unitPriceCents })),
+    ...lines.map((l) => ({ description: `${l.name} (${lineTierWording(l)})`, quantity: l.quantity, unitAmountCents: l.unitPriceCents })),
     ...(totals.shippingCents ? [{ description: 'Shipping', quantity: 1, unitAmountCents: totals.shippingCents }] : []),
-    ...(totals.taxCents ? [{ description: 'Sales tax', quantity: 1, unitAmountCents: totals.taxCents }] : []),
+    ...(totals.taxCents ? [{ description: taxLineLabel(totals), quantity: 1, unitAmountCents: totals.taxCents }] : []),
   ]
 }
 

@@ -1,14 +1,16 @@
 // Card checkout: reserve the stock and create the order in one transaction, then open the
 // provider's hosted checkout page for it. The signed webhook marks it paid.
 import { eq } from 'drizzle-orm'
+import { z } from 'zod'
 import { checkoutSourceSchema } from '../../../shared/schemas/shop'
+import { checkoutAddressesSchema } from '../../../shared/schemas/address'
 import { orders, schools } from '../../database/schema'
 import { createCardCheckout } from '../../services/payments'
 import { orderPlacedMail } from '../../emails/shop'
 
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'teacher')
-  const input = await readBodyAs(event, checkoutSourceSchema)
+  const input = await readBodyAs(event, checkoutSourceSchema.and(z.object({ addresses: checkoutAddressesSchema.optional() })))
   if (!user.schoolId) throw forbidden('Your account has no school to order for.')
   const placed = await transactionWithRetry(async (tx) => {
     const src = await resolveCheckout(tx, user, input)

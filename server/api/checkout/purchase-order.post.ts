@@ -3,6 +3,7 @@
 import { and, eq, isNull } from 'drizzle-orm'
 import type { MultiPartData } from 'h3'
 import { checkoutSourceSchema, purchaseOrderFieldsSchema } from '../../../shared/schemas/shop'
+import { checkoutAddressesSchema } from '../../../shared/schemas/address'
 import { fieldErrorsOf } from '../../../shared/utils/field-errors'
 import { purchaseOrders, schools, storedFiles, users } from '../../database/schema'
 import { removeStoredFile, safeFilename, storeFile, uploadProblem } from '../../services/files'
@@ -12,6 +13,7 @@ const text = (parts: MultiPartData[], name: string) => {
   const p = parts.find((x) => x.name === name && !x.filename)
   return p ? p.data.toString('utf8') : undefined
 }
+const prefixed = (prefix: string, f: Record<string, string>) => Object.fromEntries(Object.entries(f).map(([k, v]) => [`${prefix}.${k}`, v]))
 const file = (parts: MultiPartData[], name: string) => parts.find((x) => x.name === name && x.filename !== undefined)
 
 export default defineEventHandler(async (event) => {
@@ -34,6 +36,14 @@ export default defineEventHandler(async (event) => {
   const rawQuote = text(parts, 'quoteId')
   const source = checkoutSourceSchema.safeParse(rawQuote ? { quoteId: rawQuote } : { lines })
   if (!source.success && !fields.lines) Object.assign(fields, fieldErrorsOf(source.error))
+  // Ship-to, bill-to and delivery note (JSON, as the card checkout sends them); the school's address when absent.
+  const rawAddresses = text(parts, 'addresses')
+  let addresses: unknown
+  if (rawAddresses !== undefined) {
+    try { addresses = JSON.parse(rawAddresses) } catch { fields.addresses = 'The addresses are not valid JSON.' }
+  }
+  const where = addresses === undefined ? null : checkoutAddressesSchema.safeParse(addresses)
+  if (where && !where.success) Object.assign(fields, prefixed('addresses', fieldErrorsOf(where.error)))
   const po = purchaseOrderFieldsSchema.safeParse({ poNumber: text(parts, 'poNumber'), apEmail: text(parts, 'apEmail') })
   if (!po.success) Object.assign(fields, fieldErrorsOf(po.error))
   const poFile = file(parts, 'poFile')
@@ -50,7 +60,7 @@ export default defineEventHandler(async (event) => {
 
   try {
     const placed = await transactionWithRetry(async (tx) => {
-      const src = await resolveCheckout(tx, user, source.data)
+      const src = await resolveCheckout(tx, user, { ...source.data, addresses: where?.data })
       const order = await placeOrder(tx, user, 'purchase-order', src)
       await tx.insert(purchaseOrders).values({ orderId: order.id, poNumber: po.data.poNumber, apEmail: po.data.apEmail })
       for (const s of stored) {

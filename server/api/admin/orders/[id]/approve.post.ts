@@ -54,8 +54,7 @@ export default defineEventHandler(async (event) => {
       .where(eq(orders.id, claimed.id))
     const due = invoice.dueAt ? toDate(invoice.dueAt) : `${INVOICE_NET_DAYS} days from today`
     await addOrderEvent(tx, claimed.id, 'invoice-issued', `Invoice ${invoice.number} issued: net ${INVOICE_NET_DAYS}, due ${due}.`, admin.id)
-    const money = { ...claimed, taxRateBasisPoints: Number(useRuntimeConfig().taxRateBasisPoints) }
-    const pdf = await invoicePdf({ number: invoice.number, dueAt: invoice.dueAt, poNumber: po!.poNumber, orderNumber: claimed.number!, issuedAt: new Date(), payUrl: invoice.url }, money, lines, school, po!.apEmail)
+    const pdf = await invoicePdf({ number: invoice.number, dueAt: invoice.dueAt, poNumber: po!.poNumber, orderNumber: claimed.number!, issuedAt: new Date(), payUrl: invoice.url }, claimed, lines, school, po!.apEmail)
     const attachment = [{ filename: `Tiltwright-invoice-${invoice.number}.pdf`, contentType: 'application/pdf', content: pdf }]
     const url = appUrl(`/orders/${claimed.id}`)
     await enqueueMail(tx, 'po-approved', buyer.email, poApprovedMail(buyer.name, { number: claimed.number!, poNumber: po!.poNumber }, url))

@@ -14,7 +14,9 @@ export default defineEventHandler(async (event) => {
     if (res.affectedRows !== 1) throw conflict('This purchase order has already been reviewed.', 'already-reviewed')
     await cancelOrderIn(tx, order, admin, `Rejected: ${input.reason.replace(/[.!]+$/, '')}.`)
     const { buyer, po } = await orderPeople(tx, order)
-    await enqueueMail(tx, 'po-rejected', buyer.email, poRejectedMail(buyer.name, { number: order.number!, poNumber: po!.poNumber, reason: input.reason }, appUrl(`/orders/${order.id}`)))
+    const back = (await wayBackForOrder(tx, order, { status: 'rejected' }))!
+    const mail = poRejectedMail(buyer.name, { number: order.number!, poNumber: po!.poNumber, reason: input.reason }, appUrl(`/orders/${order.id}`), { label: back.label, url: appUrl(back.url) })
+    await enqueueMail(tx, 'po-rejected', buyer.email, mail)
     await audit(tx, { actorId: admin.id, action: 'order.po-rejected', subjectType: 'order', subjectId: order.id })
     return order.id
   })

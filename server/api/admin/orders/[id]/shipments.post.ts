@@ -17,7 +17,7 @@ export default defineEventHandler(async (event) => {
     const names = new Map(lines.map((l) => [l.productId, l.name]))
     const held = await tx.select({ productId: stockReservations.productId, quantity: stockReservations.quantity, code: batches.code }).from(stockReservations)
       .innerJoin(batches, eq(batches.id, stockReservations.batchId)).where(and(eq(stockReservations.orderId, order.id), eq(stockReservations.status, 'allocated')))
-    const pdf = await packingListPdf(order as { number: string }, held.map((h) => ({ name: names.get(h.productId) ?? '', quantity: h.quantity, batchCode: h.code })), school, buyer.name, input)
+    const pdf = await packingListPdf({ ...order, number: order.number! }, held.map((h) => ({ name: names.get(h.productId) ?? '', quantity: h.quantity, batchCode: h.code })), school, buyer.name, input)
     await enqueueMail(tx, 'shipped', buyer.email, shippedMail(buyer.name, { number: order.number!, ...input }, appUrl(`/orders/${order.id}`)),
       [{ filename: `Tiltwright-packing-list-${order.number}.pdf`, contentType: 'application/pdf', content: pdf }])
     return { id: row!.id, orderId: order.id }

@@ -12,15 +12,14 @@ export default defineEventHandler(async (event) => {
   const db = useDb()
   const { school, buyer, po } = await orderPeople(db, order)
   const lines = await linesOf(db, order.id)
-  const money = { ...order, taxRateBasisPoints: Number(useRuntimeConfig().taxRateBasisPoints) }
   if ((kind === 'invoice' || (kind === 'receipt' && order.paymentMethod === 'purchase-order')) && order.invoiceId && po) {
     if (kind === 'receipt' && !order.paidAt) throw notFound('That document')
     const info = { number: order.invoiceNumber ?? order.number!, dueAt: order.invoiceDueAt, poNumber: po.poNumber, orderNumber: order.number!, issuedAt: po.reviewedAt ?? order.createdAt, payUrl: order.invoiceUrl }
-    const pdf = await invoicePdf(info, money, lines, school, po.apEmail, kind === 'receipt' ? { at: order.paidAt!, reference: order.paymentReference } : undefined)
+    const pdf = await invoicePdf(info, order, lines, school, po.apEmail, kind === 'receipt' ? { at: order.paidAt!, reference: order.paymentReference } : undefined)
     return pdfReply(event, `Tiltwright-${kind}-${info.number}.pdf`, pdf)
   }
   if (kind === 'receipt' && order.paidAt) {
-    return pdfReply(event, `Tiltwright-receipt-${order.number}.pdf`, await cardReceiptPdf({ ...money, number: order.number!, paidAt: order.paidAt }, lines, school, buyer.name))
+    return pdfReply(event, `Tiltwright-receipt-${order.number}.pdf`, await cardReceiptPdf({ ...order, number: order.number!, paidAt: order.paidAt }, lines, school, buyer.name))
   }
   if (kind === 'packing-list') {
     const held = await db.select({ productId: stockReservations.productId, quantity: stockReservations.quantity, code: batches.code }).from(stockReservations)
@@ -28,7 +27,7 @@ export default defineEventHandler(async (event) => {
       .where(and(eq(stockReservations.orderId, order.id), inArray(stockReservations.status, ['allocated'])))
     if (!held.length) throw notFound('That document')
     const names = new Map(lines.map((l) => [l.productId, l.name]))
-    const pdf = await packingListPdf(order as { number: string }, held.map((h) => ({ name: names.get(h.productId) ?? '', quantity: h.quantity, batchCode: h.code })), school, buyer.name)
+    const pdf = await packingListPdf({ ...order, number: order.number! }, held.map((h) => ({ name: names.get(h.productId) ?? '', quantity: h.quantity, batchCode: h.code })), school, buyer.name)
     return pdfReply(event, `Tiltwright-packing-list-${order.number}.pdf`, pdf)
   }
   throw notFound('That document')
