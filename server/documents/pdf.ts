@@ -61,7 +61,8 @@ export function renderDocument(spec: DocSpec): Promise<Buffer> {
   const width = right - left
 
   doc.font('heavy').fontSize(22).fillColor(COLORS.beam).text('Tiltwright', left, 50)
-  doc.font('regular').fontSize(9).fillColor(COLORS.faint).text(`${VENDOR.tagline} · ${VENDOR.address} · ${VENDOR.email}`, left, 76)
+  doc.font('regular').fontSize(9).fillColor(COLORS.faint)
+    .text(`${VENDOR.tagline} · ${VENDOR.address} · ${VENDOR.email}`, left, 76)
   doc.font('heavy').fontSize(18).fillColor(COLORS.ink).text(`${spec.title} ${spec.number}`, left, 50, { width, align: 'right' })
   let y = 104
   doc.moveTo(left, y).lineTo(right, y).lineWidth(1.5).strokeColor(COLORS.brass).stroke()
@@ -70,7 +71,8 @@ export function renderDocument(spec: DocSpec): Promise<Buffer> {
   let partyBottom = y
   for (const p of spec.parties) {
     doc.font('bold').fontSize(10).fillColor(COLORS.faint).text(p.label.toUpperCase(), left, partyBottom)
-    doc.font('regular').fontSize(10.5).fillColor(COLORS.ink).text(p.lines.join('\n'), left, partyBottom + 14, { width: width / 2 - 10 })
+    doc.font('regular').fontSize(10.5).fillColor(COLORS.ink)
+      .text(p.lines.join('\n'), left, partyBottom + 14, { width: width / 2 - 10 })
     partyBottom = doc.y + 10
   }
   let my = y
@@ -117,7 +119,8 @@ export function renderDocument(spec: DocSpec): Promise<Buffer> {
   if (spec.stamp) {
     // Beside the totals, on the empty left of their rows: nothing else is printed there.
     doc.save().rotate(-12, { origin: [left + 80, totalsTop + 24] })
-    doc.font('heavy').fontSize(30).fillColor(COLORS.go).opacity(0.75).text(spec.stamp, left, totalsTop + 6, { width: 160, align: 'center' })
+    doc.font('heavy').fontSize(30).fillColor(COLORS.go).opacity(0.75)
+      .text(spec.stamp, left, totalsTop + 6, { width: 160, align: 'center' })
     doc.restore().opacity(1)
   }
   y += 16

@@ -57,9 +57,8 @@ export async function priceLines(db: DbOrTx, lines: CartLine[], tax: TaxBasis) {
 /** Stored quote and order lines with their tier's range in the kit page's words ("1–4"): the
  *  label kept with the line; for lines stored before labels were kept, from the product's tiers
  *  as they stand (a tier no longer in the catalog reads "12+"). */
-export async function withTierLabels<L extends { productId: number; tierMinQuantity: number; tierLabel?: string | null }>(
-  db: DbOrTx, lines: L[],
-): Promise<(L & { tierLabel: string })[]> {
+type Labelled = { productId: number; tierMinQuantity: number; tierLabel?: string | null }
+export async function withTierLabels<L extends Labelled>(db: DbOrTx, lines: L[]): Promise<(L & { tierLabel: string })[]> {
   if (lines.every((l) => l.tierLabel)) return lines.map((l) => ({ ...l, tierLabel: l.tierLabel! }))
   const ids = [...new Set(lines.map((l) => l.productId))]
   const rows = ids.length ? await db.select().from(priceTiers).where(inArray(priceTiers.productId, ids)) : []

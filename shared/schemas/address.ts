@@ -54,6 +54,7 @@ export const schoolAddressSchema = z.object({
 
 /** An address as the lines of a label or a document's address block. */
 export function addressLines(a: PostalAddress): string[] {
-  return [a.name, a.attention ? `Attn: ${a.attention}` : null, a.line1, a.line2, `${a.city}, ${a.region} ${a.postalCode}`,
-    a.country === 'US' ? null : a.country].filter((x): x is string => !!x)
+  const attention = a.attention ? `Attn: ${a.attention}` : null
+  return [a.name, attention, a.line1, a.line2, `${a.city}, ${a.region} ${a.postalCode}`, a.country === 'US' ? null : a.country]
+    .filter((x): x is string => !!x)
 }

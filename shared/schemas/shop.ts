@@ -80,7 +80,9 @@ export const tierSchema = z.object({
 export const tiersSchema = z.array(tierSchema).superRefine((tiers, ctx) => {
   const problem = tierProblems(tiers)
   if (problem) ctx.addIssue({ code: 'custom', message: problem })
-  for (const r of risingTierProblems(tiers)) ctx.addIssue({ code: 'custom', path: [r.index, 'unitPriceCents'], message: r.message })
+  for (const r of risingTierProblems(tiers)) {
+    ctx.addIssue({ code: 'custom', path: [r.index, 'unitPriceCents'], message: r.message })
+  }
 })
 
 const specSchema = z.object({

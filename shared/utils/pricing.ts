@@ -148,8 +148,10 @@ export function risingTierProblems(tiers: readonly PriceTier[]): { index: number
   let cheapest: PriceTier | undefined
   for (const { t, index } of order) {
     if (cheapest && t.unitPriceCents > cheapest.unitPriceCents) {
-      found.push({ index, message: `From ${t.minQuantity} the price must not be above ${formatCents(cheapest.unitPriceCents)} `
-        + `(the price from ${cheapest.minQuantity}): larger orders never pay more each.` })
+      const limit = formatCents(cheapest.unitPriceCents)
+      const message = `From ${t.minQuantity} the price must not be above ${limit} `
+        + `(the price from ${cheapest.minQuantity}): larger orders never pay more each.`
+      found.push({ index, message })
     }
     if (!cheapest || t.unitPriceCents <= cheapest.unitPriceCents) cheapest = t
   }

@@ -12,7 +12,9 @@ export function wayBackAfterRejection(
 ): WayBack | null {
   if (po?.status !== 'rejected') return null
   if (quote && isQuoteValid(quote, now)) {
-    return { kind: 'quote', url: `/checkout?quote=${quote.id}`, label: `Send a corrected purchase order for quote ${quote.number ?? quote.id}` }
+    const label = `Send a corrected purchase order for quote ${quote.number ?? quote.id}`
+    return { kind: 'quote', url: `/checkout?quote=${quote.id}`, label }
   }
-  return { kind: 'same-lines', url: `/checkout?resubmit=${order.id}`, label: 'Send a corrected purchase order for the same items' }
+  const label = 'Send a corrected purchase order for the same items'
+  return { kind: 'same-lines', url: `/checkout?resubmit=${order.id}`, label }
 }

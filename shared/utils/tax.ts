@@ -34,7 +34,9 @@ type TaxFacts = Pick<Totals, 'taxExempt' | 'taxRateBasisPoints' | 'taxState'>
 /** The tax line's label on pages, documents and the payment provider's line items. */
 export function taxLineLabel(t: TaxFacts): string {
   if (t.taxExempt) return 'Sales tax: exemption applied'
-  if (!t.taxState) return t.taxRateBasisPoints ? `Sales tax (${formatRate(t.taxRateBasisPoints)}, estimated)` : 'Sales tax (by ship-to state)'
+  if (!t.taxState) {
+    return t.taxRateBasisPoints ? `Sales tax (${formatRate(t.taxRateBasisPoints)}, estimated)` : 'Sales tax (by ship-to state)'
+  }
   if (!t.taxRateBasisPoints) return `Sales tax (${t.taxState}: no state sales tax)`
   return `Sales tax (${t.taxState} ${formatRate(t.taxRateBasisPoints)}, estimated)`
 }
@@ -45,9 +47,10 @@ export function taxNotes(t: TaxFacts): string[] {
     return ['Tax exemption applied: the school\'s tax-exemption certificate is accepted, so no sales tax is charged. '
       + 'The school\'s business office decides whether its exemption covers this purchase.']
   }
-  return [`Sales tax is an estimate at the ship-to state's base rate${t.taxState ? ` (${usState(t.taxState)?.name ?? t.taxState})` : ''}; `
-    + 'local (county and city) add-on rates are not included. The school\'s business office decides whether the school is exempt; '
-    + 'send us its exemption certificate and we charge no sales tax on later orders.']
+  const where = t.taxState ? ` (${usState(t.taxState)?.name ?? t.taxState})` : ''
+  return [`Sales tax is an estimate at the ship-to state's base rate${where}; `
+    + 'local (county and city) add-on rates are not included. The school\'s business office decides '
+    + 'whether the school is exempt; send us its exemption certificate and we charge no sales tax on later orders.']
 }
 
 /** What the timeline says when an order from a quote is taxed differently from the quote. */
@@ -56,6 +59,7 @@ export function quoteTaxNote(quoted: Pick<Totals, 'taxCents' | 'taxExempt' | 'ta
     return 'Tax exemption applied: the school\'s certificate was accepted after the quote, so no sales tax is charged.'
   }
   if (now.taxCents === quoted.taxCents && now.taxState === quoted.taxState) return null
+  const then = quoted.taxState ?? 'earlier estimate'
   return `Sales tax worked out for the ship-to state (${now.taxState ?? 'unknown'}) instead of the quote's `
-    + `(${quoted.taxState ?? 'earlier estimate'}): ${formatCents(now.taxCents)} instead of ${formatCents(quoted.taxCents)}.`
+    + `(${then}): ${formatCents(now.taxCents)} instead of ${formatCents(quoted.taxCents)}.`
 }

@@ -60,6 +60,14 @@ describe('card checkout', () => {
     expect(declined.status).toBe(402)
     expect(declined.html).toContain('declined')
     expect((await t.client.get(`/api/orders/${r.body.orderId}`)).body.status).toBe('awaiting payment')
+    // Leaving the payment page returns to the order, whose "Pay now" opens the same page again.
+    expect(declined.pageHtml).toContain(`/orders/${r.body.orderId}?card=cancelled`)
+    expect(order.payUrl).toBe(r.body.url)
+    expect(declined.pageHtml).toContain('Local payment simulator')
+    // Its type is the app's own Nunito, served with the page.
+    const font = await fetch(new URL('/fake-pay/fonts/nunito-800.woff2', r.body.url))
+    expect([font.status, font.headers.get('content-type')]).toEqual([200, 'font/woff2'])
+    expect((await fetch(new URL('/fake-pay/fonts/nunito-100.woff2', r.body.url))).status).toBe(404)
 
     const paid = await payOnPage(r.body.url, APPROVE)
     expect(paid.status).toBe(303)

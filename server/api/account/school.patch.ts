@@ -9,7 +9,7 @@ export default defineEventHandler(async (event) => {
   const input = await readBodyAs(event, schoolAddressSchema)
   if (!user.schoolId) throw notFound('Your school')
   const school = await useDb().transaction(async (tx) => {
-    await tx.update(schools).set({ ...input, addressLine2: input.addressLine2 }).where(eq(schools.id, user.schoolId!))
+    await tx.update(schools).set(input).where(eq(schools.id, user.schoolId!))
     await audit(tx, { actorId: user.id, action: 'school.address-changed', subjectType: 'school', subjectId: user.schoolId! })
     return loadSchool(tx, user.schoolId!)
   })

@@ -25,7 +25,8 @@ export default defineEventHandler(async (event): Promise<PricedCart> => {
     ...rest,
     lines: priced.lines.map((l) => {
       const c = byId.get(l.productId)!
-      return { ...l, tierLabel: l.tierLabel!, slug: c.row.slug, image: c.row.image, available: c.available, short: c.available < l.quantity }
+      const stock = { available: c.available, short: c.available < l.quantity }
+      return { ...l, tierLabel: l.tierLabel!, slug: c.row.slug, image: c.row.image, ...stock }
     }),
     signedIn: !!user,
   }

@@ -10,7 +10,8 @@ import { orderPlacedMail } from '../../emails/shop'
 
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'teacher')
-  const input = await readBodyAs(event, checkoutSourceSchema.and(z.object({ addresses: checkoutAddressesSchema.optional() })))
+  const body = checkoutSourceSchema.and(z.object({ addresses: checkoutAddressesSchema.optional() }))
+  const input = await readBodyAs(event, body)
   if (!user.schoolId) throw forbidden('Your account has no school to order for.')
   const placed = await transactionWithRetry(async (tx) => {
     const src = await resolveCheckout(tx, user, input)

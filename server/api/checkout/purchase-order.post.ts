@@ -13,7 +13,8 @@ const text = (parts: MultiPartData[], name: string) => {
   const p = parts.find((x) => x.name === name && !x.filename)
   return p ? p.data.toString('utf8') : undefined
 }
-const prefixed = (prefix: string, f: Record<string, string>) => Object.fromEntries(Object.entries(f).map(([k, v]) => [`${prefix}.${k}`, v]))
+const prefixed = (prefix: string, f: Record<string, string>) =>
+  Object.fromEntries(Object.entries(f).map(([k, v]) => [`${prefix}.${k}`, v]))
 const file = (parts: MultiPartData[], name: string) => parts.find((x) => x.name === name && x.filename !== undefined)
 
 export default defineEventHandler(async (event) => {

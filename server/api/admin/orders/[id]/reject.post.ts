@@ -15,7 +15,8 @@ export default defineEventHandler(async (event) => {
     await cancelOrderIn(tx, order, admin, `Rejected: ${input.reason.replace(/[.!]+$/, '')}.`)
     const { buyer, po } = await orderPeople(tx, order)
     const back = (await wayBackForOrder(tx, order, { status: 'rejected' }))!
-    const mail = poRejectedMail(buyer.name, { number: order.number!, poNumber: po!.poNumber, reason: input.reason }, appUrl(`/orders/${order.id}`), { label: back.label, url: appUrl(back.url) })
+    const what = { number: order.number!, poNumber: po!.poNumber, reason: input.reason }
+    const mail = poRejectedMail(buyer.name, what, appUrl(`/orders/${order.id}`), { label: back.label, url: appUrl(back.url) })
     await enqueueMail(tx, 'po-rejected', buyer.email, mail)
     await audit(tx, { actorId: admin.id, action: 'order.po-rejected', subjectType: 'order', subjectId: order.id })
     return order.id
