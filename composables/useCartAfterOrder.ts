@@ -9,3 +9,11 @@ export function emptyCartIfItWasThisQuote(cart: ReturnType<typeof useCartStore>,
   cart.restore()
   if (cart.holds(quoteLines)) cart.clear()
 }
+
+/** A card order keeps the cart until it is paid (leaving the payment page must not lose it);
+ *  once paid, a cart holding exactly the order's lines has done its work and is emptied. */
+export function emptyCartOncePaid(
+  cart: ReturnType<typeof useCartStore>, order: { paidAt: string | null; lines: readonly Pick<DocLine, 'productId' | 'quantity'>[] },
+) {
+  if (order.paidAt) emptyCartIfItWasThisQuote(cart, order.lines)
+}

@@ -6,7 +6,8 @@ import { lineQuantityProblem } from '~~/shared/schemas/shop'
 
 interface LineInfo { name: string; slug: string; image: string }
 
-export function useCartPrice() {
+/** `shipToState`, when given, prices the tax for that destination (checkout's ship-to). */
+export function useCartPrice(shipToState?: Ref<string | null | undefined>) {
   const cart = useCartStore()
   const api = useApi()
   const priced = ref<PricedCart | null>(null)
@@ -22,7 +23,9 @@ export function useCartPrice() {
     pending.value = true
     try {
       const sent = cart.validLines
-      const r = sent.length ? await api<PricedCart>('/api/cart/price', { method: 'POST', body: { lines: sent } }) : null
+      const r = sent.length ? await api<PricedCart>('/api/cart/price', {
+        method: 'POST', body: { lines: sent, ...(shipToState?.value ? { shipToState: shipToState.value } : {}) },
+      }) : null
       if (cart.lines.some((l) => !info.value[l.productId] && !r?.lines.some((p) => p.productId === l.productId))) {
         const all = await api<{ data: (LineInfo & { id: number })[] }>('/api/products')
         for (const p of all.data) info.value[p.id] = { name: p.name, slug: p.slug, image: p.image }
@@ -49,6 +52,7 @@ export function useCartPrice() {
   onMounted(() => {
     cart.restore()
     watch(() => cart.lines, refresh, { deep: true, immediate: true })
+    if (shipToState) watch(shipToState, refresh)
   })
   return { priced, pending, error, refresh, rows, problems, orderable }
 }

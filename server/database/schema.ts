@@ -4,8 +4,9 @@
 import { sql } from 'drizzle-orm'
 import { ORDER_STATUSES, PAYMENT_METHODS } from '../../shared/utils/order-flow'
 import {
-  bigint, boolean, datetime, index, int, json, mysqlEnum, mysqlTable, text, uniqueIndex, varchar,
+  bigint, boolean, datetime, decimal, index, int, json, mysqlEnum, mysqlTable, text, uniqueIndex, varchar,
 } from 'drizzle-orm/mysql-core'
+import type { PostalAddress } from '../../shared/schemas/address'
 
 const id = () => bigint('id', { mode: 'number', unsigned: true }).autoincrement().primaryKey()
 const ref = (name: string) => bigint(name, { mode: 'number', unsigned: true })
@@ -146,6 +147,15 @@ export const batches = mysqlTable('batches', {
   createdAt: createdAt(),
 }, (t) => [uniqueIndex('batches_code_unique').on(t.code), index('batches_product_idx').on(t.productId, t.builtOn)])
 
+/** The tax a quote or order was made with, kept so no document re-reads today's rates: the
+ *  ship-to state and its base rate in basis points (halves occur: 687.5). Rows made before the
+ *  rate followed the destination have no state and were charged the old flat 7.25 %. */
+const taxColumns = () => ({
+  taxRateBasisPoints: decimal('tax_rate_bp', { precision: 7, scale: 1, mode: 'number' }).notNull().default(725),
+  taxState: varchar('tax_state', { length: 2 }),
+  taxExempt: boolean('tax_exempt').notNull(),
+})
+
 export const quotes = mysqlTable('quotes', {
   id: id(),
   number: varchar('number', { length: 20 }),
@@ -155,8 +165,7 @@ export const quotes = mysqlTable('quotes', {
   shippingCents: int('shipping_cents').notNull(),
   taxCents: int('tax_cents').notNull(),
   totalCents: int('total_cents').notNull(),
-  taxRateBasisPoints: int('tax_rate_bp').notNull(),
-  taxExempt: boolean('tax_exempt').notNull(),
+  ...taxColumns(),
   validUntil: datetime('valid_until', { mode: 'date', fsp: 3 }).notNull(),
   orderId: ref('order_id'),
   createdAt: createdAt(),
@@ -171,6 +180,8 @@ const pricedLineColumns = () => ({
   tierMinQuantity: int('tier_min_quantity').notNull(),
   unitPriceCents: int('unit_price_cents').notNull(),
   lineTotalCents: int('line_total_cents').notNull(),
+  /** The tier's range in the shop's words when it was priced ("10+"); null on older rows. */
+  tierLabel: varchar('tier_label', { length: 30 }),
 })
 
 export const quoteLines = mysqlTable('quote_lines', {
@@ -191,7 +202,12 @@ export const orders = mysqlTable('orders', {
   shippingCents: int('shipping_cents').notNull(),
   taxCents: int('tax_cents').notNull(),
   totalCents: int('total_cents').notNull(),
-  taxExempt: boolean('tax_exempt').notNull(),
+  ...taxColumns(),
+  /** Where it ships and whom it bills, as set at checkout (null on orders placed before
+   *  checkout asked: the school's address then stood for both). */
+  shipTo: json('ship_to').$type<PostalAddress>(),
+  billTo: json('bill_to').$type<PostalAddress>(),
+  deliveryNote: varchar('delivery_note', { length: 200 }),
   /** The payment provider's objects for this order (customer, checkout session, invoice). */
   providerCustomerId: varchar('provider_customer_id', { length: 80 }),
   checkoutSessionId: varchar('checkout_session_id', { length: 80 }),

@@ -4,6 +4,7 @@ import { readFileSync } from 'node:fs'
 import { join } from 'node:path'
 import PDFDocument from 'pdfkit'
 import { formatCents } from '../../shared/utils/pricing'
+import { VENDOR } from '../../shared/utils/vendor'
 
 export interface DocLineSpec { description: string; quantity: number; note?: string; unitCents?: number; totalCents?: number }
 
@@ -11,11 +12,13 @@ export interface DocSpec {
   title: string
   number: string
   meta: [string, string][]
-  partyLabel: string
-  party: string[]
+  /** Address blocks on the left (e.g. Bill to, Ship to), stacked. */
+  parties: { label: string; lines: string[] }[]
   lines: DocLineSpec[]
   showPrices: boolean
   totals?: { label: string; cents: number; strong?: boolean }[]
+  /** Headed blocks after the totals (e.g. How to pay). */
+  blocks?: { heading: string; lines: string[] }[]
   notes: string[]
   stamp?: string
 }
@@ -58,15 +61,20 @@ export function renderDocument(spec: DocSpec): Promise<Buffer> {
   const width = right - left
 
   doc.font('heavy').fontSize(22).fillColor(COLORS.beam).text('Tiltwright', left, 50)
-  doc.font('regular').fontSize(9).fillColor(COLORS.faint).text('Balancing-rig kits for classrooms · 12 Lathe Row, Unit 4, Kessler Ford, OR 97998 · orders@tiltwright.test', left, 76)
+  doc.font('regular').fontSize(9).fillColor(COLORS.faint)
+    .text(`${VENDOR.tagline} · ${VENDOR.address} · ${VENDOR.email}`, left, 76)
   doc.font('heavy').fontSize(18).fillColor(COLORS.ink).text(`${spec.title} ${spec.number}`, left, 50, { width, align: 'right' })
   let y = 104
   doc.moveTo(left, y).lineTo(right, y).lineWidth(1.5).strokeColor(COLORS.brass).stroke()
   y += 14
 
-  doc.font('bold').fontSize(10).fillColor(COLORS.faint).text(spec.partyLabel.toUpperCase(), left, y)
-  doc.font('regular').fontSize(11).fillColor(COLORS.ink).text(spec.party.join('\n'), left, y + 14, { width: width / 2 - 10 })
-  const partyBottom = doc.y
+  let partyBottom = y
+  for (const p of spec.parties) {
+    doc.font('bold').fontSize(10).fillColor(COLORS.faint).text(p.label.toUpperCase(), left, partyBottom)
+    doc.font('regular').fontSize(10.5).fillColor(COLORS.ink)
+      .text(p.lines.join('\n'), left, partyBottom + 14, { width: width / 2 - 10 })
+    partyBottom = doc.y + 10
+  }
   let my = y
   for (const [k, v] of spec.meta) {
     doc.font('bold').fontSize(10).fillColor(COLORS.faint).text(k, left + width / 2, my, { width: 110 })
@@ -97,6 +105,7 @@ export function renderDocument(spec: DocSpec): Promise<Buffer> {
     doc.moveTo(left, y - 3).lineTo(right, y - 3).lineWidth(0.5).strokeColor(COLORS.rule).stroke()
   }
   y += 6
+  const totalsTop = y
   for (const t of spec.totals ?? []) {
     doc.font(t.strong ? 'heavy' : 'regular').fontSize(t.strong ? 12 : 10).fillColor(COLORS.ink)
     // A long label (e.g. the tax-exemption note) may wrap: the next row starts below the taller cell.
@@ -108,12 +117,28 @@ export function renderDocument(spec: DocSpec): Promise<Buffer> {
     y += height + 4
   }
   if (spec.stamp) {
-    doc.save().rotate(-12, { origin: [right - 90, 150] })
-    doc.font('heavy').fontSize(30).fillColor(COLORS.go).opacity(0.75).text(spec.stamp, right - 190, 135, { width: 200, align: 'center' })
+    // Beside the totals, on the empty left of their rows: nothing else is printed there.
+    doc.save().rotate(-12, { origin: [left + 80, totalsTop + 24] })
+    doc.font('heavy').fontSize(30).fillColor(COLORS.go).opacity(0.75)
+      .text(spec.stamp, left, totalsTop + 6, { width: 160, align: 'center' })
     doc.restore().opacity(1)
   }
   y += 16
+  // A block or note that would cross the bottom margin starts a new page (never a lone line).
+  const bottom = doc.page.height - doc.page.margins.bottom
+  for (const b of spec.blocks ?? []) {
+    if (y + 14 + doc.heightOfString(b.lines.join('\n'), { width: width - 6 }) > bottom) { doc.addPage(); y = 60 }
+    doc.font('bold').fontSize(10.5).fillColor(COLORS.beam).text(b.heading, left, y, { width })
+    y = doc.y + 3
+    for (const l of b.lines) {
+      doc.font('regular').fontSize(9.5).fillColor(COLORS.ink).text(`•  ${l}`, left + 6, y, { width: width - 6 })
+      y = doc.y + 3
+    }
+    y += 8
+  }
   for (const n of spec.notes) {
+    doc.font('regular').fontSize(9.5)
+    if (y + doc.heightOfString(n, { width }) > bottom) { doc.addPage(); y = 60 }
     doc.font('regular').fontSize(9.5).fillColor(COLORS.faint).text(n, left, y, { width })
     y = doc.y + 6
   }

@@ -1,40 +1,51 @@
-// The shop's documents, built from the rows they describe. Prices come from the stored lines
-// (what was quoted or ordered), never from today's catalog.
+// The shop's documents, built from the rows they describe. Prices, tier wording, tax rate and
+// addresses come from what was quoted or ordered, never from today's catalog or settings.
 import type { schools } from '../database/schema'
-import { formatCents, INVOICE_NET_DAYS, type Totals } from '../../shared/utils/pricing'
+import { formatCents, INVOICE_NET_DAYS, lineTierWording, type Totals } from '../../shared/utils/pricing'
+import { taxLineLabel, taxNotes } from '../../shared/utils/tax'
+import { addressLines, type PostalAddress } from '../../shared/schemas/address'
+import { remittanceLines, VENDOR } from '../../shared/utils/vendor'
+import { schoolPostalAddress } from '../utils/destination'
 import { renderDocument, toDate, type DocLineSpec } from './pdf'
 
 type School = typeof schools.$inferSelect
-interface Line { name: string; quantity: number; tierMinQuantity: number; unitPriceCents: number; lineTotalCents: number }
-type Money = Pick<Totals, 'subtotalCents' | 'shippingCents' | 'taxCents' | 'totalCents' | 'taxExempt' | 'taxRateBasisPoints'>
+interface Line { name: string; quantity: number; tierMinQuantity: number; unitPriceCents: number; lineTotalCents: number; tierLabel?: string | null }
+type Money = Pick<Totals, 'subtotalCents' | 'shippingCents' | 'taxCents' | 'totalCents' | 'taxExempt' | 'taxRateBasisPoints' | 'taxState'>
+/** An order's money with the addresses it was placed with (none on orders placed before checkout asked). */
+type OrderMoney = Money & { shipTo?: PostalAddress | null; billTo?: PostalAddress | null; deliveryNote?: string | null }
 
-export function schoolLines(s: School, attention?: string): string[] {
-  return [s.name, s.district, attention ? `Attn: ${attention}` : null, s.addressLine1, s.addressLine2, `${s.city}, ${s.region} ${s.postalCode}`, s.country === 'US' ? null : s.country]
-    .filter((x): x is string => !!x)
+const withAttention = (a: PostalAddress, attention?: string) => addressLines(attention && !a.attention ? { ...a, attention } : a)
+
+function shipToLines(order: Pick<OrderMoney, 'shipTo' | 'deliveryNote'>, school: School, attention?: string) {
+  const note = order.deliveryNote ? [`Delivery note: ${order.deliveryNote}`] : []
+  return [...withAttention(order.shipTo ?? schoolPostalAddress(school), attention), ...note]
 }
+
+const billTo = (order: OrderMoney, school: School) => order.billTo ?? schoolPostalAddress(school)
 
 const pricedLines = (lines: Line[]): DocLineSpec[] => lines.map((l) => ({
   description: l.name, quantity: l.quantity, unitCents: l.unitPriceCents, totalCents: l.lineTotalCents,
-  note: `Classroom tier: ${l.tierMinQuantity}+ units`,
+  note: `Classroom ${lineTierWording(l)}`,
 }))
 
 function totals(m: Money) {
-  const rate = `${(m.taxRateBasisPoints / 100).toFixed(2)}%`
   return [
     { label: 'Subtotal', cents: m.subtotalCents },
     { label: m.shippingCents ? 'Shipping' : 'Shipping (free freight)', cents: m.shippingCents },
-    { label: m.taxExempt ? 'Sales tax (exempt, certificate on file)' : `Sales tax (${rate})`, cents: m.taxCents },
+    { label: taxLineLabel(m), cents: m.taxCents },
     { label: 'Total (USD)', cents: m.totalCents, strong: true },
   ]
 }
 
 export function quotePdf(q: Money & { number: string; createdAt: Date; validUntil: Date }, lines: Line[], school: School, preparedFor: string) {
   return renderDocument({
-    title: 'Quote', number: q.number, partyLabel: 'Quote for', party: schoolLines(school, preparedFor),
-    meta: [['Quote date', toDate(q.createdAt)], ['Valid until', toDate(q.validUntil)], ['Currency', 'US dollars'], ['Payment terms', `Card, or purchase order on net ${INVOICE_NET_DAYS} invoice`]],
+    title: 'Quote', number: q.number,
+    parties: [{ label: 'Quote for', lines: withAttention(schoolPostalAddress(school), preparedFor) }],
+    meta: [['Quote date', toDate(q.createdAt)], ['Valid until', toDate(q.validUntil)], ['Currency', 'US dollars'], ['Payment terms', `Card, or purchase order on net ${INVOICE_NET_DAYS} invoice`], ['Our tax id', VENDOR.taxId]],
     lines: pricedLines(lines), showPrices: true, totals: totals(q),
     notes: [
-      `This quote is valid until ${toDate(q.validUntil)}. Prices, classroom tiers, shipping and tax are fixed at the amounts above while it is valid; an order placed from it is charged exactly these amounts.`,
+      `This quote is valid until ${toDate(q.validUntil)}. Prices, classroom tiers and shipping are fixed at the amounts above while it is valid; an order placed from it is charged exactly these amounts, with sales tax for the order's ship-to state (and none once the school's exemption is accepted).`,
+      ...taxNotes(q),
       `To order, pay by card online, or send a purchase order quoting ${q.number}; we invoice on net ${INVOICE_NET_DAYS} terms once the purchase order is approved.`,
       'Stock is reserved when the order is placed, not when the quote is issued.',
       'Small steel balls are a choking hazard for young children. Follow your school\'s own safety rules when the rigs are built and powered.',
@@ -44,36 +55,52 @@ export function quotePdf(q: Money & { number: string; createdAt: Date; validUnti
 
 export interface InvoiceInfo { number: string; dueAt: Date | null; poNumber: string; orderNumber: string; issuedAt: Date; payUrl: string | null }
 
-export function invoicePdf(inv: InvoiceInfo, money: Money, lines: Line[], school: School, apEmail: string, paid?: { at: Date; reference: string | null }) {
+export function invoicePdf(inv: InvoiceInfo, money: OrderMoney, lines: Line[], school: School, apEmail: string, paid?: { at: Date; reference: string | null }) {
   return renderDocument({
-    title: paid ? 'Receipt' : 'Invoice', number: inv.number, partyLabel: 'Bill to', party: [...schoolLines(school), `Accounts payable: ${apEmail}`],
+    title: paid ? 'Receipt' : 'Invoice', number: inv.number,
+    parties: [
+      { label: 'Bill to', lines: [...addressLines(billTo(money, school)), `Accounts payable: ${apEmail}`] },
+      { label: 'Ship to', lines: shipToLines(money, school) },
+    ],
     meta: [
       ['Invoice date', toDate(inv.issuedAt)], ['Order', inv.orderNumber], ['Purchase order', inv.poNumber],
       ['Terms', `Net ${INVOICE_NET_DAYS}`], ['Due date', inv.dueAt ? toDate(inv.dueAt) : '—'],
+      ['Our tax id', VENDOR.taxId],
       ...(paid ? [['Paid', `${toDate(paid.at)}${paid.reference ? ` (${paid.reference})` : ''}`] as [string, string]] : []),
     ],
     lines: pricedLines(lines), showPrices: true, totals: totals(money), stamp: paid ? 'PAID' : undefined,
-    notes: paid
-      ? [`Received with thanks: ${formatCents(money.totalCents)}. Keep this receipt with purchase order ${inv.poNumber}.`]
-      : [
-          `Please pay ${formatCents(money.totalCents)} by ${inv.dueAt ? toDate(inv.dueAt) : 'the due date'}, quoting invoice ${inv.number} and purchase order ${inv.poNumber}.`,
-          inv.payUrl ? `Pay online: ${inv.payUrl}` : 'Pay by bank transfer or cheque to Tiltwright.',
-        ],
+    blocks: paid ? [] : [
+      { heading: 'Remit to', lines: [VENDOR.remitTo.join(', ')] },
+      { heading: `How to pay ${formatCents(money.totalCents)} by ${inv.dueAt ? toDate(inv.dueAt) : 'the due date'}`, lines: remittanceLines({ invoice: inv.number, po: inv.poNumber, payUrl: inv.payUrl }) },
+    ],
+    notes: [
+      ...(paid ? [`Received with thanks: ${formatCents(money.totalCents)}. Keep this receipt with purchase order ${inv.poNumber}.`] : []),
+      ...taxNotes(money),
+      'The bank details and tax id above are invented for this demonstration.',
+    ],
   })
 }
 
-export function cardReceiptPdf(order: Money & { number: string; paidAt: Date }, lines: Line[], school: School, buyer: string) {
+export function cardReceiptPdf(order: OrderMoney & { number: string; paidAt: Date }, lines: Line[], school: School, buyer: string) {
   return renderDocument({
-    title: 'Receipt', number: order.number, partyLabel: 'Sold to', party: schoolLines(school, buyer),
-    meta: [['Paid', toDate(order.paidAt)], ['Method', 'Card, online'], ['Order', order.number]],
+    title: 'Receipt', number: order.number,
+    parties: [
+      { label: 'Sold to', lines: withAttention(billTo(order, school), buyer) },
+      { label: 'Ship to', lines: shipToLines(order, school) },
+    ],
+    meta: [['Paid', toDate(order.paidAt)], ['Method', 'Card, online'], ['Order', order.number], ['Our tax id', VENDOR.taxId]],
     lines: pricedLines(lines), showPrices: true, totals: totals(order), stamp: 'PAID',
-    notes: [`Received with thanks: ${formatCents(order.totalCents)}.`],
+    notes: [`Received with thanks: ${formatCents(order.totalCents)}.`, ...taxNotes(order)],
   })
 }
 
-export function packingListPdf(order: { number: string }, items: { name: string; quantity: number; batchCode: string }[], school: School, buyer: string, shipment?: { carrier: string; tracking: string }) {
+export function packingListPdf(
+  order: { number: string; shipTo?: PostalAddress | null; deliveryNote?: string | null },
+  items: { name: string; quantity: number; batchCode: string }[], school: School, buyer: string, shipment?: { carrier: string; tracking: string },
+) {
   return renderDocument({
-    title: 'Packing list', number: order.number, partyLabel: 'Ship to', party: schoolLines(school, buyer),
+    title: 'Packing list', number: order.number,
+    parties: [{ label: 'Ship to', lines: shipToLines(order, school, buyer) }],
     meta: [['Packed', toDate(new Date())], ...(shipment ? [['Carrier', shipment.carrier], ['Tracking', shipment.tracking]] as [string, string][] : [])],
     lines: items.map((i) => ({ description: i.name, quantity: i.quantity, note: `Production batch ${i.batchCode}` })), showPrices: false,
     notes: [

@@ -36,11 +36,18 @@ export function poApprovedMail(name: string, o: { number: string; poNumber: stri
   ])
 }
 
-export function poRejectedMail(name: string, o: { number: string; poNumber: string; reason: string }, url: string) {
+/** `wayBack` is the one way to order the same again (shared/utils/resubmit.ts), as a full URL. */
+export function poRejectedMail(
+  name: string, o: { number: string; poNumber: string; reason: string }, url: string, wayBack: { label: string; url: string },
+) {
   return renderMail(`Purchase order ${o.poNumber} could not be accepted`, hello(name), [
     { paragraph: `We could not accept purchase order ${o.poNumber} for order ${o.number}. The reason given: ${o.reason}` },
-    { paragraph: 'The order is cancelled and its stock released. You can place a new order with a corrected purchase order at any time.' },
-    { link: { label: 'See the order', url } },
+    {
+      paragraph: 'The order is cancelled and its stock released. To order the same items, send a corrected purchase order '
+        + 'from the link below: it opens the purchase-order checkout with the same lines.',
+    },
+    { link: wayBack },
+    { link: { label: 'See the refused order', url } },
   ])
 }
 

@@ -1,7 +1,7 @@
 // Jobs that talk to the payment provider. Each call carries an idempotency key derived from
 // the order (server/services/payments.ts), so a retry never creates a second object; each
 // records its outcome through a step of the order engine (server/utils/order-steps.ts).
-import { and, asc, eq, isNull, lt } from 'drizzle-orm'
+import { and, asc, eq, inArray, isNull, lt } from 'drizzle-orm'
 import { jobs, orders } from '../database/schema'
 import {
   checkoutStatus, createCardCheckout, createNetInvoice, expireCheckout, markInvoicePaidOutOfBand, refundPayment,
@@ -113,8 +113,11 @@ export const sweepCardHoldsJob: JobDefinition<Record<string, never>> = {
         console.error(`[card holds] order ${id}:`, e instanceof Error ? e.message : e)
       }
     }
-    // Finished jobs are kept a month for looking back, then cleared.
-    await useDb().delete(jobs).where(and(eq(jobs.state, 'done'), lt(jobs.doneAt, new Date(Date.now() - 30 * 86_400_000))))
+    // Finished jobs are kept a month for looking back, then cleared. Deleted by id after a plain
+    // read: a locking scan of the table would wait on this job's own row, held by its runner.
+    const old = await useDb().select({ id: jobs.id }).from(jobs)
+      .where(and(eq(jobs.state, 'done'), lt(jobs.doneAt, new Date(Date.now() - 30 * 86_400_000)))).limit(500)
+    if (old.length) await useDb().delete(jobs).where(inArray(jobs.id, old.map((j) => j.id)))
     return { again: Number(cfg.cardHoldSweepMs) || 600_000 }
   },
 }

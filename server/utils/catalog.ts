@@ -1,8 +1,8 @@
 // Catalog queries that the product, cart, quote and checkout routes share.
 import { and, asc, eq, inArray, sql } from 'drizzle-orm'
-import { batches, priceTiers, products, schools } from '../database/schema'
+import { batches, priceTiers, products } from '../database/schema'
 import type { BatchView, ProductView } from '../../shared/types/shop'
-import { priceCart, tierRangeLabel, type PriceTier } from '../../shared/utils/pricing'
+import { priceCart, tierRangeLabel, type PriceTier, type TaxBasis } from '../../shared/utils/pricing'
 import { unitsLeft } from '../../shared/utils/shop-rules'
 import type { CartLine } from '../../shared/schemas/shop'
 
@@ -40,38 +40,31 @@ export function productView(e: CatalogEntry): ProductView {
   }
 }
 
-export async function schoolTaxExempt(db: DbOrTx, schoolId: number | null): Promise<boolean> {
-  if (!schoolId) return false
-  const [s] = await db.select({ taxExemption: schools.taxExemption }).from(schools).where(eq(schools.id, schoolId)).limit(1)
-  return s?.taxExemption === 'accepted'
-}
-
-/** Prices cart lines from the catalog as it is now. Unknown or withdrawn products come back in `missing`. */
-export async function priceLines(db: DbOrTx, lines: CartLine[], schoolId: number | null) {
+/** Prices cart lines from the catalog as it is now, taxed on `tax` (schoolTaxBasis). Unknown or
+ *  withdrawn products come back in `missing`. */
+export async function priceLines(db: DbOrTx, lines: CartLine[], tax: TaxBasis) {
   const catalog = await loadCatalog(db, { activeOnly: true, ids: lines.map((l) => l.productId) })
   const byId = new Map(catalog.map((c) => [c.row.id, c]))
   const known = lines.filter((l) => byId.has(l.productId) && byId.get(l.productId)!.tiers.length)
   const missing = lines.filter((l) => !known.includes(l)).map((l) => l.productId)
-  const exempt = await schoolTaxExempt(db, schoolId)
   const priced = priceCart(known.map((l) => {
     const c = byId.get(l.productId)!
     return { productId: l.productId, name: c.row.name, quantity: l.quantity, tiers: c.tiers, weightGrams: c.row.weightGrams }
-  }), { exempt, rateBasisPoints: taxRate() })
+  }), tax)
   return { ...priced, missing, byId }
 }
 
-export function taxRate(): number {
-  return Number(useRuntimeConfig().taxRateBasisPoints)
-}
-
-/** Stored quote and order lines with their tier's range in the kit page's words ("1–4"), from
- *  the product's tiers as they stand; a tier no longer in the catalog reads "12+". */
-export async function withTierLabels<L extends { productId: number; tierMinQuantity: number }>(db: DbOrTx, lines: L[]): Promise<(L & { tierLabel: string })[]> {
+/** Stored quote and order lines with their tier's range in the kit page's words ("1–4"): the
+ *  label kept with the line; for lines stored before labels were kept, from the product's tiers
+ *  as they stand (a tier no longer in the catalog reads "12+"). */
+type Labelled = { productId: number; tierMinQuantity: number; tierLabel?: string | null }
+export async function withTierLabels<L extends Labelled>(db: DbOrTx, lines: L[]): Promise<(L & { tierLabel: string })[]> {
+  if (lines.every((l) => l.tierLabel)) return lines.map((l) => ({ ...l, tierLabel: l.tierLabel! }))
   const ids = [...new Set(lines.map((l) => l.productId))]
   const rows = ids.length ? await db.select().from(priceTiers).where(inArray(priceTiers.productId, ids)) : []
   return lines.map((l) => {
     const tiers = rows.filter((t) => t.productId === l.productId)
     const tier = tiers.find((t) => t.minQuantity === l.tierMinQuantity)
-    return { ...l, tierLabel: tier ? tierRangeLabel(tiers, tier) : `${l.tierMinQuantity}+` }
+    return { ...l, tierLabel: l.tierLabel || (tier ? tierRangeLabel(tiers, tier) : `${l.tierMinQuantity}+`) }
   })
 }

@@ -12,7 +12,6 @@ export type OrderDocumentKind = (typeof ORDER_DOCUMENT_KINDS)[number]
 export async function renderOrderDocument(db: DbOrTx, order: OrderRow, kind: OrderDocumentKind) {
   const { school, buyer, po } = await orderPeople(db, order)
   const lines = await linesOf(db, order.id)
-  const money = { ...order, taxRateBasisPoints: Number(useRuntimeConfig().taxRateBasisPoints) }
   const onInvoice = kind === 'invoice' || (kind === 'receipt' && order.paymentMethod === 'purchase-order')
   if (onInvoice && order.invoiceId && po) {
     if (kind === 'receipt' && !order.paidAt) return null
@@ -22,11 +21,11 @@ export async function renderOrderDocument(db: DbOrTx, order: OrderRow, kind: Ord
       payUrl: order.invoiceVoidedAt ? null : order.invoiceUrl,
     }
     const paid = kind === 'receipt' ? { at: order.paidAt!, reference: order.paymentReference } : undefined
-    const pdf = await invoicePdf(info, money, lines, school, po.apEmail, paid)
+    const pdf = await invoicePdf(info, order, lines, school, po.apEmail, paid)
     return { filename: `Tiltwright-${kind}-${info.number}.pdf`, pdf }
   }
   if (kind === 'receipt' && order.paidAt) {
-    const pdf = await cardReceiptPdf({ ...money, number: order.number!, paidAt: order.paidAt }, lines, school, buyer.name)
+    const pdf = await cardReceiptPdf({ ...order, number: order.number!, paidAt: order.paidAt }, lines, school, buyer.name)
     return { filename: `Tiltwright-receipt-${order.number}.pdf`, pdf }
   }
   if (kind === 'packing-list') {
@@ -38,7 +37,7 @@ export async function renderOrderDocument(db: DbOrTx, order: OrderRow, kind: Ord
       .orderBy(desc(shipments.shippedAt)).limit(1)
     const names = new Map(lines.map((l) => [l.productId, l.name]))
     const items = held.map((h) => ({ name: names.get(h.productId) ?? '', quantity: h.quantity, batchCode: h.code }))
-    const pdf = await packingListPdf(order as { number: string }, items, school, buyer.name, shipment)
+    const pdf = await packingListPdf({ ...order, number: order.number! }, items, school, buyer.name, shipment)
     return { filename: `Tiltwright-packing-list-${order.number}.pdf`, pdf }
   }
   return null

@@ -14,6 +14,7 @@ import { formatCents, INVOICE_NET_DAYS } from '../../shared/utils/pricing'
 import { formatDay } from '../../shared/utils/dates'
 import type { SessionUser } from '../../shared/utils/roles'
 import type { CartLine } from '../../shared/schemas/shop'
+import type { CheckoutAddresses } from '../../shared/schemas/address'
 import {
   invoiceIssuedMail, invoiceVoidedMail, orderCancelledMail, orderPlacedMail, paymentReceivedMail, paymentRefundedMail, poApprovedMail,
   poRejectedMail, poReviewMail, shippedMail,
@@ -70,6 +71,9 @@ export async function lockOrder(tx: Tx, orderId: number) {
 
 const orderUrl = (id: number) => appUrl(`/orders/${id}`)
 
+/** What a checkout names: a quote or the cart's lines, and where to ship and bill. */
+export type CheckoutInput = { quoteId?: number; lines?: CartLine[]; addresses?: CheckoutAddresses | null }
+
 // ── Placing ────────────────────────────────────────────────────────────────────────────────
 
 /** Ordering needs a confirmed e-mail address (a quote does not). */
@@ -103,6 +107,8 @@ async function insertOrder(tx: Tx, user: SessionUser, method: PaymentMethod, src
     schoolId: user.schoolId!, placedById: user.id, quoteId: src.quoteId, paymentMethod: method, status: row.to,
     subtotalCents: src.totals.subtotalCents, shippingCents: src.totals.shippingCents, taxCents: src.totals.taxCents,
     totalCents: src.totals.totalCents, taxExempt: src.totals.taxExempt,
+    taxRateBasisPoints: src.totals.taxRateBasisPoints, taxState: src.totals.taxState,
+    shipTo: src.addresses.shipTo, billTo: src.addresses.billTo, deliveryNote: src.addresses.deliveryNote,
   }).$returningId()
   const id = ins!.id
   const number = orderNumberFor(id)
@@ -113,15 +119,15 @@ async function insertOrder(tx: Tx, user: SessionUser, method: PaymentMethod, src
     const [res] = await tx.update(quotes).set({ orderId: id }).where(and(eq(quotes.id, src.quoteId), isNull(quotes.orderId)))
     if (res.affectedRows !== 1) throw conflict('This quote has already been turned into an order.', 'quote-used')
   }
-  const fromQuote = src.quoteId ? ' From a quote, at the quoted prices.' : ''
-  await addOrderEvent(tx, id, ACTION_EVENT[action], flowWording(row, { actor: user.name }) + fromQuote, user.id)
+  const notes = [src.quoteId && 'From a quote, at the quoted prices.', src.taxNote].filter(Boolean).join(' ')
+  await addOrderEvent(tx, id, ACTION_EVENT[action], [flowWording(row, { actor: user.name }), notes].filter(Boolean).join(' '), user.id)
   return { id, number }
 }
 
 /** A card order: the order, its reserved stock and the job that opens its payment page, all
  *  in one transaction. The caller runs the job at once; if the provider fails, the job's
  *  give-up removes the order again, so a checkout ends with a payable order or with none. */
-export async function placeCardOrder(user: SessionUser, input: { quoteId?: number; lines?: CartLine[] }) {
+export async function placeCardOrder(user: SessionUser, input: CheckoutInput) {
   assertMayOrder(user)
   return transactionWithRetry(async (tx) => {
     await assertHoldRoom(tx, user.schoolId!)
@@ -168,7 +174,7 @@ export interface StoredUpload { kind: 'purchase-order' | 'tax-certificate'; key:
 
 /** A purchase order: the order, its reserved stock, the PO and its files, and mail to the
  *  teacher and to every admin who reviews it. */
-export async function placePurchaseOrder(user: SessionUser, input: { quoteId?: number; lines?: CartLine[] },
+export async function placePurchaseOrder(user: SessionUser, input: CheckoutInput,
   po: { poNumber: string; apEmail: string }, files: StoredUpload[]) {
   assertMayOrder(user)
   return transactionWithRetry(async (tx) => {
@@ -257,7 +263,9 @@ export async function rejectPurchaseOrder(admin: SessionUser, orderId: number, r
     await tx.update(purchaseOrders).set({ status: 'rejected', rejectReason: reason, reviewedById: admin.id, reviewedAt: new Date() })
       .where(eq(purchaseOrders.orderId, orderId))
     const { buyer, po } = await orderPeople(tx, order)
-    const mail = poRejectedMail(buyer.name, { number: order.number!, poNumber: po!.poNumber, reason }, orderUrl(orderId))
+    const back = (await wayBackForOrder(tx, order, { status: 'rejected' }))!
+    const what = { number: order.number!, poNumber: po!.poNumber, reason }
+    const mail = poRejectedMail(buyer.name, what, orderUrl(orderId), { label: back.label, url: appUrl(back.url) })
     await enqueueMail(tx, 'po-rejected', buyer.email, mail)
     await audit(tx, { actorId: admin.id, action: 'order.po-rejected', subjectType: 'order', subjectId: orderId })
   })

@@ -9,8 +9,10 @@ import type { OrderView, OrderDocument } from '../../shared/types/shop'
 import { canCancelOrder, canSeeOrder, canSeeOrderDocuments, isQuoteValid, unitsLeft } from '../../shared/utils/shop-rules'
 import { CLOSED_STATUSES, openActions } from '../../shared/utils/order-flow'
 import type { SessionUser } from '../../shared/utils/roles'
-import { type PricedLine, type Totals } from '../../shared/utils/pricing'
+import { lineTierWording, type PricedLine, type Totals } from '../../shared/utils/pricing'
+import { quoteTaxNote, retax, taxLineLabel } from '../../shared/utils/tax'
 import type { CartLine } from '../../shared/schemas/shop'
+import type { CheckoutAddresses } from '../../shared/schemas/address'
 
 export type OrderRow = typeof orders.$inferSelect
 
@@ -87,29 +89,42 @@ export async function releaseStock(tx: Tx, orderId: number) {
   return held.reduce((s, h) => s + h.quantity, 0)
 }
 
-export interface OrderSource { lines: PricedLine[]; totals: Totals; quoteId: number | null }
+export interface OrderSource {
+  lines: PricedLine[]; totals: Totals; quoteId: number | null
+  /** Where it ships and whom it bills (the school's address unless checkout gave others). */
+  addresses: CheckoutAddresses
+  /** Said on the timeline when a quote's tax changed for the order (exemption, destination). */
+  taxNote: string | null
+}
 
 /** The lines and money of a checkout: the quote's (locked, still valid, the caller's school)
- *  or the cart's priced from the catalog now. */
-export async function resolveCheckout(tx: Tx, user: SessionUser, input: { quoteId?: number; lines?: CartLine[] }): Promise<OrderSource> {
+ *  or the cart's priced from the catalog now. Tax follows the ship-to state and the school's
+ *  exemption as they are now, also for a quote (its lines and shipping stay as quoted). */
+export async function resolveCheckout(
+  tx: Tx, user: SessionUser, input: { quoteId?: number; lines?: CartLine[]; addresses?: CheckoutAddresses | null },
+): Promise<OrderSource> {
+  const school = await loadSchool(tx, user.schoolId!)
+  const addresses = checkoutAddressesFor(school, input.addresses)
+  const basis = schoolTaxBasis(school, addresses.shipTo.region)
   if (input.quoteId) {
     const [q] = await tx.select().from(quotes).where(eq(quotes.id, input.quoteId)).limit(1).for('update')
     if (!q || q.schoolId !== user.schoolId) throw notFound('That quote')
     if (!isQuoteValid(q)) throw conflict(q.orderId ? 'This quote has already been turned into an order.' : 'This quote has expired. Save the cart as a new quote.', q.orderId ? 'quote-used' : 'quote-expired')
     const lines = await tx.select().from(quoteLines).where(eq(quoteLines.quoteId, q.id)).orderBy(asc(quoteLines.id))
+    const totals = retax(q, basis)
     return {
-      quoteId: q.id,
-      lines: lines.map((l) => ({ productId: l.productId, name: l.name, quantity: l.quantity, tierMinQuantity: l.tierMinQuantity, unitPriceCents: l.unitPriceCents, lineTotalCents: l.lineTotalCents })),
-      totals: { subtotalCents: q.subtotalCents, shippingCents: q.shippingCents, taxCents: q.taxCents, totalCents: q.totalCents, taxExempt: q.taxExempt, taxRateBasisPoints: q.taxRateBasisPoints },
+      quoteId: q.id, addresses, taxNote: quoteTaxNote(q, totals),
+      lines: lines.map((l) => ({ productId: l.productId, name: l.name, quantity: l.quantity, tierMinQuantity: l.tierMinQuantity, unitPriceCents: l.unitPriceCents, lineTotalCents: l.lineTotalCents, tierLabel: l.tierLabel })),
+      totals,
     }
   }
-  const priced = await priceLines(tx, input.lines ?? [], user.schoolId)
+  const priced = await priceLines(tx, input.lines ?? [], basis)
   if (priced.missing.length) {
     const fields = Object.fromEntries((input.lines ?? []).map((l, i) => [l, i] as const).filter(([l]) => priced.missing.includes(l.productId)).map(([, i]) => [`lines.${i}.productId`, 'This product is no longer sold.']))
     throw invalid(fields, 'Some items in the cart are no longer sold.')
   }
   const { lines, missing: _m, byId: _b, ...totals } = priced
-  return { lines, totals, quoteId: null }
+  return { lines, totals, quoteId: null, addresses, taxNote: null }
 }
 
 export async function loadOrder(db: DbOrTx, id: number, lock = false): Promise<OrderRow | undefined> {
@@ -162,11 +177,12 @@ export async function orderView(db: DbOrTx, order: OrderRow, user: SessionUser):
   const facts = { status: order.status, paymentMethod: order.paymentMethod, allocated, paid: !!order.paidAt }
   return {
     id: order.id, number: order.number!, status: order.status, paymentMethod: order.paymentMethod,
-    subtotalCents: order.subtotalCents, shippingCents: order.shippingCents, taxCents: order.taxCents, totalCents: order.totalCents, taxExempt: order.taxExempt, taxRateBasisPoints: Number(useRuntimeConfig().taxRateBasisPoints),
+    subtotalCents: order.subtotalCents, shippingCents: order.shippingCents, taxCents: order.taxCents, totalCents: order.totalCents, taxExempt: order.taxExempt,
+    taxRateBasisPoints: order.taxRateBasisPoints, taxState: order.taxState, addresses: addressesOfOrder(order, people.school),
     createdAt: order.createdAt.toISOString(), paidAt: order.paidAt?.toISOString() ?? null,
     school: { id: people.school.id, name: people.school.name, district: people.school.district, taxExemption: people.school.taxExemption },
     placedBy: people.buyer, quoteId: order.quoteId,
-    lines: await withTierLabels(db, lines.map((l) => ({ productId: l.productId, name: l.name, quantity: l.quantity, tierMinQuantity: l.tierMinQuantity, unitPriceCents: l.unitPriceCents, lineTotalCents: l.lineTotalCents }))),
+    lines: await withTierLabels(db, lines.map((l) => ({ productId: l.productId, name: l.name, quantity: l.quantity, tierMinQuantity: l.tierMinQuantity, unitPriceCents: l.unitPriceCents, lineTotalCents: l.lineTotalCents, tierLabel: l.tierLabel }))),
     events: events.map((e) => ({ id: e.id, kind: e.kind, message: e.message, createdAt: e.createdAt.toISOString() })),
     shipments: ships.map((s) => ({ id: s.id, carrier: s.carrier, tracking: s.tracking, shippedAt: s.shippedAt.toISOString() })),
     documents: docs,
@@ -179,6 +195,7 @@ export async function orderView(db: DbOrTx, order: OrderRow, user: SessionUser):
     actions: user.role === 'admin' ? openActions(facts, 'admin') : [],
     refundedAt: order.refundedAt?.toISOString() ?? null,
     invoiceVoided: !!order.invoiceVoidedAt,
+    wayBack: canSeeOrderDocuments(user, order) ? await wayBackForOrder(db, order, people.po) : null,
   }
 }
 
@@ -189,12 +206,15 @@ export async function replyWithOrder(orderId: number, user: SessionUser) {
   return orderView(db, fresh!, user)
 }
 
-/** The order's charge as the provider's line items: goods at their tier price, then shipping and tax. */
-export function chargeLinesFor(lines: Omit<PricedLine, 'productId'>[], totals: Pick<Totals, 'shippingCents' | 'taxCents'>) {
+/** The order's charge as the provider's line items: goods at their tier price (in the shop's
+ *  one tier wording), then shipping and tax. */
+export function chargeLinesFor(
+  lines: Omit<PricedLine, 'productId'>[], totals: Pick<Totals, 'shippingCents' | 'taxCents' | 'taxExempt' | 'taxRateBasisPoints' | 'taxState'>,
+) {
   return [
-    ...lines.map((l) => ({ description: `${l.name} (tier ${l.tierMinQuantity}+)`, quantity: l.quantity, unitAmountCents: l.unitPriceCents })),
+    ...lines.map((l) => ({ description: `${l.name} (${lineTierWording(l)})`, quantity: l.quantity, unitAmountCents: l.unitPriceCents })),
     ...(totals.shippingCents ? [{ description: 'Shipping', quantity: 1, unitAmountCents: totals.shippingCents }] : []),
-    ...(totals.taxCents ? [{ description: 'Sales tax', quantity: 1, unitAmountCents: totals.taxCents }] : []),
+    ...(totals.taxCents ? [{ description: taxLineLabel(totals), quantity: 1, unitAmountCents: totals.taxCents }] : []),
   ]
 }
 

@@ -1,5 +1,6 @@
 // Zod schemas shared by the sign-in pages and the auth routes: one rule, both sides.
 import { z } from 'zod'
+import { schoolAddressSchema } from './address'
 
 const email = z.string({ error: 'Enter your e-mail address.' }).trim().toLowerCase()
   .min(1, 'Enter your e-mail address.').max(254, 'That e-mail address is too long.')
@@ -16,13 +17,8 @@ const optionalText = (label: string, max: number) => z.string().trim()
 export const schoolSchema = z.object({
   name: text('the school name', 160),
   district: optionalText('the district', 160),
-  addressLine1: text('the street address', 160),
-  addressLine2: optionalText('the second address line', 160),
-  city: text('the city', 100),
-  region: text('the state or region', 100),
-  postalCode: z.string({ error: 'Enter the postal code.' }).trim().min(3, 'Enter the postal code.').max(20, 'That postal code is too long.')
-    .regex(/^[A-Za-z0-9][A-Za-z0-9 -]*$/, 'Use letters, digits, spaces and hyphens only.'),
-  country: z.string().trim().length(2, 'Use the two-letter country code, e.g. US.').toUpperCase().default('US'),
+  // Tiltwright ships to US schools: the state decides the sales tax (shared/utils/tax.ts).
+  ...schoolAddressSchema.shape,
 })
 
 export const registerSchema = z.object({

@@ -1,6 +1,6 @@
 // Zod schemas of the shop, shared by its forms and its routes.
 import { z } from 'zod'
-import { tierProblems } from '../utils/pricing'
+import { risingTierProblems, tierProblems } from '../utils/pricing'
 import { listQuerySchema } from './list'
 import { ORDER_STATUSES } from '../utils/order-flow'
 
@@ -80,6 +80,9 @@ export const tierSchema = z.object({
 export const tiersSchema = z.array(tierSchema).superRefine((tiers, ctx) => {
   const problem = tierProblems(tiers)
   if (problem) ctx.addIssue({ code: 'custom', message: problem })
+  for (const r of risingTierProblems(tiers)) {
+    ctx.addIssue({ code: 'custom', path: [r.index, 'unitPriceCents'], message: r.message })
+  }
 })
 
 const specSchema = z.object({

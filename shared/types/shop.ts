@@ -1,6 +1,8 @@
 // What the shop's routes answer; the pages type their useFetch calls with these.
 import type { PriceTier, PricedLine, Totals } from '../utils/pricing'
-import type { OrderStatus, PaymentMethod } from '../utils/order-flow'
+import type { OrderAction, OrderStatus, PaymentMethod } from '../utils/order-flow'
+import type { CheckoutAddresses } from '../schemas/address'
+import type { WayBack } from '../utils/resubmit'
 
 export interface BatchView { id: number; code: string; quantityBuilt: number; left: number; builtOn: string }
 
@@ -28,13 +30,15 @@ export interface PricedCart extends Totals {
 
 export interface DocLine {
   name: string; quantity: number; tierMinQuantity: number; unitPriceCents: number; lineTotalCents: number; productId: number
-  /** The tier's range as the kit page shows it ("1–4", "12+"), when the view adds it. */
-  tierLabel?: string
+  /** The tier's range as the kit page shows it ("1–4", "12+"), kept with the line. */
+  tierLabel?: string | null
 }
 
 export interface QuoteView extends Totals {
   id: number; number: string; createdAt: string; validUntil: string; valid: boolean; orderId: number | null
   school: { name: string }
+  /** The school's exemption was accepted after this quote: an order from it pays no sales tax. */
+  exemptNow: boolean
   lines: DocLine[]
 }
 
@@ -45,6 +49,9 @@ export interface OrderDocument { kind: 'quote' | 'invoice' | 'receipt' | 'packin
 export interface OrderView {
   id: number; number: string; status: OrderStatus; paymentMethod: PaymentMethod
   subtotalCents: number; shippingCents: number; taxCents: number; totalCents: number; taxExempt: boolean; taxRateBasisPoints: number
+  taxState: string | null
+  /** The ship-to, bill-to and delivery note the order was placed with. */
+  addresses: CheckoutAddresses
   createdAt: string; paidAt: string | null
   school: { id: number; name: string; district: string | null; taxExemption: string }
   placedBy: { name: string; email: string }
@@ -65,6 +72,8 @@ export interface OrderView {
   invoiceVoided: boolean
   /** A word for the admin after a step, e.g. that the invoice will follow. */
   notice?: string | null
+  /** After a refused purchase order: the one way to order the same again (for its teacher). */
+  wayBack: WayBack | null
 }
 
 export interface OrderSummary {

@@ -3,7 +3,7 @@
 import { describe, expect, it } from 'vitest'
 import { Client } from '../helpers/client'
 import { mailsTo, waitForMail } from '../helpers/mail'
-import { CARD_DECLINED, CARD_OK, webhookSecret, attachmentBytes, fakeStripe, newTeacher, payOnPage, pdfText, productBySlug, productWithStock, signedIn, waitForOrder } from '../helpers/shop'
+import { DECLINE, APPROVE, webhookSecret, attachmentBytes, fakeStripe, newTeacher, payOnPage, pdfText, productBySlug, productWithStock, signedIn, waitForOrder } from '../helpers/shop'
 
 describe('catalog and cart pricing', () => {
   it('lists the catalog with tiers and stock for anyone', async () => {
@@ -56,12 +56,20 @@ describe('card checkout', () => {
     const session = await fakeStripe().checkout.sessions.retrieve(sessionId)
     expect(session).toMatchObject({ amount_total: price.body.totalCents, payment_status: 'unpaid', metadata: { orderId: String(r.body.orderId) } })
 
-    const declined = await payOnPage(r.body.url, CARD_DECLINED)
+    const declined = await payOnPage(r.body.url, DECLINE)
     expect(declined.status).toBe(402)
     expect(declined.html).toContain('declined')
     expect((await t.client.get(`/api/orders/${r.body.orderId}`)).body.status).toBe('awaiting payment')
+    // Leaving the payment page returns to the order, whose "Pay now" opens the same page again.
+    expect(declined.pageHtml).toContain(`/orders/${r.body.orderId}?card=cancelled`)
+    expect(order.payUrl).toBe(r.body.url)
+    expect(declined.pageHtml).toContain('Local payment simulator')
+    // Its type is the app's own Nunito, served with the page.
+    const font = await fetch(new URL('/fake-pay/fonts/nunito-800.woff2', r.body.url))
+    expect([font.status, font.headers.get('content-type')]).toEqual([200, 'font/woff2'])
+    expect((await fetch(new URL('/fake-pay/fonts/nunito-100.woff2', r.body.url))).status).toBe(404)
 
-    const paid = await payOnPage(r.body.url, CARD_OK)
+    const paid = await payOnPage(r.body.url, APPROVE)
     expect(paid.status).toBe(303)
     expect(paid.location).toContain(`/orders/${r.body.orderId}?paid=1`)
     const after = await waitForOrder(t.client, r.body.orderId, (o) => o.status === 'paid')
@@ -98,7 +106,7 @@ describe('card checkout', () => {
     const t = await newTeacher('replay')
     const r = await t.client.post('/api/checkout/card', { lines: [{ productId, quantity: 1 }] })
     expect(r.status).toBe(201)
-    await payOnPage(r.body.url, CARD_OK)
+    await payOnPage(r.body.url, APPROVE)
     await waitForOrder(t.client, r.body.orderId, (o) => o.status === 'paid')
     await waitForMail(t.email, /^Payment received/)
 

@@ -9,7 +9,7 @@ import { inject } from 'vitest'
 import { Client } from '../helpers/client'
 import { mailsTo, waitForMail } from '../helpers/mail'
 import {
-  CARD_OK, PUBLISHED_KEY, PUBLISHED_WEBHOOK_SECRET, fakeStripe, newTeacher, payOnPage, poForm, productWithStock,
+  APPROVE, PUBLISHED_KEY, PUBLISHED_WEBHOOK_SECRET, fakeStripe, newTeacher, payOnPage, poForm, productWithStock,
   signedIn, simulator, waitForOrder,
 } from '../helpers/shop'
 import { killDatabase, restartDatabase, startAppInstance } from '../helpers/instance'
@@ -64,7 +64,7 @@ describe('nobody outside the install can move money', () => {
       mode: 'payment', success_url: 'http://localhost/', metadata: { orderId: String(orderId) },
       line_items: [{ quantity: 1, price_data: { currency: 'usd', unit_amount: 1, product_data: { name: 'One cent' } } }],
     })
-    expect((await payOnPage(cheap.url!, CARD_OK)).status).toBe(303)
+    expect((await payOnPage(cheap.url!, APPROVE)).status).toBe(303)
     const order = await waitForOrder(t.client, orderId, (o) => o.events.some((e: any) => e.kind === 'payment-mismatch'))
     expect(order.status).toBe('awaiting payment')
     expect(order.paidAt).toBeNull()
@@ -81,7 +81,7 @@ describe('money for an order that ended', () => {
     // the buyer still pays on it, as a buyer with the page open in another tab would.
     await simulator({ api: 'fail' })
     expect((await t.client.post(`/api/orders/${orderId}/cancel`, {})).status).toBe(200)
-    expect((await payOnPage(url, CARD_OK)).status).toBe(303)
+    expect((await payOnPage(url, APPROVE)).status).toBe(303)
     await new Promise((r) => setTimeout(r, 1500))
     expect((await t.client.get(`/api/orders/${orderId}`)).body.refundedAt).toBeNull()
     await simulator({ api: 'normal' })
@@ -138,7 +138,7 @@ describe('webhooks and the hold sweep survive what kills a process', () => {
       await simulator({ webhooks: 'fail' })
       // Paid on the second instance's copy of the page: that instance emits the event.
       const onOther = new URL(new URL(url).pathname, other.url).toString()
-      expect((await payOnPage(onOther, CARD_OK)).status).toBe(303)
+      expect((await payOnPage(onOther, APPROVE)).status).toBe(303)
       await expect.poll(async () => (await sql(`SELECT attempts FROM jobs WHERE kind = 'fake-webhook' ORDER BY id DESC LIMIT 1`))[0]?.attempts ?? 0,
         { timeout: 10_000 }).toBeGreaterThanOrEqual(1)
       await other.kill('SIGKILL')
@@ -154,7 +154,7 @@ describe('webhooks and the hold sweep survive what kills a process', () => {
   it('asks the provider before cancelling an unpaid hold, and records a payment whose webhook was lost', async () => {
     const { t, orderId, url } = await cardOrder('lost-hook')
     await simulator({ webhooks: 'fail' })
-    expect((await payOnPage(url, CARD_OK)).status).toBe(303)
+    expect((await payOnPage(url, APPROVE)).status).toBe(303)
     await sql('UPDATE orders SET created_at = NOW(3) - INTERVAL 49 HOUR WHERE id = ?', [orderId])
     const order = await waitForOrder(t.client, orderId, (o) => o.status !== 'awaiting payment', 20_000)
     expect(order.status).toBe('paid')

@@ -1,9 +1,10 @@
 // The purchase-order path end to end: upload, review, approve (invoice through the SDK, net
 // 30, e-mailed as a PDF), pay on the fake's invoice page, webhook, ship; and the refusals.
 import { describe, expect, it } from 'vitest'
+import { VENDOR } from '../../shared/utils/vendor'
 import { Client } from '../helpers/client'
 import { linkIn, waitForMail } from '../helpers/mail'
-import { CARD_OK, PDF_BYTES, PNG_BYTES, attachmentBytes, fakeStripe, newTeacher, payOnPage, pdfText, poForm, productBySlug, productWithStock, signedIn, waitForOrder } from '../helpers/shop'
+import { APPROVE, PDF_BYTES, PNG_BYTES, attachmentBytes, fakeStripe, newTeacher, payOnPage, pdfText, poForm, productBySlug, productWithStock, signedIn, waitForOrder } from '../helpers/shop'
 
 describe('purchase-order checkout', () => {
   it('goes from PO upload to an approved, invoiced, paid and shipped order', async () => {
@@ -54,10 +55,16 @@ describe('purchase-order checkout', () => {
     const text = await pdfText(await attachmentBytes(invoiceMail.id))
     expect(text).toContain('CH-2026-0417')
     expect(text).toContain('Net 30')
-    expect(text).toContain('exempt')
+    expect(text).toContain('Sales tax: exemption applied')
+    // What accounts payable needs, said once in shared/utils/vendor.ts: remit-to, cheque payee,
+    // bank transfer, our tax id, the PO, terms, due date, and the online link as one option.
+    for (const s of ['Remit to', `Cheque payable to ${VENDOR.chequePayee}`, VENDOR.remitTo[2]!, VENDOR.bank.routingNumber, VENDOR.bank.accountNumber,
+      VENDOR.taxId, 'Due date', a.body.invoice.dueAt.slice(0, 10), 'Online by card', 'invented for this demonstration']) expect(text).toContain(s)
+    // The provider's line items speak the shop's tier wording, never "1+".
+    expect(inv.lines.data.map((l: any) => l.description)).toEqual([expect.stringMatching(/^Long-Beam Rig Kit \(price for 5–11\) × 6$/), expect.stringMatching(/^Shipping/)])
 
     // Pay on the fake's invoice page: the invoice.paid webhook marks the order paid.
-    const paid = await payOnPage(a.body.payUrl, CARD_OK)
+    const paid = await payOnPage(a.body.payUrl, APPROVE)
     expect(paid.status).toBe(303)
     order = await waitForOrder(t.client, id, (o) => o.status === 'paid')
     expect(order.events.map((e: any) => e.kind)).toEqual(['placed', 'po-received', 'tax-exempt', 'po-approved', 'invoice-issued', 'paid'])

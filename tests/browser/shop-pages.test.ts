@@ -44,8 +44,20 @@ describe('the admin catalog form', () => {
     await page.getByLabel('Slug (in the address)').fill('qa-spare-bracket')
     await page.getByLabel('One-line summary').fill('A bracket for the QA walkthrough.')
     await page.getByLabel('On sale').uncheck()
-    const sent = page.waitForRequest((r) => r.url().endsWith('/api/admin/products') && r.method() === 'POST')
+    // A price that rises with quantity is refused beside the tier.
+    await page.getByRole('button', { name: 'Add a tier' }).click()
+    await page.getByLabel('Each ($)').nth(1).fill('30')
     await page.getByRole('button', { name: 'Save' }).click()
+    await form.getByText(/must not be above \$24\.50/).waitFor()
+    await page.getByLabel('Each ($)').nth(1).fill('22')
+    // Save shows the tier table in the shop's words before anything is sent.
+    await page.getByRole('button', { name: 'Save' }).click()
+    const table = page.getByRole('table', { name: 'New classroom tiers' })
+    await table.getByText('1–5').waitFor()
+    await table.getByText('6+').waitFor()
+    await table.getByText('$22.00').waitFor()
+    const sent = page.waitForRequest((r) => r.url().endsWith('/api/admin/products') && r.method() === 'POST')
+    await page.getByRole('button', { name: 'Publish these prices' }).click()
     await sent
     await page.getByText('QA Spare Bracket saved.').waitFor()
     await page.close()

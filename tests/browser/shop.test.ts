@@ -7,7 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, BrowserContext, Page } from 'playwright-core'
 import { accessibilityViolations, gotoReady, launch, signInThroughPage, url } from '../helpers/browser'
 import { waitForMail } from '../helpers/mail'
-import { CARD_OK, PDF_BYTES } from '../helpers/shop'
+import { PDF_BYTES } from '../helpers/shop'
 
 const shots = resolve(import.meta.dirname, '../.artifacts/shop')
 mkdirSync(shots, { recursive: true })
@@ -47,10 +47,16 @@ describe('buying in the browser', () => {
     expect(await accessibilityViolations(page)).toEqual([])
 
     await page.getByRole('button', { name: 'Pay by card' }).click()
+    // Checkout asks where it ships, prefilled from the school, with a delivery note.
+    await page.waitForURL(/\/checkout\?method=card/)
+    expect(await page.getByLabel('Street address').first().inputValue()).not.toBe('')
+    await page.getByLabel('Delivery note (optional)').fill('Room 114, science department')
+    await shot(page, 'checkout-card-desktop')
+    await page.getByRole('button', { name: 'Continue to the payment page' }).click()
     await page.waitForURL(/\/fake-pay\/checkout\//)
+    await page.getByText('Local payment simulator').waitFor()
     await shot(page, 'fake-checkout')
-    await page.getByLabel('Card number').fill(CARD_OK)
-    await page.getByRole('button', { name: /^Pay \$1,508\.40$/ }).click()
+    await page.getByRole('button', { name: 'Approve this payment' }).click()
     await page.waitForURL(/\/orders\/\d+\?paid=1/)
     await page.getByText('Payment received.').waitFor()
     expect(await page.getByTestId('order-status').textContent()).toBe('Paid')
@@ -107,8 +113,7 @@ describe('buying in the browser', () => {
     expect(await page.getByTestId('tracking').textContent()).toBe('RF 5555 0101')
     await page.getByRole('link', { name: 'Pay the invoice online' }).click()
     await page.waitForURL(/\/fake-pay\/invoice\//)
-    await page.getByLabel('Card number').fill(CARD_OK)
-    await page.getByRole('button', { name: /^Pay \$/ }).click()
+    await page.getByRole('button', { name: 'Approve this payment' }).click()
     await page.getByText('This invoice is paid').waitFor()
     await gotoReady(page, orderPath)
     await page.getByRole('link', { name: 'Receipt (PDF)' }).waitFor()

@@ -1,4 +1,4 @@
-// Shop test helpers: fresh teachers of fresh (taxed) schools, a product with known stock,
+// Shop test helpers: fresh teachers of fresh (taxed, in California: 7.25 % in shared/data/us-sales-tax.ts) schools, a product with known stock,
 // the payment SDK pointed at the app's fake, and paying on the fake's hosted page.
 import Stripe from 'stripe'
 import { inject } from 'vitest'
@@ -12,9 +12,9 @@ export const webhookSecret = () => inject('webhookSecret')
 // The secrets an earlier version printed in its source: nothing may accept them now.
 export const PUBLISHED_KEY = 'sk_test_tiltwright_local_fake'
 export const PUBLISHED_WEBHOOK_SECRET = 'whsec_tiltwright_local_fake_signing_secret'
-// The fake's test cards (server/fake-payments/pages.ts).
-export const CARD_OK = '4242 4242 4242 4242'
-export const CARD_DECLINED = '4000 0000 0000 0002'
+// The answers the local payment simulator's page offers (DECISIONS in server/fake-payments/pages.ts).
+export const APPROVE = 'approve'
+export const DECLINE = 'decline'
 
 export async function signedIn(email: string) {
   const c = new Client()
@@ -22,14 +22,15 @@ export async function signedIn(email: string) {
   return c
 }
 
-/** A teacher of a new school, with the e-mail address confirmed through the mailed link
- *  (ordering needs it) unless `verified: false`. */
-export async function newTeacher(tag = 'shop', opts: { verified?: boolean } = {}) {
+/** A teacher of a new school (in California unless the region says otherwise), with the
+ *  e-mail address confirmed through the mailed link (ordering needs it) unless `verified: false`. */
+export async function newTeacher(tag = 'shop', opts: { verified?: boolean; region?: string; postalCode?: string } = {}) {
+  const { verified: _v, ...school } = opts
   const c = new Client()
   const email = uniqueEmail(tag)
   const r = await c.post('/api/auth/register', {
     name: `Teacher ${tag}`, email, password: 'a-long-password-1',
-    school: { name: `${tag} Academy ${Math.random().toString(36).slice(2, 6)}`, addressLine1: '1 Test Lane', city: 'Ridgeford', region: 'WA', postalCode: '98999' },
+    school: { name: `${tag} Academy ${Math.random().toString(36).slice(2, 6)}`, addressLine1: '1 Test Lane', city: 'Ridgeford', region: 'CA', postalCode: '95999', ...school },
   })
   if (r.status !== 201) throw new Error(`register failed: ${r.status} ${JSON.stringify(r.body)}`)
   if (opts.verified !== false) {
@@ -64,13 +65,14 @@ export function fakeStripe() {
   return new Stripe(paymentsKey(), { host: base.hostname, port: Number(base.port), protocol: 'http', telemetry: false })
 }
 
-/** Submits a card number on the fake's hosted page, like a buyer's browser would. */
-export async function payOnPage(url: string, card: string) {
+/** Presses "Approve this payment" or "Decline this payment" on the fake's hosted page, like a
+ *  buyer's browser would. */
+export async function payOnPage(url: string, decision: typeof APPROVE | typeof DECLINE) {
   const page = await fetch(url)
   const html = await page.text()
   const action = html.match(/<form method="post" action="([^"]+)"/)?.[1]
-  if (!action) throw new Error(`no card form on ${url}: ${html.slice(0, 300)}`)
-  const res = await fetch(new URL(action, url), { method: 'POST', body: new URLSearchParams({ card }), redirect: 'manual', headers: { 'content-type': 'application/x-www-form-urlencoded' } })
+  if (!action || !html.includes(`name="decision" value="${decision}"`)) throw new Error(`no ${decision} button on ${url}: ${html.slice(0, 300)}`)
+  const res = await fetch(new URL(action, url), { method: 'POST', body: new URLSearchParams({ decision }), redirect: 'manual', headers: { 'content-type': 'application/x-www-form-urlencoded' } })
   return { status: res.status, location: res.headers.get('location'), html: await res.text(), pageHtml: html }
 }
 

@@ -100,7 +100,8 @@ export default async function setup(project: TestProject) {
   return async () => {
     app.kill('SIGTERM')
     await new Promise((r) => { const t = setTimeout(r, 5000); app.once('exit', () => { clearTimeout(t); r(null) }) })
-    if (/\[request error\]|\[unhandled\]/.test(log)) console.warn(`[tests] the app logged errors during the run:\n${log.slice(-4000)}`)
+    if (process.env.TILTWRIGHT_TEST_LOG) console.log(`[tests] the app's log:\n${log}`)
+    else if (/\[request error\]|\[unhandled\]/.test(log)) console.warn(`[tests] the app logged errors during the run:\n${log.slice(-4000)}`)
     await catcher.close()
     db.stop()
   }

@@ -63,7 +63,7 @@ describe('shipping and tax', () => {
 
   it('keeps every total a whole number of cents equal to the sum of its parts', () => {
     fc.assert(fc.property(fc.array(fc.record({ q: fc.integer({ min: 1, max: 60 }), w: fc.integer({ min: 1, max: 5000 }) }), { minLength: 1, maxLength: 6 }), fc.boolean(), (ls, exempt) => {
-      const cart = priceCart(ls.map((l, i) => ({ productId: i + 1, name: `P${i}`, quantity: l.q, tiers, weightGrams: l.w })), { exempt, rateBasisPoints: 725 })
+      const cart = priceCart(ls.map((l, i) => ({ productId: i + 1, name: `P${i}`, quantity: l.q, tiers, weightGrams: l.w })), { exempt, rateBasisPoints: 725, state: 'CA' })
       expect(Number.isInteger(cart.totalCents)).toBe(true)
       expect(cart.totalCents).toBe(cart.subtotalCents + cart.shippingCents + cart.taxCents)
       expect(cart.subtotalCents).toBe(cart.lines.reduce((s, l) => s + l.lineTotalCents, 0))
@@ -72,13 +72,13 @@ describe('shipping and tax', () => {
   })
 
   it('prices a class set of 12 rig kits for a taxed school', () => {
-    const cart = priceCart([{ productId: 1, name: 'Kit', quantity: 12, tiers, weightGrams: 2100 }], { exempt: false, rateBasisPoints: 725 })
+    const cart = priceCart([{ productId: 1, name: 'Kit', quantity: 12, tiers, weightGrams: 2100 }], { exempt: false, rateBasisPoints: 725, state: 'CA' })
     // 12 × $119.00 = $1,428.00, under free freight: $9.00 + 51 half-kilos × $1.40 = $80.40; tax 7.25 % = $103.53.
     expect(cart).toMatchObject({ subtotalCents: 142_800, shippingCents: 8040, taxCents: 10_353, totalCents: 161_193 })
   })
 
   it('totals an empty cart as zero', () => {
-    expect(totalsFor([], 0, { exempt: false })).toMatchObject({ subtotalCents: 0, shippingCents: 0, taxCents: 0, totalCents: 0 })
+    expect(totalsFor([], 0, { exempt: false, rateBasisPoints: 725, state: 'CA' })).toMatchObject({ subtotalCents: 0, shippingCents: 0, taxCents: 0, totalCents: 0 })
   })
 })
 

@@ -1,7 +1,10 @@
 // The words the shop pages show for a line's quantity, a tier and an order's shipping state.
 import { describe, expect, it } from 'vitest'
 import { lineQuantityProblem, MAX_LINE_QUANTITY } from '../../shared/schemas/shop'
-import { tierRangeLabel, tierWording } from '../../shared/utils/pricing'
+import { lineTierWording, priceLine, risingTierProblems, tierRangeLabel, tierWording } from '../../shared/utils/pricing'
+import { tiersSchema } from '../../shared/schemas/shop'
+import { fieldErrorsOf } from '../../shared/utils/field-errors'
+import { wayBackAfterRejection } from '../../shared/utils/resubmit'
 import { releasedWords, shippingNote } from '../../shared/utils/shop-rules'
 
 describe('a cart line\'s quantity', () => {
@@ -39,5 +42,48 @@ describe('an order\'s shipping note', () => {
     expect(releasedWords(7)).toBe('The 7 units it held were released.')
     expect(releasedWords(1)).toBe('The 1 unit it held was released.')
     expect(releasedWords(0)).toBe('')
+  })
+})
+
+describe('one tier wording for every line', () => {
+  it('never says "1+": a lone tier from 1 is "any quantity", a stored label wins', () => {
+    expect(tierRangeLabel([{ minQuantity: 1, unitPriceCents: 900 }], { minQuantity: 1, unitPriceCents: 900 })).toBe('any quantity')
+    expect(lineTierWording({ tierMinQuantity: 1, tierLabel: '1–9' })).toBe('price for 1–9')
+    expect(lineTierWording({ tierMinQuantity: 10, tierLabel: null })).toBe('price for 10+')
+    expect(lineTierWording({ tierMinQuantity: 1, tierLabel: null })).toBe('price for any quantity')
+  })
+
+  it('keeps each line\'s range when a cart is priced', () => {
+    const tiers = [{ minQuantity: 1, unitPriceCents: 500 }, { minQuantity: 10, unitPriceCents: 450 }]
+    const lines = [3, 10].map((quantity) => priceLine({ productId: 1, name: 'P', quantity, tiers, weightGrams: 1 }))
+    expect(lines.map((l) => lineTierWording(l))).toEqual(['price for 1–9', 'price for 10+'])
+  })
+})
+
+describe('tier prices never rise with quantity', () => {
+  it('flags each tier priced above a smaller quantity\'s, by its place in the list', () => {
+    const ok = [{ minQuantity: 1, unitPriceCents: 500 }, { minQuantity: 10, unitPriceCents: 500 }, { minQuantity: 20, unitPriceCents: 400 }]
+    expect(risingTierProblems(ok)).toEqual([])
+    const bad = [{ minQuantity: 20, unitPriceCents: 450 }, { minQuantity: 1, unitPriceCents: 500 }, { minQuantity: 10, unitPriceCents: 400 }]
+    expect(risingTierProblems(bad).map((p) => p.index)).toEqual([0])
+    expect(risingTierProblems(bad)[0]!.message).toMatch(/\$4\.00/)
+  })
+
+  it('gives the product schema a field error on the rising price', () => {
+    const r = tiersSchema.safeParse([{ minQuantity: 1, unitPriceCents: 500 }, { minQuantity: 10, unitPriceCents: 600 }])
+    expect(Object.keys(fieldErrorsOf(r.error!))).toEqual(['1.unitPriceCents'])
+  })
+})
+
+describe('the way back from a refused purchase order', () => {
+  const future = new Date(Date.now() + 86_400_000)
+  const past = new Date(Date.now() - 86_400_000)
+  it('offers the quote while it is valid, else the same lines, and nothing unless refused', () => {
+    expect(wayBackAfterRejection({ id: 7 }, { status: 'review' }, null)).toBeNull()
+    expect(wayBackAfterRejection({ id: 7 }, { status: 'rejected' }, { id: 3, number: 'Q-1', validUntil: future, orderId: null }))
+      .toMatchObject({ kind: 'quote', url: '/checkout?quote=3' })
+    expect(wayBackAfterRejection({ id: 7 }, { status: 'rejected' }, { id: 3, number: 'Q-1', validUntil: past, orderId: null }))
+      .toMatchObject({ kind: 'same-lines', url: '/checkout?resubmit=7' })
+    expect(wayBackAfterRejection({ id: 7 }, { status: 'rejected' }, null)).toMatchObject({ kind: 'same-lines' })
   })
 })

@@ -1,11 +1,16 @@
 // Prices the cart on the server, always: tiers, shipping and tax from the catalog and the
-// caller's school (tax-exempt when its certificate is accepted). The client never sets a price.
+// caller's school (tax-exempt when its certificate is accepted). Tax follows the ship-to state:
+// the one checkout names (`shipToState`), else the school's; an anonymous cart with no state
+// shows no tax yet. The client never sets a price.
 import { z } from 'zod'
 import { cartLineSchema } from '../../../shared/schemas/shop'
+import { usStateField } from '../../../shared/schemas/address'
 import type { PricedCart } from '../../../shared/types/shop'
-import { tierRangeLabel } from '../../../shared/utils/pricing'
 
-const body = z.object({ lines: z.array(cartLineSchema).max(40, 'At most 40 different items in one order.') })
+const body = z.object({
+  lines: z.array(cartLineSchema).max(40, 'At most 40 different items in one order.'),
+  shipToState: usStateField.optional(),
+})
 
 export default defineEventHandler(async (event): Promise<PricedCart> => {
   const session = await getUserSession(event)
@@ -13,13 +18,15 @@ export default defineEventHandler(async (event): Promise<PricedCart> => {
   const input = await readBodyAs(event, body)
   const merged = [...input.lines.reduce((m, l) => m.set(l.productId, (m.get(l.productId) ?? 0) + l.quantity), new Map<number, number>())]
     .map(([productId, quantity]) => ({ productId, quantity }))
-  const priced = await priceLines(useDb(), merged, user?.schoolId ?? null)
+  const school = user?.schoolId ? await loadSchool(useDb(), user.schoolId) : null
+  const priced = await priceLines(useDb(), merged, schoolTaxBasis(school, input.shipToState))
   const { byId, ...rest } = priced
   return {
     ...rest,
     lines: priced.lines.map((l) => {
       const c = byId.get(l.productId)!
-      return { ...l, tierLabel: tierRangeLabel(c.tiers, { minQuantity: l.tierMinQuantity, unitPriceCents: l.unitPriceCents }), slug: c.row.slug, image: c.row.image, available: c.available, short: c.available < l.quantity }
+      const stock = { available: c.available, short: c.available < l.quantity }
+      return { ...l, tierLabel: l.tierLabel!, slug: c.row.slug, image: c.row.image, ...stock }
     }),
     signedIn: !!user,
   }

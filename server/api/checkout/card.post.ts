@@ -2,11 +2,14 @@
 // written in one transaction; the job runs at once. The checkout ends with an order that has
 // its payment page, or (the payment service failed) with no order and no stock held. If the
 // database fails part-way, the durable job finishes it later and mails the pay link.
+import { z } from 'zod'
 import { checkoutSourceSchema } from '../../../shared/schemas/shop'
+import { checkoutAddressesSchema } from '../../../shared/schemas/address'
 
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'teacher')
-  const input = await readBodyAs(event, checkoutSourceSchema)
+  const body = checkoutSourceSchema.and(z.object({ addresses: checkoutAddressesSchema.optional() }))
+  const input = await readBodyAs(event, body)
   const placed = await placeCardOrder(user, input)
   const run = await runJobNow(placed.jobId)
   if (!run.done) {

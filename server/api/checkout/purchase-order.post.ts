@@ -2,6 +2,7 @@
 // contact, optionally the school's tax-exemption certificate. The order waits in `po review`.
 import type { MultiPartData } from 'h3'
 import { checkoutSourceSchema, purchaseOrderFieldsSchema } from '../../../shared/schemas/shop'
+import { checkoutAddressesSchema } from '../../../shared/schemas/address'
 import { fieldErrorsOf } from '../../../shared/utils/field-errors'
 import { removeStoredFile, safeFilename, storeFile, uploadProblem } from '../../services/files'
 
@@ -9,6 +10,8 @@ const text = (parts: MultiPartData[], name: string) => {
   const p = parts.find((x) => x.name === name && !x.filename)
   return p ? p.data.toString('utf8') : undefined
 }
+const prefixed = (prefix: string, f: Record<string, string>) =>
+  Object.fromEntries(Object.entries(f).map(([k, v]) => [`${prefix}.${k}`, v]))
 const file = (parts: MultiPartData[], name: string) => parts.find((x) => x.name === name && x.filename !== undefined)
 
 export default defineEventHandler(async (event) => {
@@ -33,6 +36,14 @@ export default defineEventHandler(async (event) => {
   if (!source.success && !fields.lines) Object.assign(fields, fieldErrorsOf(source.error))
   const po = purchaseOrderFieldsSchema.safeParse({ poNumber: text(parts, 'poNumber'), apEmail: text(parts, 'apEmail') })
   if (!po.success) Object.assign(fields, fieldErrorsOf(po.error))
+  // Ship-to, bill-to and delivery note (JSON, as the card checkout sends them); the school's address when absent.
+  const rawAddresses = text(parts, 'addresses')
+  let addresses: unknown
+  if (rawAddresses !== undefined) {
+    try { addresses = JSON.parse(rawAddresses) } catch { fields.addresses = 'The addresses are not valid JSON.' }
+  }
+  const where = addresses === undefined ? null : checkoutAddressesSchema.safeParse(addresses)
+  if (where && !where.success) Object.assign(fields, prefixed('addresses', fieldErrorsOf(where.error)))
   const poFile = file(parts, 'poFile')
   const poCheck = await uploadProblem(poFile, 'purchase order')
   if ('problem' in poCheck) fields.poFile = poCheck.problem
@@ -46,7 +57,7 @@ export default defineEventHandler(async (event) => {
   if (certCheck && 'mime' in certCheck) stored.push({ kind: 'tax-certificate', key: await storeFile('tax', certFile!.data), filename: safeFilename(certFile!.filename, certCheck.mime, 'tax-exemption-certificate'), mime: certCheck.mime, size: certFile!.data.length })
 
   try {
-    const placed = await placePurchaseOrder(user, source.data, po.data, stored)
+    const placed = await placePurchaseOrder(user, { ...source.data, addresses: where?.data }, po.data, stored)
     setResponseStatus(event, 201)
     return { orderId: placed.id, number: placed.number }
   } catch (e) {
