@@ -60,7 +60,6 @@ export default defineNuxtConfig({
     paymentsWebhookSecret: '',
     /** Unpaid card orders a school may hold at once (each holds stock). */
     maxUnpaidCardOrders: 3,
-    taxRateBasisPoints: 725,
     // pdfkit embeds Nunito from here (the @fontsource files the pages use too).
     fontDir: resolve('node_modules/@fontsource/nunito/files'),
     public: { fakeServices: fakePayments },

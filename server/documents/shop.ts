@@ -9,12 +9,15 @@ import { schoolPostalAddress } from '../utils/destination'
 import { renderDocument, toDate, type DocLineSpec } from './pdf'
 
 type School = typeof schools.$inferSelect
-interface Line { name: string; quantity: number; tierMinQuantity: number; unitPriceCents: number; lineTotalCents: number; tierLabel?: string | null }
+interface Line {
+  name: string; quantity: number; tierMinQuantity: number; unitPriceCents: number; lineTotalCents: number; tierLabel?: string | null
+}
 type Money = Pick<Totals, 'subtotalCents' | 'shippingCents' | 'taxCents' | 'totalCents' | 'taxExempt' | 'taxRateBasisPoints' | 'taxState'>
 /** An order's money with the addresses it was placed with (none on orders placed before checkout asked). */
 type OrderMoney = Money & { shipTo?: PostalAddress | null; billTo?: PostalAddress | null; deliveryNote?: string | null }
 
-const withAttention = (a: PostalAddress, attention?: string) => addressLines(attention && !a.attention ? { ...a, attention } : a)
+const withAttention = (a: PostalAddress, attention?: string) =>
+  addressLines(attention && !a.attention ? { ...a, attention } : a)
 
 function shipToLines(order: Pick<OrderMoney, 'shipTo' | 'deliveryNote'>, school: School, attention?: string) {
   const note = order.deliveryNote ? [`Delivery note: ${order.deliveryNote}`] : []
@@ -37,25 +40,39 @@ function totals(m: Money) {
   ]
 }
 
+const SAFETY = 'Small steel balls are a choking hazard for young children. '
+  + 'Follow your school\'s own safety rules when the rigs are built and powered.'
+
 export function quotePdf(q: Money & { number: string; createdAt: Date; validUntil: Date }, lines: Line[], school: School, preparedFor: string) {
+  const valid = toDate(q.validUntil)
   return renderDocument({
     title: 'Quote', number: q.number,
     parties: [{ label: 'Quote for', lines: withAttention(schoolPostalAddress(school), preparedFor) }],
-    meta: [['Quote date', toDate(q.createdAt)], ['Valid until', toDate(q.validUntil)], ['Currency', 'US dollars'], ['Payment terms', `Card, or purchase order on net ${INVOICE_NET_DAYS} invoice`], ['Our tax id', VENDOR.taxId]],
+    meta: [
+      ['Quote date', toDate(q.createdAt)], ['Valid until', valid], ['Currency', 'US dollars'],
+      ['Payment terms', `Card, or purchase order on net ${INVOICE_NET_DAYS} invoice`], ['Our tax id', VENDOR.taxId],
+    ],
     lines: pricedLines(lines), showPrices: true, totals: totals(q),
     notes: [
-      `This quote is valid until ${toDate(q.validUntil)}. Prices, classroom tiers and shipping are fixed at the amounts above while it is valid; an order placed from it is charged exactly these amounts, with sales tax for the order's ship-to state (and none once the school's exemption is accepted).`,
+      `This quote is valid until ${valid}. Prices, classroom tiers and shipping are fixed at the amounts above while it `
+        + 'is valid; an order placed from it is charged exactly these amounts, with sales tax for the order\'s ship-to state '
+        + '(and none once the school\'s exemption is accepted).',
       ...taxNotes(q),
-      `To order, pay by card online, or send a purchase order quoting ${q.number}; we invoice on net ${INVOICE_NET_DAYS} terms once the purchase order is approved.`,
+      `To order, pay by card online, or send a purchase order quoting ${q.number}; we invoice on net ${INVOICE_NET_DAYS} `
+        + 'terms once the purchase order is approved.',
       'Stock is reserved when the order is placed, not when the quote is issued.',
-      'Small steel balls are a choking hazard for young children. Follow your school\'s own safety rules when the rigs are built and powered.',
+      SAFETY,
     ],
   })
 }
 
 export interface InvoiceInfo { number: string; dueAt: Date | null; poNumber: string; orderNumber: string; issuedAt: Date; payUrl: string | null }
 
-export function invoicePdf(inv: InvoiceInfo, money: OrderMoney, lines: Line[], school: School, apEmail: string, paid?: { at: Date; reference: string | null }) {
+export function invoicePdf(
+  inv: InvoiceInfo, money: OrderMoney, lines: Line[], school: School, apEmail: string, paid?: { at: Date; reference: string | null },
+) {
+  const due = inv.dueAt ? toDate(inv.dueAt) : null
+  const paidMeta: [string, string][] = paid ? [['Paid', `${toDate(paid.at)}${paid.reference ? ` (${paid.reference})` : ''}`]] : []
   return renderDocument({
     title: paid ? 'Receipt' : 'Invoice', number: inv.number,
     parties: [
@@ -64,14 +81,15 @@ export function invoicePdf(inv: InvoiceInfo, money: OrderMoney, lines: Line[], s
     ],
     meta: [
       ['Invoice date', toDate(inv.issuedAt)], ['Order', inv.orderNumber], ['Purchase order', inv.poNumber],
-      ['Terms', `Net ${INVOICE_NET_DAYS}`], ['Due date', inv.dueAt ? toDate(inv.dueAt) : '—'],
-      ['Our tax id', VENDOR.taxId],
-      ...(paid ? [['Paid', `${toDate(paid.at)}${paid.reference ? ` (${paid.reference})` : ''}`] as [string, string]] : []),
+      ['Terms', `Net ${INVOICE_NET_DAYS}`], ['Due date', due ?? '—'], ['Our tax id', VENDOR.taxId], ...paidMeta,
     ],
     lines: pricedLines(lines), showPrices: true, totals: totals(money), stamp: paid ? 'PAID' : undefined,
     blocks: paid ? [] : [
       { heading: 'Remit to', lines: [VENDOR.remitTo.join(', ')] },
-      { heading: `How to pay ${formatCents(money.totalCents)} by ${inv.dueAt ? toDate(inv.dueAt) : 'the due date'}`, lines: remittanceLines({ invoice: inv.number, po: inv.poNumber, payUrl: inv.payUrl }) },
+      {
+        heading: `How to pay ${formatCents(money.totalCents)} by ${due ?? 'the due date'}`,
+        lines: remittanceLines({ invoice: inv.number, po: inv.poNumber, payUrl: inv.payUrl }),
+      },
     ],
     notes: [
       ...(paid ? [`Received with thanks: ${formatCents(money.totalCents)}. Keep this receipt with purchase order ${inv.poNumber}.`] : []),
@@ -96,12 +114,14 @@ export function cardReceiptPdf(order: OrderMoney & { number: string; paidAt: Dat
 
 export function packingListPdf(
   order: { number: string; shipTo?: PostalAddress | null; deliveryNote?: string | null },
-  items: { name: string; quantity: number; batchCode: string }[], school: School, buyer: string, shipment?: { carrier: string; tracking: string },
+  items: { name: string; quantity: number; batchCode: string }[], school: School, buyer: string,
+  shipment?: { carrier: string; tracking: string },
 ) {
+  const shipped: [string, string][] = shipment ? [['Carrier', shipment.carrier], ['Tracking', shipment.tracking]] : []
   return renderDocument({
     title: 'Packing list', number: order.number,
     parties: [{ label: 'Ship to', lines: shipToLines(order, school, buyer) }],
-    meta: [['Packed', toDate(new Date())], ...(shipment ? [['Carrier', shipment.carrier], ['Tracking', shipment.tracking]] as [string, string][] : [])],
+    meta: [['Packed', toDate(new Date())], ...shipped],
     lines: items.map((i) => ({ description: i.name, quantity: i.quantity, note: `Production batch ${i.batchCode}` })), showPrices: false,
     notes: [
       'Check every item against this list when the boxes arrive and tell us within 14 days if anything is missing or damaged.',

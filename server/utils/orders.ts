@@ -89,6 +89,12 @@ export async function releaseStock(tx: Tx, orderId: number) {
   return held.reduce((s, h) => s + h.quantity, 0)
 }
 
+/** A stored quote or order line as a priced line (its tier range as it was kept). */
+export const pricedLineOf = (l: PricedLine): PricedLine => ({
+  productId: l.productId, name: l.name, quantity: l.quantity, tierMinQuantity: l.tierMinQuantity,
+  unitPriceCents: l.unitPriceCents, lineTotalCents: l.lineTotalCents, tierLabel: l.tierLabel,
+})
+
 export interface OrderSource {
   lines: PricedLine[]; totals: Totals; quoteId: number | null
   /** Where it ships and whom it bills (the school's address unless checkout gave others). */
@@ -112,11 +118,7 @@ export async function resolveCheckout(
     if (!isQuoteValid(q)) throw conflict(q.orderId ? 'This quote has already been turned into an order.' : 'This quote has expired. Save the cart as a new quote.', q.orderId ? 'quote-used' : 'quote-expired')
     const lines = await tx.select().from(quoteLines).where(eq(quoteLines.quoteId, q.id)).orderBy(asc(quoteLines.id))
     const totals = retax(q, basis)
-    return {
-      quoteId: q.id, addresses, taxNote: quoteTaxNote(q, totals),
-      lines: lines.map((l) => ({ productId: l.productId, name: l.name, quantity: l.quantity, tierMinQuantity: l.tierMinQuantity, unitPriceCents: l.unitPriceCents, lineTotalCents: l.lineTotalCents, tierLabel: l.tierLabel })),
-      totals,
-    }
+    return { quoteId: q.id, addresses, taxNote: quoteTaxNote(q, totals), lines: lines.map(pricedLineOf), totals }
   }
   const priced = await priceLines(tx, input.lines ?? [], basis)
   if (priced.missing.length) {
@@ -178,11 +180,12 @@ export async function orderView(db: DbOrTx, order: OrderRow, user: SessionUser):
   return {
     id: order.id, number: order.number!, status: order.status, paymentMethod: order.paymentMethod,
     subtotalCents: order.subtotalCents, shippingCents: order.shippingCents, taxCents: order.taxCents, totalCents: order.totalCents, taxExempt: order.taxExempt,
-    taxRateBasisPoints: order.taxRateBasisPoints, taxState: order.taxState, addresses: addressesOfOrder(order, people.school),
+    taxRateBasisPoints: order.taxRateBasisPoints, taxState: order.taxState,
+    addresses: addressesOfOrder(order, people.school),
     createdAt: order.createdAt.toISOString(), paidAt: order.paidAt?.toISOString() ?? null,
     school: { id: people.school.id, name: people.school.name, district: people.school.district, taxExemption: people.school.taxExemption },
     placedBy: people.buyer, quoteId: order.quoteId,
-    lines: await withTierLabels(db, lines.map((l) => ({ productId: l.productId, name: l.name, quantity: l.quantity, tierMinQuantity: l.tierMinQuantity, unitPriceCents: l.unitPriceCents, lineTotalCents: l.lineTotalCents, tierLabel: l.tierLabel }))),
+    lines: await withTierLabels(db, lines.map(pricedLineOf)),
     events: events.map((e) => ({ id: e.id, kind: e.kind, message: e.message, createdAt: e.createdAt.toISOString() })),
     shipments: ships.map((s) => ({ id: s.id, carrier: s.carrier, tracking: s.tracking, shippedAt: s.shippedAt.toISOString() })),
     documents: docs,
@@ -209,7 +212,8 @@ export async function replyWithOrder(orderId: number, user: SessionUser) {
 /** The order's charge as the provider's line items: goods at their tier price (in the shop's
  *  one tier wording), then shipping and tax. */
 export function chargeLinesFor(
-  lines: Omit<PricedLine, 'productId'>[], totals: Pick<Totals, 'shippingCents' | 'taxCents' | 'taxExempt' | 'taxRateBasisPoints' | 'taxState'>,
+  lines: Omit<PricedLine, 'productId'>[],
+  totals: Pick<Totals, 'shippingCents' | 'taxCents' | 'taxExempt' | 'taxRateBasisPoints' | 'taxState'>,
 ) {
   return [
     ...lines.map((l) => ({ description: `${l.name} (${lineTierWording(l)})`, quantity: l.quantity, unitAmountCents: l.unitPriceCents })),

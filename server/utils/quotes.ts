@@ -30,13 +30,16 @@ export async function renderQuotePdf(db: DbOrTx, q: QuoteRow) {
   return quotePdf({ ...q, number: q.number! }, d.lines, d.school, d.preparedFor)
 }
 
-export function quoteView(q: QuoteRow, lines: (typeof quoteLines.$inferSelect)[], school: { name: string; taxExemption: string }): QuoteView {
+export function quoteView(
+  q: QuoteRow, lines: (typeof quoteLines.$inferSelect)[], school: { name: string; taxExemption: string },
+): QuoteView {
   return {
     id: q.id, number: q.number!, createdAt: q.createdAt.toISOString(), validUntil: q.validUntil.toISOString(), valid: isQuoteValid(q), orderId: q.orderId,
     school: { name: school.name },
     exemptNow: school.taxExemption === 'accepted' && !q.taxExempt,
-    subtotalCents: q.subtotalCents, shippingCents: q.shippingCents, taxCents: q.taxCents, totalCents: q.totalCents, taxExempt: q.taxExempt, taxRateBasisPoints: q.taxRateBasisPoints, taxState: q.taxState,
-    lines: lines.map((l) => ({ productId: l.productId, name: l.name, quantity: l.quantity, tierMinQuantity: l.tierMinQuantity, unitPriceCents: l.unitPriceCents, lineTotalCents: l.lineTotalCents, tierLabel: l.tierLabel })),
+    subtotalCents: q.subtotalCents, shippingCents: q.shippingCents, taxCents: q.taxCents, totalCents: q.totalCents,
+    taxExempt: q.taxExempt, taxRateBasisPoints: q.taxRateBasisPoints, taxState: q.taxState,
+    lines: lines.map(pricedLineOf),
   }
 }
 

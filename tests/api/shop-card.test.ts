@@ -25,7 +25,8 @@ describe('catalog and cart pricing', () => {
     const a = await taxed.client.post('/api/cart/price', { lines })
     expect(a.status).toBe(200)
     expect(a.body.lines[0]).toMatchObject({ unitPriceCents: 11900, tierMinQuantity: 12, lineTotalCents: 142_800 })
-    expect(a.body).toMatchObject({ subtotalCents: 142_800, shippingCents: 8040, taxCents: 10_353, totalCents: 161_193, taxExempt: false })
+    // Tax 7.25 % of $1,428.00 = $103.53: the school is in California (7.25 % in shared/data/us-sales-tax.ts).
+    expect(a.body).toMatchObject({ subtotalCents: 142_800, shippingCents: 8040, taxCents: 10_353, totalCents: 161_193, taxExempt: false, taxState: 'CA' })
     const exempt = await signedIn('teacher@tiltwright.test')
     const b = await exempt.post('/api/cart/price', { lines })
     expect(b.body).toMatchObject({ taxCents: 0, taxExempt: true, totalCents: 142_800 + 8040 })

@@ -15,7 +15,8 @@ describe('quotes', () => {
     const days = (new Date(q.body.validUntil).getTime() - Date.now()) / 86_400_000
     expect(days).toBeGreaterThan(29.9)
     expect(days).toBeLessThanOrEqual(30)
-    // 12 × $24.50 = $294.00; 1.2 kg → $9.00 + 3 × $1.40 = $13.20; tax 7.25 % of $294.00 = $21.32 (half up from 21.315).
+    // 12 × $24.50 = $294.00; 1.2 kg → $9.00 + 3 × $1.40 = $13.20; tax 7.25 % of $294.00 = $21.32 (half up from
+    // 21.315): newTeacher's school is in California, 7.25 % in shared/data/us-sales-tax.ts.
     expect(q.body.totalCents).toBe(29_400 + 1320 + 2132)
 
     const res = await t.client.raw(`/api/quotes/${q.body.id}/pdf`)
