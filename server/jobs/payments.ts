@@ -47,7 +47,7 @@ export const issueInvoiceJob: JobDefinition<OrderJob> = {
     await recordInvoiceIssued(orderId, invoice)
   },
   async giveUp({ orderId }, _job, error) {
-    await addOrderEvent(useDb(), orderId, 'invoice-failed', `The invoice could not be issued at the payment service (${error}); retry it from the jobs list or issue it by hand.`)
+    await addOrderEvent(useDb(), orderId, 'invoice-failed', `The invoice could not be issued at the payment service (${error}). An admin can try again from the order page.`)
   },
 }
 

@@ -4,7 +4,7 @@
 // the payment provider). Routes authenticate, validate, call a step and reply.
 import { and, count, eq, inArray, isNull } from 'drizzle-orm'
 import {
-  batches, orderEvents, orderLines, orders, purchaseOrders, quotes, schools, shipments, stockReservations, storedFiles, users,
+  batches, jobs, orderEvents, orderLines, orders, purchaseOrders, quotes, schools, shipments, stockReservations, storedFiles, users,
 } from '../database/schema'
 import {
   ACTION_EVENT, ORDER_STATUS_LABELS, findTransition, flowWording, type Actor, type OrderAction, type PaymentMethod,
@@ -234,6 +234,21 @@ export async function approvePurchaseOrder(admin: SessionUser, orderId: number, 
     await enqueueMail(tx, 'po-approved', buyer.email, poApprovedMail(buyer.name, { number: order.number!, poNumber: po!.poNumber }, orderUrl(orderId)))
     await audit(tx, { actorId: admin.id, action: 'order.po-approved', subjectType: 'order', subjectId: orderId })
     return { jobId: (await enqueueJob(tx, 'issue-invoice', { orderId }, { uniqueKey: `invoice-${orderId}`, runHere: true }))! }
+  })
+}
+
+/** Tries the invoice of an approved purchase order again now (its job is reset if it had
+ *  been given up); 409 when the order is not waiting for one. */
+export async function retryInvoice(admin: SessionUser, orderId: number) {
+  actorOf(admin)
+  return transactionWithRetry(async (tx) => {
+    const order = await lockOrder(tx, orderId)
+    if (order.paymentMethod !== 'purchase-order' || order.status !== 'awaiting payment' || order.invoiceId) {
+      throw conflict('This order is not waiting for an invoice.', 'wrong-status')
+    }
+    const key = `invoice-${orderId}`
+    await tx.update(jobs).set({ state: 'pending', attempts: 0, nextAttemptAt: new Date() }).where(eq(jobs.uniqueKey, key))
+    return { jobId: (await enqueueJob(tx, 'issue-invoice', { orderId }, { uniqueKey: key, runHere: true }))! }
   })
 }
 

@@ -227,3 +227,26 @@ describe('who may order', () => {
     expect(tries.find((x) => x.status === 409)!.body.data.code).toBe('too-many-holds')
   })
 })
+
+describe('an invoice the payment service could not issue', () => {
+  it('keeps the approval, retries on its own, and lets an admin try again, issuing one invoice', async () => {
+    const admin = await signedIn('admin@tiltwright.test')
+    const { productId } = await productWithStock(admin, 10)
+    const t = await newTeacher('inv-down')
+    const r = await t.client.post('/api/checkout/purchase-order', poForm({ lines: [{ productId, quantity: 2 }], poNumber: 'DOWN-1' }))
+    const id = r.body.orderId
+    await simulator({ api: 'fail' })
+    const a = await admin.post(`/api/admin/orders/${id}/approve`, {})
+    expect(a.status).toBe(200)
+    expect(a.body).toMatchObject({ status: 'awaiting payment', invoice: null })
+    expect(a.body.notice).toMatch(/invoice will be issued as soon as it does/)
+    const again = await admin.post(`/api/admin/orders/${id}/invoice`, {})
+    expect(again.body.invoice).toBeNull()
+    await simulator({ api: 'normal' })
+    const order = await waitForOrder(admin, id, (o) => !!o.invoice, 20_000)
+    expect(order.events.filter((e: any) => e.kind === 'invoice-issued')).toHaveLength(1)
+    expect((await admin.post(`/api/admin/orders/${id}/invoice`, {})).status).toBe(409)
+    const invoices = await fakeStripe().invoices.list({ limit: 100 })
+    expect(invoices.data.filter((i) => i.metadata?.orderId === String(id) && i.status !== 'draft')).toHaveLength(1)
+  })
+})
