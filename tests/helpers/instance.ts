@@ -36,8 +36,8 @@ export function runAppExpectingExit(port: number, change: Record<string, string 
   })
 }
 
-export async function startAppInstance(port: number): Promise<AppInstance> {
-  const { url, child } = spawnApp(port)
+export async function startAppInstance(port: number, change: Record<string, string | undefined> = {}): Promise<AppInstance> {
+  const { url, child } = spawnApp(port, change)
   let log = ''
   child.stdout!.on('data', (d) => { log += d })
   child.stderr!.on('data', (d) => { log += d })
