@@ -1,5 +1,7 @@
 // Zod schemas shared by the sign-in pages and the auth routes: one rule, both sides.
 import { z } from 'zod'
+import { COUNTRY_CODES, REGIONS_BY_COUNTRY } from '../utils/regions'
+import { singleLine } from './text'
 
 const email = z.string({ error: 'Enter your e-mail address.' }).trim().toLowerCase()
   .min(1, 'Enter your e-mail address.').max(254, 'That e-mail address is too long.')
@@ -8,10 +10,10 @@ const email = z.string({ error: 'Enter your e-mail address.' }).trim().toLowerCa
 export const passwordRule = z.string({ error: 'Enter a password.' })
   .min(10, 'Use at least 10 characters.').max(200, 'Use at most 200 characters.')
 
-const text = (label: string, max: number) => z.string({ error: `Enter ${label}.` }).trim()
-  .min(1, `Enter ${label}.`).max(max, `Keep ${label} to ${max} characters or fewer.`)
-const optionalText = (label: string, max: number) => z.string().trim()
-  .max(max, `Keep ${label} to ${max} characters or fewer.`).optional().transform((v) => v || undefined)
+const text = (label: string, max: number) => singleLine(z.string({ error: `Enter ${label}.` }).trim()
+  .min(1, `Enter ${label}.`).max(max, `Keep ${label} to ${max} characters or fewer.`))
+const optionalText = (label: string, max: number) => singleLine(z.string().trim()
+  .max(max, `Keep ${label} to ${max} characters or fewer.`)).optional().transform((v) => v || undefined)
 
 export const schoolSchema = z.object({
   name: text('the school name', 160),
@@ -19,10 +21,16 @@ export const schoolSchema = z.object({
   addressLine1: text('the street address', 160),
   addressLine2: optionalText('the second address line', 160),
   city: text('the city', 100),
-  region: text('the state or region', 100),
+  region: z.string({ error: 'Enter the state.' }).trim().toUpperCase().min(1, 'Enter the state.'),
   postalCode: z.string({ error: 'Enter the postal code.' }).trim().min(3, 'Enter the postal code.').max(20, 'That postal code is too long.')
     .regex(/^[A-Za-z0-9][A-Za-z0-9 -]*$/, 'Use letters, digits, spaces and hyphens only.'),
-  country: z.string().trim().length(2, 'Use the two-letter country code, e.g. US.').toUpperCase().default('US'),
+  country: z.string({ error: 'Use the two-letter country code, e.g. US.' }).trim().toUpperCase()
+    .refine((c) => COUNTRY_CODES.includes(c), `Tiltwright ships to schools in: ${COUNTRY_CODES.join(', ')}.`).default('US'),
+}).superRefine((school, ctx) => {
+  const regions = REGIONS_BY_COUNTRY[school.country]
+  if (regions && school.region && !regions.includes(school.region)) {
+    ctx.addIssue({ code: 'custom', path: ['region'], message: 'Use the two-letter state code, e.g. CA.' })
+  }
 })
 
 export const registerSchema = z.object({

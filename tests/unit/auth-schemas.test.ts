@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { changePasswordSchema, loginSchema, registerSchema } from '../../shared/schemas/auth'
 import { fieldErrorsOf } from '../../shared/utils/field-errors'
 
-const school = { name: 'A School', addressLine1: '1 Road', city: 'Town', region: 'ST', postalCode: '12345' }
+const school = { name: 'A School', addressLine1: '1 Road', city: 'Town', region: 'OR', postalCode: '12345' }
 
 describe('auth schemas', () => {
   it('normalises the e-mail address and defaults the country', () => {

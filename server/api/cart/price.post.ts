@@ -4,12 +4,14 @@ import { z } from 'zod'
 import { cartLineSchema } from '../../../shared/schemas/shop'
 import type { PricedCart } from '../../../shared/types/shop'
 import { tierRangeLabel } from '../../../shared/utils/pricing'
+import { canSeePrices } from '../../../shared/utils/roles'
 
 const body = z.object({ lines: z.array(cartLineSchema).max(40, 'At most 40 different items in one order.') })
 
 export default defineEventHandler(async (event): Promise<PricedCart> => {
   const session = await getUserSession(event)
   const user = session.user ? await requireUser(event) : null
+  if (user && !canSeePrices(user)) throw forbidden('A builder\'s account shows no prices; your teacher orders the kits.')
   const input = await readBodyAs(event, body)
   const merged = [...input.lines.reduce((m, l) => m.set(l.productId, (m.get(l.productId) ?? 0) + l.quantity), new Map<number, number>())]
     .map(([productId, quantity]) => ({ productId, quantity }))
