@@ -22,7 +22,9 @@ export default defineEventHandler((event) => {
   const path = event.path
   if (path.startsWith('/api/') && path.split('?')[0]!.split('/').some(isDisguisedNumber)) throw notFound()
   const cookie = getRequestHeader(event, 'cookie') ?? ''
-  if (path.startsWith('/api/') || /(^|;\s*)nuxt-session=/.test(cookie)) setResponseHeader(event, 'Cache-Control', 'no-store')
+  if (path.startsWith('/api/') || /(^|;\s*)nuxt-session=/.test(cookie)) {
+    setResponseHeader(event, 'Cache-Control', 'no-store')
+  }
 
   if (!STATE_CHANGING.has(event.method) || NO_BROWSER_ORIGIN.some((p) => path.startsWith(p))) return
   const claimed = getRequestHeader(event, 'origin') ?? getRequestHeader(event, 'referer')

@@ -19,7 +19,7 @@ export function lineQuantityProblem(quantity: number, available?: number): strin
 
 export const cartLineSchema = z.object({
   productId: id('a product'),
-  quantity: wholeNumber('Enter the quantity as a whole number.').pipe(z.number().min(1, 'At least 1.')
+  quantity: wholeNumber('Enter the quantity as a whole number.', 'Use a whole number.').pipe(z.number().min(1, 'At least 1.')
     .max(MAX_LINE_QUANTITY, `At most ${MAX_LINE_QUANTITY} in one order.`)),
 })
 

@@ -16,10 +16,11 @@ export const singleLine = <S extends z.ZodType<string>>(schema: S) =>
 export const multiLine = <S extends z.ZodType<string | null | undefined>>(schema: S) =>
   schema.refine((v) => v == null || !MULTI_LINE_BAD.test(v), MULTI_LINE_MESSAGE)
 
-/** A whole number written as a number or as plain decimal digits; never true, [3] or "0x10". */
-export const wholeNumber = (message: string) => z.preprocess(
+/** A whole number written as a number or as plain decimal digits; never true, [3] or "0x10".
+ *  `message` answers what is no number at all, `fractionMessage` a number with a fraction. */
+export const wholeNumber = (message: string, fractionMessage = message) => z.preprocess(
   (v) => (typeof v === 'string' && /^\s*\d{1,9}\s*$/.test(v) ? Number(v) : v),
-  z.number({ error: message }).int(message),
+  z.number({ error: message }).int(fractionMessage),
 )
 
 /** A database id: a positive whole number, written in plain decimal when it arrives as text. */

@@ -86,3 +86,21 @@ describe('safeFilename', async () => {
     expect(safeFilename('', 'image/png', 'fallback')).toBe('fallback.png')
   })
 })
+
+describe('parseMultipart', async () => {
+  const { parseMultipart, dispositionParams } = await import('../../server/utils/multipart')
+  it('keeps a file name with = and other punctuation, and the fields beside it', () => {
+    const b = 'XyZ'
+    const body = Buffer.from([
+      `--${b}`, 'Content-Disposition: form-data; name="poNumber"', '', 'PO-77',
+      `--${b}`, 'Content-Disposition: form-data; name="poFile"; filename="PO=1234; v2 (final).pdf"', 'Content-Type: application/pdf', '',
+      '%PDF-1.4 bytes', `--${b}--`, '',
+    ].join('\r\n'))
+    const parts = parseMultipart(body, b)
+    expect(parts.map((p) => [p.name, p.filename, p.type, p.data.toString()])).toEqual([
+      ['poNumber', undefined, undefined, 'PO-77'],
+      ['poFile', 'PO=1234; v2 (final).pdf', 'application/pdf', '%PDF-1.4 bytes'],
+    ])
+    expect(dispositionParams('; name=plain; filename="a\\"b.pdf"')).toEqual({ name: 'plain', filename: 'a"b.pdf' })
+  })
+})

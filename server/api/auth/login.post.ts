@@ -9,7 +9,9 @@ export default defineEventHandler(async (event) => {
   const ok = await verifyPassword(row?.passwordHash ?? await dummyPasswordHash(), password)
   if (!row || !ok || row.disabledAt) {
     const message = 'That e-mail and password do not match an account.'
-    throw createError({ statusCode: 401, statusMessage: 'Unauthorized', message, data: { code: 'bad-credentials', fields: { password: message } } })
+    throw createError({
+      statusCode: 401, statusMessage: 'Unauthorized', message, data: { code: 'bad-credentials', fields: { password: message } },
+    })
   }
   await clearSignInAttempts(email, address)
   const user = toSessionUser(row)
