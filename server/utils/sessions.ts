@@ -10,6 +10,8 @@ import { userSessions, users } from '../database/schema'
 const hashOf = (sid: string) => createHash('sha256').update(sid).digest('hex')
 /** lastSeenAt is written at most this often per session, not on every request. */
 const TOUCH_EVERY_MS = 5 * 60_000
+/** A session unused for as long as the cookie lives (runtimeConfig.session.maxAge) is over. */
+const idleLimitMs = () => Number(useRuntimeConfig().session.maxAge ?? 14 * 86_400) * 1000
 
 /** "Firefox on Windows": the browser family and system only, never the full user-agent string. */
 export function deviceLabel(userAgent: string | undefined): string {
@@ -26,6 +28,7 @@ export async function startSession(event: H3Event, tx: DbOrTx, user: SessionUser
   const sid = randomBytes(32).toString('base64url')
   const device = deviceLabel(getRequestHeader(event, 'user-agent'))
   await tx.insert(userSessions).values({ userId: user.id, tokenHash: hashOf(sid), device })
+  await forgetRowsBefore(userSessions, userSessions.lastSeenAt, new Date(Date.now() - idleLimitMs()), tx)
   await replaceUserSession(event, { user, loggedInAt: Date.now(), secure: { sid } })
 }
 
@@ -42,7 +45,7 @@ export async function liveSession(event: H3Event): Promise<LiveSession | null> {
     const [hit] = await useDb().select({ s: userSessions, u: users }).from(userSessions)
       .innerJoin(users, eq(users.id, userSessions.userId))
       .where(and(eq(userSessions.tokenHash, hashOf(sid)), isNull(userSessions.revokedAt))).limit(1)
-    if (hit && !hit.u.disabledAt) {
+    if (hit && !hit.u.disabledAt && Date.now() - hit.s.lastSeenAt.getTime() < idleLimitMs()) {
       found = { sessionId: hit.s.id, row: hit.u }
       if (Date.now() - hit.s.lastSeenAt.getTime() > TOUCH_EVERY_MS) {
         await useDb().update(userSessions).set({ lastSeenAt: new Date() }).where(eq(userSessions.id, hit.s.id))

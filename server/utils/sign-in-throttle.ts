@@ -28,8 +28,8 @@ export async function claimSignInAttempt(event: H3Event, email: string, address:
     const wait = row ? row.nextAttemptAt.getTime() - now : 0
     if (wait > 0) return wait
     const attempts = (row?.attempts ?? 0) + 1
-    await tx.update(signInThrottles).set({ attempts, nextAttemptAt: new Date(now + delayAfter(attempts)), updatedAt: new Date(now) })
-      .where(pair(email, address))
+    const nextAttemptAt = new Date(now + delayAfter(attempts))
+    await tx.update(signInThrottles).set({ attempts, nextAttemptAt, updatedAt: new Date(now) }).where(pair(email, address))
     return 0
   })
   if (waitMs > 0) {
