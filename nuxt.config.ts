@@ -49,6 +49,9 @@ export default defineNuxtConfig({
     cardHoldHours: 48,
     cardHoldSweepMs: 600_000,
     publicUrl: 'http://localhost:3000',
+    // Comma-separated addresses of reverse proxies whose X-Forwarded-For is believed
+    // (NUXT_TRUSTED_PROXIES); empty: the direct peer is the client.
+    trustedProxies: '',
     fakePayments,
     // The payment SDK: key, API address (empty = the provider's own; in fake mode the app
     // itself at publicUrl) and the webhook signing secret. No secret lives here: they come from
@@ -63,11 +66,14 @@ export default defineNuxtConfig({
     // pdfkit embeds Nunito from here (the @fontsource files the pages use too).
     fontDir: resolve('node_modules/@fontsource/nunito/files'),
     public: { fakeServices: fakePayments },
-    session: { maxAge: 60 * 60 * 24 * 14 },
+    // The session cookie is Secure exactly when the app is served over HTTPS (browsers drop a
+    // Secure cookie over plain HTTP); NUXT_SESSION_COOKIE_SECURE overrides it at run time.
+    session: { maxAge: 60 * 60 * 24 * 14, cookie: { secure: secureCookies } },
   },
   security: {
     headers: {
       contentSecurityPolicy: {
+        'default-src': ["'self'"],
         'img-src': ["'self'", 'data:', 'blob:'],
         'upgrade-insecure-requests': false,
       },
@@ -78,7 +84,9 @@ export default defineNuxtConfig({
     // useApi() from the page's meta tag. The payment provider's webhook is exempt below.
     csrf: { https: secureCookies, methodsToProtect: ['POST', 'PUT', 'PATCH', 'DELETE'] },
     xssValidator: false,
-    requestSizeLimiter: { maxRequestSizeInBytes: 2_000_000, maxUploadFileRequestInBytes: 12_000_000 },
+    // Body sizes are limited while the body streams in (server/utils/body-limits.ts); the module's
+    // limiter only reads Content-Length, which a chunked request does not send.
+    requestSizeLimiter: false,
   },
   routeRules: {
     // The planner's computation is open to anyone and changes nothing: no CSRF token needed,

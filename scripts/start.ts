@@ -6,7 +6,7 @@ import { spawn, spawnSync, type ChildProcess } from 'node:child_process'
 import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { createConnection } from 'node:net'
-import { instance, projectRoot, startMariaDb, type Started } from './lib/mariadb'
+import { instance, ping, projectRoot, startMariaDb, type DbInstance, type Started } from './lib/mariadb'
 import { migrateDatabase } from './lib/migrate'
 import { seedDemo } from './seed'
 import { startMailCatcher, type Catcher } from './mail-catcher'
@@ -70,6 +70,29 @@ process.on('SIGHUP', () => void stop(0))
 const parentAtStart = process.ppid
 setInterval(() => { if (process.ppid !== parentAtStart) void stop(0) }, 1000).unref()
 
+// The private MariaDB this script started is watched: two missed pings in a row (5 s apart)
+// and it is started again on the same data, and the log says so. Meanwhile the app answers 503.
+function watchDatabase(target: DbInstance) {
+  let missed = 0
+  let restarting = false
+  setInterval(async () => {
+    if (stopping || restarting) return
+    if (ping(target)) { missed = 0; return }
+    if (++missed < 2) return
+    restarting = true
+    console.log('[tiltwright] the database stopped answering; restarting it…')
+    try {
+      db = await startMariaDb(target)
+      missed = 0
+      console.log(`[tiltwright] database restarted on 127.0.0.1:${target.port}`)
+    } catch (e) {
+      console.error(`[tiltwright] could not restart the database (${e instanceof Error ? e.message : e}); trying again shortly`)
+    } finally {
+      restarting = false
+    }
+  }, 5000).unref()
+}
+
 async function main() {
   mkdirSync(resolve(projectRoot, 'data'), { recursive: true })
   claimPidFile()
@@ -80,6 +103,7 @@ async function main() {
   const target = instance('dev', dbPort, 'tiltwright')
   db = await startMariaDb(target)
   console.log(`[tiltwright] MariaDB ${db.startedHere ? 'started' : 'already running'} on 127.0.0.1:${dbPort} (data in data/mariadb-dev)`)
+  if (db.startedHere) watchDatabase(target)
   await migrateDatabase(target.url)
   console.log('[tiltwright] migrations applied')
   const seeded = await seedDemo(target.url)
@@ -105,6 +129,8 @@ async function main() {
     NUXT_PUBLIC_URL: process.env.NUXT_PUBLIC_URL || `http://localhost:${port}`,
     // Per-install secrets (data/secrets.json, made on first start); the environment wins.
     ...secretsEnv(installSecrets(resolve(projectRoot, 'data', 'secrets.json')), process.env.TILTWRIGHT_FAKE_PAYMENTS !== '0'),
+    // A Secure session cookie only where the app is served over HTTPS.
+    NUXT_SESSION_COOKIE_SECURE: String((process.env.NUXT_PUBLIC_URL ?? '').startsWith('https://')),
   }
   const nuxt = resolve(projectRoot, 'node_modules/.bin/nuxt')
   if (dev) {

@@ -19,7 +19,7 @@ export const usePlannerStore = defineStore('planner', () => {
     { reading: 716, positionMm: 280 }, { reading: 921, positionMm: 360 },
   ])
   /** The sheet the draft was opened from, if any. */
-  const sheet = ref<{ id: number; title: string } | null>(null)
+  const sheet = ref<{ id: number; title: string; note?: string | null } | null>(null)
 
   function applyPreset(id: string) {
     const preset = KIT_PRESETS.find((p) => p.id === id)

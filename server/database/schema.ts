@@ -52,13 +52,40 @@ export const authTokens = mysqlTable('auth_tokens', {
   createdAt: createdAt(),
 }, (t) => [uniqueIndex('auth_tokens_hash_unique').on(t.tokenHash), index('auth_tokens_user_idx').on(t.userId)])
 
-/** Failed sign-ins, counted per account and per address to slow down guessing. */
-export const signInFailures = mysqlTable('sign_in_failures', {
+/** A signed-in browser. The session cookie names its id; a session is good only while its row
+ *  is here and not revoked, so signing out, a password change or a reset ends it at once. */
+export const userSessions = mysqlTable('user_sessions', {
+  id: id(),
+  userId: ref('user_id').notNull().references(() => users.id),
+  /** SHA-256 of the random id kept in the sealed cookie. */
+  tokenHash: varchar('token_hash', { length: 64 }).notNull(),
+  /** A coarse label such as "Firefox on Windows": enough to recognise a device, nothing more. */
+  device: varchar('device', { length: 60 }).notNull(),
+  lastSeenAt: datetime('last_seen_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  revokedAt: datetime('revoked_at', { mode: 'date', fsp: 3 }),
+  createdAt: createdAt(),
+}, (t) => [uniqueIndex('user_sessions_token_unique').on(t.tokenHash), index('user_sessions_user_idx').on(t.userId, t.revokedAt)])
+
+/** Wrong passwords for one account from one address: the pair is slowed down, never the
+ *  account for everyone nor the address for everyone. One row a pair, updated under a row lock. */
+export const signInThrottles = mysqlTable('sign_in_throttles', {
   id: id(),
   email: varchar('email', { length: 254 }).notNull(),
   address: varchar('address', { length: 64 }).notNull(),
-  createdAt: createdAt(),
-}, (t) => [index('sign_in_failures_email_idx').on(t.email, t.createdAt), index('sign_in_failures_address_idx').on(t.address, t.createdAt)])
+  /** Attempts counted since the last success (each counted before its password is checked). */
+  attempts: int('attempts').notNull().default(0),
+  nextAttemptAt: datetime('next_attempt_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  updatedAt: datetime('updated_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+}, (t) => [uniqueIndex('sign_in_throttles_pair_unique').on(t.email, t.address), index('sign_in_throttles_updated_idx').on(t.updatedAt)])
+
+/** Account mail sent per recipient, kind and hour: the cap on reset, verification and invitation mail. */
+export const mailQuota = mysqlTable('mail_quota', {
+  id: id(),
+  recipient: varchar('recipient', { length: 254 }).notNull(),
+  kind: varchar('kind', { length: 40 }).notNull(),
+  hourStart: datetime('hour_start', { mode: 'date', fsp: 3 }).notNull(),
+  sent: int('sent').notNull().default(0),
+}, (t) => [uniqueIndex('mail_quota_key_unique').on(t.recipient, t.kind, t.hourStart), index('mail_quota_hour_idx').on(t.hourStart)])
 
 export const JOB_STATES = ['pending', 'done', 'failed'] as const
 

@@ -5,6 +5,7 @@ import { join } from 'node:path'
 import PDFDocument from 'pdfkit'
 import { formatCents } from '../../shared/utils/pricing'
 import { VENDOR } from '../../shared/utils/vendor'
+import { palette } from '../../shared/utils/palette'
 
 export interface DocLineSpec { description: string; quantity: number; note?: string; unitCents?: number; totalCents?: number }
 
@@ -30,6 +31,7 @@ const COLORS = {
   faint: '#586170',
   rule: '#d5e6f0',
   go: '#2f7d4f',
+  stop: palette.stop.DEFAULT,
 }
 
 let fonts: { regular: Buffer; bold: Buffer; heavy: Buffer } | undefined
@@ -119,7 +121,7 @@ export function renderDocument(spec: DocSpec): Promise<Buffer> {
   if (spec.stamp) {
     // Beside the totals, on the empty left of their rows: nothing else is printed there.
     doc.save().rotate(-12, { origin: [left + 80, totalsTop + 24] })
-    doc.font('heavy').fontSize(30).fillColor(COLORS.go).opacity(0.75)
+    doc.font('heavy').fontSize(30).fillColor(spec.stamp === 'VOID' ? COLORS.stop : COLORS.go).opacity(0.75)
       .text(spec.stamp, left, totalsTop + 6, { width: 160, align: 'center' })
     doc.restore().opacity(1)
   }

@@ -31,11 +31,11 @@ const pricedLines = (lines: Line[]): DocLineSpec[] => lines.map((l) => ({
   note: `Classroom ${lineTierWording(l)}`,
 }))
 
-function totals(m: Money) {
+function totals(m: Money, charged = false) {
   return [
     { label: 'Subtotal', cents: m.subtotalCents },
     { label: m.shippingCents ? 'Shipping' : 'Shipping (free freight)', cents: m.shippingCents },
-    { label: taxLineLabel(m), cents: m.taxCents },
+    { label: taxLineLabel(m, { charged }), cents: m.taxCents },
     { label: 'Total (USD)', cents: m.totalCents, strong: true },
   ]
 }
@@ -68,11 +68,16 @@ export function quotePdf(q: Money & { number: string; createdAt: Date; validUnti
 
 export interface InvoiceInfo { number: string; dueAt: Date | null; poNumber: string; orderNumber: string; issuedAt: Date; payUrl: string | null }
 
+/** The invoice as accounts payable reads it; `paid` makes it the receipt. An invoice whose order
+ *  was cancelled says VOID and carries no payment instructions; one already paid says PAID. */
 export function invoicePdf(
-  inv: InvoiceInfo, money: OrderMoney, lines: Line[], school: School, apEmail: string, paid?: { at: Date; reference: string | null },
+  inv: InvoiceInfo, money: OrderMoney, lines: Line[], school: School, apEmail: string,
+  paid?: { at: Date; reference: string | null }, state: { voided?: boolean; settled?: boolean } = {},
 ) {
   const due = inv.dueAt ? toDate(inv.dueAt) : null
   const paidMeta: [string, string][] = paid ? [['Paid', `${toDate(paid.at)}${paid.reference ? ` (${paid.reference})` : ''}`]] : []
+  const owed = !paid && !state.voided && !state.settled
+  const stamp = state.voided ? 'VOID' : paid || state.settled ? 'PAID' : undefined
   return renderDocument({
     title: paid ? 'Receipt' : 'Invoice', number: inv.number,
     parties: [
@@ -81,20 +86,24 @@ export function invoicePdf(
     ],
     meta: [
       ['Invoice date', toDate(inv.issuedAt)], ['Order', inv.orderNumber], ['Purchase order', inv.poNumber],
-      ['Terms', `Net ${INVOICE_NET_DAYS}`], ['Due date', due ?? '—'], ['Our tax id', VENDOR.taxId], ...paidMeta,
+      ...(owed ? [['Terms', `Net ${INVOICE_NET_DAYS}`], ['Due date', due ?? '—']] as [string, string][] : []),
+      ['Our tax id', VENDOR.taxId], ...paidMeta,
     ],
-    lines: pricedLines(lines), showPrices: true, totals: totals(money), stamp: paid ? 'PAID' : undefined,
-    blocks: paid ? [] : [
-      { heading: 'Remit to', lines: [VENDOR.remitTo.join(', ')] },
-      {
-        heading: `How to pay ${formatCents(money.totalCents)} by ${due ?? 'the due date'}`,
-        lines: remittanceLines({ invoice: inv.number, po: inv.poNumber, payUrl: inv.payUrl }),
-      },
-    ],
+    lines: pricedLines(lines), showPrices: true, totals: totals(money, true), stamp,
+    blocks: state.voided
+      ? [{ heading: 'This invoice is void', lines: ['The order was cancelled, so nothing is owed on this invoice. Do not pay it.'] }]
+      : owed ? [
+        { heading: 'Remit to', lines: [VENDOR.remitTo.join(', ')] },
+        {
+          heading: `How to pay ${formatCents(money.totalCents)} by ${due ?? 'the due date'}`,
+          lines: remittanceLines({ invoice: inv.number, po: inv.poNumber, payUrl: inv.payUrl }),
+        },
+      ] : [],
     notes: [
       ...(paid ? [`Received with thanks: ${formatCents(money.totalCents)}. Keep this receipt with purchase order ${inv.poNumber}.`] : []),
-      ...taxNotes(money),
-      'The bank details and tax id above are invented for this demonstration.',
+      ...(state.settled && !paid ? [`Paid in full: ${formatCents(money.totalCents)}. Nothing more is owed.`] : []),
+      ...(state.voided ? [] : taxNotes(money, { charged: true })),
+      ...(owed ? ['The bank details and tax id above are invented for this demonstration.'] : []),
     ],
   })
 }
@@ -107,8 +116,8 @@ export function cardReceiptPdf(order: OrderMoney & { number: string; paidAt: Dat
       { label: 'Ship to', lines: shipToLines(order, school) },
     ],
     meta: [['Paid', toDate(order.paidAt)], ['Method', 'Card, online'], ['Order', order.number], ['Our tax id', VENDOR.taxId]],
-    lines: pricedLines(lines), showPrices: true, totals: totals(order), stamp: 'PAID',
-    notes: [`Received with thanks: ${formatCents(order.totalCents)}.`, ...taxNotes(order)],
+    lines: pricedLines(lines), showPrices: true, totals: totals(order, true), stamp: 'PAID',
+    notes: [`Received with thanks: ${formatCents(order.totalCents)}.`, ...taxNotes(order, { charged: true })],
   })
 }
 

@@ -21,3 +21,14 @@ export function passwordChangedMail(name: string) {
     { paragraph: 'The password of your Tiltwright account was just changed. If this was not you, reset it at once from the sign-in page and tell your school\'s IT contact.' },
   ])
 }
+
+export function accountExistsMail(name: string, signInUrl: string, resetUrl: string) {
+  return renderMail('You already have a Tiltwright account', `Hello ${name},`, [
+    {
+      paragraph: 'Someone (hopefully you) tried to open a new Tiltwright account with this e-mail address. '
+        + 'You already have one, so nothing was changed.',
+    },
+    { link: { label: 'Sign in', url: signInUrl } },
+    { paragraph: `Forgotten your password? Ask for a reset link at ${resetUrl}. If this was not you, ignore this message.` },
+  ])
+}

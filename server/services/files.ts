@@ -24,9 +24,11 @@ export async function uploadProblem(file: IncomingFile | undefined, label: strin
   return { mime }
 }
 
-/** A safe display name: the original's base name without odd characters, with the real extension. */
+/** A safe display name: the original's base name keeping letters, digits and ordinary punctuation
+ *  (`PO=1234 (final), v2&3.pdf` stays readable) but no quotes, slashes, semicolons or control
+ *  characters, which could break the download's Content-Disposition header; the real extension. */
 export function safeFilename(original: string | undefined, mime: (typeof UPLOAD_TYPES)[number], fallback: string) {
-  const base = (original ?? '').split(/[\\/]/).pop()!.replace(/\.[^.]*$/, '').replace(/[^\w .-]+/g, '').trim().slice(0, 80)
+  const base = (original ?? '').split(/[\\/]/).pop()!.replace(/\.[^.]*$/, '').replace(/[^\w .,()=+&#@!~-]+/g, '').trim().slice(0, 80)
   return `${base || fallback}.${EXTENSIONS[mime]}`
 }
 

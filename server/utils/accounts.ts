@@ -1,7 +1,10 @@
-// Account queries that several auth routes share.
-import { eq } from 'drizzle-orm'
-import { users } from '../database/schema'
-import { passwordResetMail, verificationMail } from '../emails/account'
+// Account queries and mails that several auth routes share.
+import { and, eq, gt, isNull } from 'drizzle-orm'
+import { authTokens, users } from '../database/schema'
+import { accountExistsMail, passwordResetMail, verificationMail } from '../emails/account'
+
+/** A second reset mail within this time of the last is not sent. */
+export const RESET_RESEND_GAP_MS = 60_000
 
 export async function findUserByEmail(tx: DbOrTx, email: string) {
   const [row] = await tx.select().from(users).where(eq(users.email, email)).limit(1)
@@ -12,14 +15,40 @@ export function appUrl(path: string) {
   return new URL(path, useRuntimeConfig().publicUrl).toString()
 }
 
-export async function sendVerification(tx: DbOrTx, user: { id: number; name: string; email: string }) {
+type MailUser = { id: number; name: string; email: string }
+
+/** Sends a confirmation link unless the hour's cap for this address is reached; says whether it did. */
+export async function sendVerification(tx: DbOrTx, user: MailUser): Promise<boolean> {
+  if (!(await takeMailQuota(tx, 'verify-email', user.email))) return false
   const token = await issueToken(tx, user.id, 'verify-email')
   await enqueueMail(tx, 'verify-email', user.email, verificationMail(user.name, appUrl(`/verify-email?token=${token}`)))
+  return true
 }
 
-export async function sendPasswordReset(tx: DbOrTx, user: { id: number; name: string; email: string }) {
+/** Sends a reset link, except within a minute of the last one or past the hour's cap. Locks the
+ *  user's row first, so two requests at once cannot both pass the one-minute check. */
+export async function sendPasswordReset(tx: DbOrTx, user: MailUser): Promise<boolean> {
+  await tx.select({ id: users.id }).from(users).where(eq(users.id, user.id)).for('update')
+  const [recent] = await tx.select({ id: authTokens.id }).from(authTokens).where(and(
+    eq(authTokens.userId, user.id), eq(authTokens.purpose, 'reset-password'),
+    gt(authTokens.createdAt, new Date(Date.now() - RESET_RESEND_GAP_MS)),
+  )).limit(1)
+  if (recent || !(await takeMailQuota(tx, 'reset-password', user.email))) return false
   const token = await issueToken(tx, user.id, 'reset-password')
   await enqueueMail(tx, 'reset-password', user.email, passwordResetMail(user.name, appUrl(`/reset-password/${token}`)))
+  return true
+}
+
+/** Someone tried to register an address that already has an account: tell its owner, not the form. */
+export async function sendAccountExists(tx: DbOrTx, user: MailUser) {
+  if (!(await takeMailQuota(tx, 'account-exists', user.email))) return
+  await enqueueMail(tx, 'account-exists', user.email, accountExistsMail(user.name, appUrl('/login'), appUrl('/forgot-password')))
+}
+
+/** Using one reset link spends every other unused one of the account. */
+export async function spendResetLinks(tx: DbOrTx, userId: number) {
+  await tx.update(authTokens).set({ usedAt: new Date() })
+    .where(and(eq(authTokens.userId, userId), eq(authTokens.purpose, 'reset-password'), isNull(authTokens.usedAt)))
 }
 
 let dummy: Promise<string> | undefined
@@ -27,4 +56,16 @@ let dummy: Promise<string> | undefined
 export function dummyPasswordHash() {
   dummy ??= hashPassword('no account has this password')
   return dummy
+}
+
+/** Runs `work` and answers no sooner than `floorMs` after the start, so a reply's timing does not
+ *  tell whether an account exists (the work for a known address takes longer). */
+export async function withTimingFloor<T>(floorMs: number, work: () => Promise<T>): Promise<T> {
+  const started = Date.now()
+  try {
+    return await work()
+  } finally {
+    const left = floorMs - (Date.now() - started)
+    if (left > 0) await new Promise((r) => setTimeout(r, left))
+  }
 }

@@ -4,6 +4,7 @@
 import { and, desc, eq } from 'drizzle-orm'
 import { batches, shipments, stockReservations } from '../database/schema'
 import { cardReceiptPdf, invoicePdf, packingListPdf } from '../documents/shop'
+import { CLOSED_STATUSES } from '../../shared/utils/order-flow'
 
 export const ORDER_DOCUMENT_KINDS = ['invoice', 'receipt', 'packing-list'] as const
 export type OrderDocumentKind = (typeof ORDER_DOCUMENT_KINDS)[number]
@@ -21,7 +22,8 @@ export async function renderOrderDocument(db: DbOrTx, order: OrderRow, kind: Ord
       payUrl: order.invoiceVoidedAt ? null : order.invoiceUrl,
     }
     const paid = kind === 'receipt' ? { at: order.paidAt!, reference: order.paymentReference } : undefined
-    const pdf = await invoicePdf(info, order, lines, school, po.apEmail, paid)
+    const state = { voided: kind === 'invoice' && (!!order.invoiceVoidedAt || CLOSED_STATUSES.includes(order.status)), settled: !!order.paidAt }
+    const pdf = await invoicePdf(info, order, lines, school, po.apEmail, paid, state)
     return { filename: `Tiltwright-${kind}-${info.number}.pdf`, pdf }
   }
   if (kind === 'receipt' && order.paidAt) {

@@ -218,7 +218,7 @@ export function chargeLinesFor(
   return [
     ...lines.map((l) => ({ description: `${l.name} (${lineTierWording(l)})`, quantity: l.quantity, unitAmountCents: l.unitPriceCents })),
     ...(totals.shippingCents ? [{ description: 'Shipping', quantity: 1, unitAmountCents: totals.shippingCents }] : []),
-    ...(totals.taxCents ? [{ description: taxLineLabel(totals), quantity: 1, unitAmountCents: totals.taxCents }] : []),
+    ...(totals.taxCents ? [{ description: taxLineLabel(totals, { charged: true }), quantity: 1, unitAmountCents: totals.taxCents }] : []),
   ]
 }
 

@@ -1,39 +1,53 @@
-// Slows down password guessing: too many failures for one account, or from one address,
-// inside the window answer 429 until the oldest failure ages out.
+// Slows down password guessing per account *and* address: a school behind one address is not
+// locked out by someone else's typos, and nobody can lock an account for its owner elsewhere.
+// Each attempt is counted before its password is checked, under a row lock, so a parallel
+// burst gets at most `freeAttempts` checks; after that each further attempt waits longer
+// (doubling up to `maxDelayMs`). A success or a password reset clears the count.
 import type { H3Event } from 'h3'
-import { and, count, eq, gt, lt, min } from 'drizzle-orm'
-import { signInFailures } from '../database/schema'
+import { and, eq } from 'drizzle-orm'
+import { clientAddress, parseTrustedProxies } from '../../shared/utils/client-address'
+import { delayAfter, THROTTLE } from '../../shared/utils/sign-in-rules'
+import { signInThrottles } from '../database/schema'
 
-export const THROTTLE = {
-  windowMs: 15 * 60_000,
-  perAccount: 5,
-  perAddress: 40,
-}
-
+/** The client's address: X-Forwarded-For only from a proxy named in runtimeConfig.trustedProxies. */
 export function requestAddress(event: H3Event): string {
-  return (getRequestIP(event, { xForwardedFor: false }) ?? 'unknown').slice(0, 64)
+  const trusted = parseTrustedProxies(String(useRuntimeConfig(event).trustedProxies ?? ''))
+  return clientAddress(event.node.req.socket.remoteAddress, getRequestHeader(event, 'x-forwarded-for'), trusted)
 }
 
-export async function assertSignInAllowed(email: string, address: string) {
+const pair = (email: string, address: string) => and(eq(signInThrottles.email, email), eq(signInThrottles.address, address))
+
+/** Counts one attempt for the pair, or answers 429 (with Retry-After) while it must wait. */
+export async function claimSignInAttempt(event: H3Event, email: string, address: string) {
   const db = useDb()
-  const since = new Date(Date.now() - THROTTLE.windowMs)
-  for (const [column, value, limit] of [[signInFailures.email, email, THROTTLE.perAccount], [signInFailures.address, address, THROTTLE.perAddress]] as const) {
-    const [row] = await db.select({ n: count(), oldest: min(signInFailures.createdAt) }).from(signInFailures)
-      .where(and(eq(column, value), gt(signInFailures.createdAt, since)))
-    if (row && row.n >= limit) {
-      const oldest = row.oldest ? new Date(row.oldest).getTime() : Date.now()
-      const retry = Math.max(1, Math.ceil((oldest + THROTTLE.windowMs - Date.now()) / 1000))
-      throw tooManyRequests(`Too many failed sign-ins. Try again in ${Math.ceil(retry / 60)} minute(s), or reset your password.`, retry)
-    }
+  // The row exists before the locking read, so the lock is a plain row lock (no gap-lock deadlocks).
+  await db.insert(signInThrottles).ignore().values({ email, address })
+  const waitMs = await db.transaction(async (tx) => {
+    const [row] = await tx.select().from(signInThrottles).where(pair(email, address)).for('update')
+    const now = Date.now()
+    const wait = row ? row.nextAttemptAt.getTime() - now : 0
+    if (wait > 0) return wait
+    const attempts = (row?.attempts ?? 0) + 1
+    const nextAttemptAt = new Date(now + delayAfter(attempts))
+    await tx.update(signInThrottles).set({ attempts, nextAttemptAt, updatedAt: new Date(now) }).where(pair(email, address))
+    return 0
+  })
+  if (waitMs > 0) {
+    const retry = Math.ceil(waitMs / 1000)
+    setResponseHeader(event, 'Retry-After', retry)
+    const when = retry < 90 ? `${retry} seconds` : `${Math.ceil(retry / 60)} minutes`
+    throw tooManyRequests(`Too many failed sign-ins from here. Try again in ${when}, or reset your password.`, retry)
   }
 }
 
-export async function recordSignInFailure(email: string, address: string) {
-  const db = useDb()
-  await db.insert(signInFailures).values({ email, address })
-  await db.delete(signInFailures).where(lt(signInFailures.createdAt, new Date(Date.now() - 24 * 3600_000)))
+/** The right password: the pair starts afresh. */
+export async function clearSignInAttempts(email: string, address: string) {
+  await useDb().delete(signInThrottles).where(pair(email, address))
+  await forgetRowsBefore(signInThrottles, signInThrottles.updatedAt, new Date(Date.now() - THROTTLE.forgetAfterMs))
 }
 
-export async function clearSignInFailures(email: string) {
-  await useDb().delete(signInFailures).where(eq(signInFailures.email, email))
+/** A password reset lets the owner in from anywhere. */
+export async function clearSignInThrottles(tx: DbOrTx, email: string) {
+  await tx.delete(signInThrottles).where(eq(signInThrottles.email, email))
 }
+

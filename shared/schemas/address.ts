@@ -3,11 +3,12 @@
 // sales-tax rate the ship-to state decides.
 import { z } from 'zod'
 import { US_STATE_CODES } from '../utils/tax'
+import { singleLine } from './text'
 
-const text = (label: string, max: number) => z.string({ error: `Enter ${label}.` }).trim()
-  .min(1, `Enter ${label}.`).max(max, `Keep ${label} to ${max} characters or fewer.`)
-const optionalText = (label: string, max: number) => z.string().trim()
-  .max(max, `Keep ${label} to ${max} characters or fewer.`).nullish().transform((v) => v || null)
+const text = (label: string, max: number) => singleLine(z.string({ error: `Enter ${label}.` }).trim()
+  .min(1, `Enter ${label}.`).max(max, `Keep ${label} to ${max} characters or fewer.`))
+const optionalText = (label: string, max: number) => singleLine(z.string().trim()
+  .max(max, `Keep ${label} to ${max} characters or fewer.`)).nullish().transform((v) => v || null)
 
 /** A US state's two-letter code, as typed or chosen ("wa" reads WA). */
 export const usStateField = z.string({ error: 'Choose the state.' }).trim().toUpperCase()

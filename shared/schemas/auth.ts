@@ -1,6 +1,7 @@
 // Zod schemas shared by the sign-in pages and the auth routes: one rule, both sides.
 import { z } from 'zod'
 import { schoolAddressSchema } from './address'
+import { singleLine } from './text'
 
 const email = z.string({ error: 'Enter your e-mail address.' }).trim().toLowerCase()
   .min(1, 'Enter your e-mail address.').max(254, 'That e-mail address is too long.')
@@ -9,10 +10,10 @@ const email = z.string({ error: 'Enter your e-mail address.' }).trim().toLowerCa
 export const passwordRule = z.string({ error: 'Enter a password.' })
   .min(10, 'Use at least 10 characters.').max(200, 'Use at most 200 characters.')
 
-const text = (label: string, max: number) => z.string({ error: `Enter ${label}.` }).trim()
-  .min(1, `Enter ${label}.`).max(max, `Keep ${label} to ${max} characters or fewer.`)
-const optionalText = (label: string, max: number) => z.string().trim()
-  .max(max, `Keep ${label} to ${max} characters or fewer.`).optional().transform((v) => v || undefined)
+const text = (label: string, max: number) => singleLine(z.string({ error: `Enter ${label}.` }).trim()
+  .min(1, `Enter ${label}.`).max(max, `Keep ${label} to ${max} characters or fewer.`))
+const optionalText = (label: string, max: number) => singleLine(z.string().trim()
+  .max(max, `Keep ${label} to ${max} characters or fewer.`)).optional().transform((v) => v || undefined)
 
 export const schoolSchema = z.object({
   name: text('the school name', 160),

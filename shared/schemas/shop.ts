@@ -3,8 +3,9 @@ import { z } from 'zod'
 import { risingTierProblems, tierProblems } from '../utils/pricing'
 import { listQuerySchema } from './list'
 import { ORDER_STATUSES } from '../utils/order-flow'
+import { multiLine, plainId, singleLine, wholeNumber } from './text'
 
-const id = (what: string) => z.coerce.number({ error: `Choose ${what}.` }).int(`Choose ${what}.`).positive(`Choose ${what}.`)
+const id = (what: string) => plainId(`Choose ${what}.`)
 
 export const MAX_LINE_QUANTITY = 500
 
@@ -18,7 +19,8 @@ export function lineQuantityProblem(quantity: number, available?: number): strin
 
 export const cartLineSchema = z.object({
   productId: id('a product'),
-  quantity: z.coerce.number({ error: 'Enter a quantity.' }).int('Use a whole number.').min(1, 'At least 1.').max(MAX_LINE_QUANTITY, `At most ${MAX_LINE_QUANTITY} in one order.`),
+  quantity: wholeNumber('Enter the quantity as a whole number.', 'Use a whole number.').pipe(z.number().min(1, 'At least 1.')
+    .max(MAX_LINE_QUANTITY, `At most ${MAX_LINE_QUANTITY} in one order.`)),
 })
 
 export const linesSchema = z.array(cartLineSchema, { error: 'The cart is missing.' })
@@ -47,7 +49,7 @@ export const UPLOAD_LIMIT_BYTES = 5 * 1024 * 1024
 export const UPLOAD_TYPES = ['application/pdf', 'image/png', 'image/jpeg', 'image/webp'] as const
 
 export const rejectSchema = z.object({
-  reason: z.string({ error: 'Say why the purchase order is rejected.' }).trim().min(5, 'Say why in a few words (the teacher reads this).').max(500, 'Keep the reason to 500 characters or fewer.'),
+  reason: multiLine(z.string({ error: 'Say why the purchase order is rejected.' }).trim().min(5, 'Say why in a few words (the teacher reads this).').max(500, 'Keep the reason to 500 characters or fewer.')),
 })
 
 export const approveSchema = z.object({
@@ -55,13 +57,13 @@ export const approveSchema = z.object({
 })
 
 export const shipmentSchema = z.object({
-  carrier: z.string({ error: 'Enter the carrier.' }).trim().min(2, 'Enter the carrier.').max(60, 'Keep the carrier to 60 characters or fewer.'),
+  carrier: singleLine(z.string({ error: 'Enter the carrier.' }).trim().min(2, 'Enter the carrier.').max(60, 'Keep the carrier to 60 characters or fewer.')),
   tracking: z.string({ error: 'Enter the tracking number.' }).trim().min(4, 'Enter the tracking number.').max(80, 'Keep the tracking number to 80 characters or fewer.')
     .regex(/^[A-Za-z0-9 -]+$/, 'Use letters, digits, spaces and dashes only.'),
 })
 
 export const recordPaymentSchema = z.object({
-  reference: z.string({ error: 'Enter the payment reference.' }).trim().min(2, 'Enter the payment reference (cheque or transfer number).').max(120, 'Keep the reference to 120 characters or fewer.'),
+  reference: singleLine(z.string({ error: 'Enter the payment reference.' }).trim().min(2, 'Enter the payment reference (cheque or transfer number).').max(120, 'Keep the reference to 120 characters or fewer.')),
 })
 
 export const adminOrderListQuery = listQuerySchema(['number', 'createdAt', 'status', 'totalCents', 'school'] as const, 'createdAt').extend({
@@ -73,8 +75,8 @@ const slug = z.string({ error: 'Enter a slug.' }).trim().toLowerCase().min(2, 'E
   .regex(/^[a-z0-9]+(-[a-z0-9]+)*$/, 'Use lowercase letters, digits and single dashes, e.g. long-beam-kit.')
 
 export const tierSchema = z.object({
-  minQuantity: z.coerce.number({ error: 'Enter a quantity.' }).int('Use a whole number.').min(1, 'At least 1.').max(10_000, 'At most 10000.'),
-  unitPriceCents: z.coerce.number({ error: 'Enter a price.' }).int('Use whole cents.').min(1, 'Above zero.').max(10_000_000, 'That price is too high.'),
+  minQuantity: wholeNumber('Enter the quantity as a whole number.').pipe(z.number().min(1, 'At least 1.').max(10_000, 'At most 10000.')),
+  unitPriceCents: wholeNumber('Enter the price in whole cents.').pipe(z.number().min(1, 'Above zero.').max(10_000_000, 'That price is too high.')),
 })
 
 export const tiersSchema = z.array(tierSchema).superRefine((tiers, ctx) => {
@@ -86,19 +88,19 @@ export const tiersSchema = z.array(tierSchema).superRefine((tiers, ctx) => {
 })
 
 const specSchema = z.object({
-  label: z.string().trim().min(1, 'Name the spec.').max(60, 'Keep it short.'),
-  value: z.string().trim().min(1, 'Give the value.').max(160, 'Keep it short.'),
+  label: singleLine(z.string().trim().min(1, 'Name the spec.').max(60, 'Keep it short.')),
+  value: singleLine(z.string().trim().min(1, 'Give the value.').max(160, 'Keep it short.')),
 })
 
 export const productSchema = z.object({
   slug,
-  name: z.string({ error: 'Enter the name.' }).trim().min(2, 'Enter the name.').max(120, 'Keep the name to 120 characters or fewer.'),
+  name: singleLine(z.string({ error: 'Enter the name.' }).trim().min(2, 'Enter the name.').max(120, 'Keep the name to 120 characters or fewer.')),
   kind: z.enum(['kit', 'part'], { error: 'A product is a kit or a part.' }),
-  summary: z.string({ error: 'Enter a one-line summary.' }).trim().min(5, 'Enter a one-line summary.').max(300, 'Keep the summary to 300 characters or fewer.'),
-  description: z.string().trim().max(4000, 'Keep the description to 4000 characters or fewer.').default(''),
+  summary: singleLine(z.string({ error: 'Enter a one-line summary.' }).trim().min(5, 'Enter a one-line summary.').max(300, 'Keep the summary to 300 characters or fewer.')),
+  description: multiLine(z.string().trim().max(4000, 'Keep the description to 4000 characters or fewer.')).default(''),
   specs: z.array(specSchema).max(20, 'At most 20 specs.').default([]),
   image: z.string().trim().regex(/^\/catalog\/[a-z0-9-]+\.svg$/, 'Use a drawing from /catalog/, e.g. /catalog/rig-kit.svg.').default('/catalog/part.svg'),
-  weightGrams: z.coerce.number({ error: 'Enter the packed weight.' }).int('Use whole grams.').min(1, 'At least 1 g.').max(50_000, 'At most 50 kg.'),
+  weightGrams: wholeNumber('Enter the packed weight in whole grams.').pipe(z.number().min(1, 'At least 1 g.').max(50_000, 'At most 50 kg.')),
   active: z.boolean().default(true),
   tiers: tiersSchema,
 })
@@ -109,7 +111,7 @@ export const batchSchema = z.object({
   productId: id('a product'),
   code: z.string({ error: 'Enter the batch code.' }).trim().min(1, 'Enter the batch code.').max(40, 'Keep the code to 40 characters or fewer.')
     .regex(/^[A-Za-z0-9-]+$/, 'Use letters, digits and dashes only.'),
-  quantity: z.coerce.number({ error: 'Enter how many were built.' }).int('Use a whole number.').min(1, 'At least 1.').max(100_000, 'At most 100000.'),
+  quantity: wholeNumber('Enter how many were built, as a whole number.').pipe(z.number().min(1, 'At least 1.').max(100_000, 'At most 100000.')),
   builtOn: z.coerce.date({ error: 'Enter the date it was built.' }).optional(),
 })
 
@@ -122,11 +124,11 @@ export type ProductInput = z.input<typeof productSchema>
 
 /** An admin cancels with a reason the teacher and accounts payable read. */
 export const adminCancelSchema = z.object({
-  reason: z.string({ error: 'Say why the order is cancelled.' }).trim()
+  reason: multiLine(z.string({ error: 'Say why the order is cancelled.' }).trim()
     .min(5, 'Say why in a few words (the teacher and accounts payable read this).')
-    .max(500, 'Keep the reason to 500 characters or fewer.'),
+    .max(500, 'Keep the reason to 500 characters or fewer.')),
 })
 
 export const teacherCancelSchema = z.object({
-  reason: z.string().trim().max(500, 'Keep the reason to 500 characters or fewer.').optional(),
+  reason: multiLine(z.string().trim().max(500, 'Keep the reason to 500 characters or fewer.')).optional(),
 })

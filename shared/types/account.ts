@@ -6,3 +6,7 @@ export interface SchoolView {
 }
 
 export interface AccountReply { user: SessionUser; school: SchoolView | null }
+
+/** A signed-in browser as the account page lists it. */
+export interface SessionView { id: number; device: string; signedInAt: string; lastSeenAt: string; current: boolean }
+export interface SessionsReply { data: SessionView[] }

@@ -5,6 +5,10 @@ declare module '#auth-utils' {
   interface UserSession {
     loggedInAt: number
   }
+  /** Kept in the sealed cookie only; never sent to the page. */
+  interface SecureSessionData {
+    sid: string
+  }
 }
 
 export {}

@@ -20,11 +20,22 @@ export const isCustomer = (u: Who) => u?.role === 'teacher' || u?.role === 'buil
 
 /** Teachers buy; builders never see prices, payments or invoices. */
 export const canBuy = (u: Who) => u?.role === 'teacher'
+/** Prices are public, but a student builder's pages never show money. */
+export const canSeePrices = (u: Who) => u?.role !== 'builder'
+
+/** Where each role starts after signing in: builders at the planner (their sheets are a click
+ *  away), staff at their desk, teachers at home. */
+export function landingFor(u: Who): string {
+  if (u?.role === 'builder') return '/planner'
+  if (isStaff(u)) return '/staff'
+  return '/'
+}
 export const canUseHelpQueue = isStaff
 export const canManageCatalog = isAdmin
 export const canManageStaff = isAdmin
-/** The caught-mail viewer exists only while the local fakes are on, and only for staff. */
-export const canReadCaughtMail = isStaff
+/** The caught-mail viewer exists only while the local fakes are on, and only for admins
+ *  (its single-use links are masked even then). */
+export const canReadCaughtMail = isAdmin
 
 export const ROLE_LABELS: Record<Role, string> = {
   teacher: 'Teacher',

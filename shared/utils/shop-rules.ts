@@ -48,7 +48,7 @@ export function releasedWords(units: number): string {
 /** What the order page says about shipping, in words that match the order's state. */
 export function shippingNote(order: { status: OrderStatus; paymentMethod: PaymentMethod; allocated?: boolean; purchaseOrder?: { status: string; rejectReason: string | null } | null }): string {
   if (order.status === 'rejected') {
-    return `Purchase order rejected: ${order.purchaseOrder?.rejectReason ?? 'it was not accepted'}. Nothing will ship.`
+    return `Purchase order rejected: ${(order.purchaseOrder?.rejectReason ?? 'it was not accepted').trim().replace(/[.!]+$/, '')}. Nothing will ship.`
   }
   if (order.status === 'cancelled') return 'Cancelled: nothing will ship.'
   if (order.status === 'shipped' || order.status === 'delivered') return 'Shipped.'

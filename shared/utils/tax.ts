@@ -32,22 +32,29 @@ export function formatRate(basisPoints: number): string {
 type TaxFacts = Pick<Totals, 'taxExempt' | 'taxRateBasisPoints' | 'taxState'>
 
 /** The tax line's label on pages, documents and the payment provider's line items. */
-export function taxLineLabel(t: TaxFacts): string {
+export function taxLineLabel(t: TaxFacts, opts: { charged?: boolean } = {}): string {
+  // A bill or receipt states the tax it charges; only quotes and carts call it an estimate.
+  const estimate = opts.charged ? '' : ', estimated'
   if (t.taxExempt) return 'Sales tax: exemption applied'
   if (!t.taxState) {
-    return t.taxRateBasisPoints ? `Sales tax (${formatRate(t.taxRateBasisPoints)}, estimated)` : 'Sales tax (by ship-to state)'
+    return t.taxRateBasisPoints ? `Sales tax (${formatRate(t.taxRateBasisPoints)}${estimate})` : 'Sales tax (by ship-to state)'
   }
   if (!t.taxRateBasisPoints) return `Sales tax (${t.taxState}: no state sales tax)`
-  return `Sales tax (${t.taxState} ${formatRate(t.taxRateBasisPoints)}, estimated)`
+  return `Sales tax (${t.taxState} ${formatRate(t.taxRateBasisPoints)}${estimate})`
 }
 
-/** What a document says about its tax, in full sentences. */
-export function taxNotes(t: TaxFacts): string[] {
+/** What a document says about its tax, in full sentences. A bill or receipt (`charged`) says
+ *  what the charged rate covers; a quote says it is an estimate. */
+export function taxNotes(t: TaxFacts, opts: { charged?: boolean } = {}): string[] {
   if (t.taxExempt) {
     return ['Tax exemption applied: the school\'s tax-exemption certificate is accepted, so no sales tax is charged. '
       + 'The school\'s business office decides whether its exemption covers this purchase.']
   }
   const where = t.taxState ? ` (${usState(t.taxState)?.name ?? t.taxState})` : ''
+  if (opts.charged) {
+    return [`Sales tax is charged at the ship-to state's base rate${where}; local (county and city) add-on rates `
+      + 'are not included. The school\'s business office decides whether the school is exempt.']
+  }
   return [`Sales tax is an estimate at the ship-to state's base rate${where}; `
     + 'local (county and city) add-on rates are not included. The school\'s business office decides '
     + 'whether the school is exempt; send us its exemption certificate and we charge no sales tax on later orders.']

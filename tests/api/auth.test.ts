@@ -17,12 +17,14 @@ describe('register and verify', () => {
     expect(html).toContain('Tiltwright')
   })
 
-  it('registers a teacher and school, signs them in, and verifies the address from the e-mailed link', async () => {
+  it('registers a teacher and school, who signs in and verifies the address from the e-mailed link', async () => {
     const c = new Client()
     const email = uniqueEmail('reg')
     const r = await c.post('/api/auth/register', { name: 'Avery Lin', email, password: 'a-long-password-1', school })
     expect(r.status).toBe(201)
-    expect(r.body.user).toMatchObject({ email, role: 'teacher', verified: false })
+    expect(r.body.user).toBeUndefined()
+    expect((await c.get('/api/_auth/session')).body.user).toBeUndefined()
+    expect(await c.signIn(email, 'a-long-password-1')).toMatchObject({ email, role: 'teacher', verified: false })
 
     const session = await c.get('/api/_auth/session')
     expect(session.body.user).toMatchObject({ email, name: 'Avery Lin', role: 'teacher' })
@@ -39,11 +41,18 @@ describe('register and verify', () => {
     expect(again.body.data.code).toBe('token-invalid')
   })
 
-  it('refuses a duplicate e-mail with 409 and a field error', async () => {
-    const c = new Client()
-    const r = await c.post('/api/auth/register', { name: 'Someone', email: 'TEACHER@tiltwright.test', password: 'a-long-password-1', school })
-    expect(r.status).toBe(409)
-    expect(r.body.data.fields.email).toMatch(/already exists/)
+  it('answers a known address exactly as a new one and tells only the owner, by e-mail', async () => {
+    const owner = uniqueEmail('known')
+    await new Client().post('/api/auth/register', { name: 'First Owner', email: owner, password: 'owner-password-1', school })
+    const fresh = await new Client().post('/api/auth/register', { name: 'New Person', email: uniqueEmail('new'), password: 'a-long-password-1', school })
+    const again = await new Client().post('/api/auth/register', { name: 'Someone', email: owner.toUpperCase(), password: 'intruder-password', school })
+    expect(again.status).toBe(fresh.status)
+    expect(again.body).toEqual(fresh.body)
+    expect(again.headers.get('set-cookie') ?? '').not.toMatch(/nuxt-session=[^;]+/)
+    await waitForMail(owner, /already have a Tiltwright account/)
+    // Nothing of the account changed: the owner's password still works, the intruder's does not.
+    expect((await new Client().post('/api/auth/login', { email: owner, password: 'intruder-password' })).status).toBe(401)
+    await new Client().signIn(owner, 'owner-password-1')
   })
 
   it('answers bad input field by field with 422, never 500', async () => {
@@ -146,6 +155,7 @@ describe('password reset and change', () => {
     const c = new Client()
     const email = uniqueEmail('change')
     await c.post('/api/auth/register', { name: 'Careful Cam', email, password: 'first-password-1', school })
+    await c.signIn(email, 'first-password-1')
     const bad = await c.post('/api/account/password', { currentPassword: 'wrong-one-here', newPassword: 'second-password-2' })
     expect(bad.status).toBe(422)
     expect(bad.body.data.fields.currentPassword).toMatch(/not your current password/)

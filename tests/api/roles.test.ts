@@ -55,11 +55,23 @@ describe('role checks', () => {
     expect(dup.body.data.fields.email).toBeDefined()
   })
 
-  it('shows caught mail to staff only', async () => {
+  it('shows caught mail to admins only, with every single-use link masked', async () => {
     expect((await (await as('teacher')).get('/api/staff/mail')).status).toBe(403)
-    const support = await as('support')
-    const r = await support.get('/api/staff/mail')
+    // Support staff could otherwise read any customer's reset link and take the account over.
+    expect((await (await as('support')).get('/api/staff/mail')).status).toBe(403)
+    const email = uniqueEmail('masked')
+    await new Client().post('/api/auth/register', { name: 'Masked Mo', email, password: 'a-long-password-1',
+      school: { name: 'Mask School', addressLine1: '1 Way', city: 'Town', region: 'OR', postalCode: '97000' } })
+    await new Client().post('/api/auth/forgot-password', { email })
+    await waitForMail(email, /Reset your Tiltwright password/)
+    const r = await (await as('admin')).get('/api/staff/mail')
     expect(r.status).toBe(200)
-    expect(Array.isArray(r.body.data)).toBe(true)
+    const mine = r.body.data.filter((m: any) => m.to.includes(email))
+    expect(mine.length).toBe(2)
+    for (const m of mine) {
+      expect(m.text).toMatch(/(reset-password\/|verify-email\?token=)[A-Za-z0-9_-]{4}…\(hidden\)/)
+      expect(m.text).not.toMatch(/(reset-password\/|token=)[A-Za-z0-9_-]{20,}/)
+      expect(m.html ?? '').not.toMatch(/(reset-password\/|token=)[A-Za-z0-9_-]{20,}/)
+    }
   })
 })

@@ -9,7 +9,7 @@ import { inject } from 'vitest'
 import { Client } from '../helpers/client'
 import { mailsTo, waitForMail } from '../helpers/mail'
 import {
-  APPROVE, PUBLISHED_KEY, PUBLISHED_WEBHOOK_SECRET, fakeStripe, newTeacher, payOnPage, poForm, productWithStock,
+  APPROVE, PUBLISHED_KEY, PUBLISHED_WEBHOOK_SECRET, fakeStripe, newTeacher, payOnPage, pdfText, poForm, productWithStock,
   signedIn, simulator, waitForOrder,
 } from '../helpers/shop'
 import { killDatabase, restartDatabase, startAppInstance } from '../helpers/instance'
@@ -123,6 +123,12 @@ describe('money for an order that ended', () => {
     expect(inv.status).toBe('void')
     const page = await fetch(approved.body.payUrl)
     expect(await page.text()).toMatch(/void/i)
+    // The invoice PDF now says VOID and no longer tells accounts payable how to pay.
+    const doc = await admin.raw(`/api/orders/${id}/documents/invoice`)
+    const text = await pdfText(new Uint8Array(await doc.arrayBuffer()))
+    expect(text).toContain('This invoice is void')
+    expect(text).toContain('VOID')
+    expect(text).not.toMatch(/How to pay|Remit to|Due date/)
     for (const to of ['ap-void@district.test', t.email]) {
       const mail = await waitForMail(to, /is void: do not pay it$/)
       expect(mail.text).toContain('VOID-77')

@@ -3,6 +3,7 @@
 import { inject } from 'vitest'
 
 export interface Reply<T = any> { status: number; body: T; headers: Headers }
+export interface RequestOptions { csrf?: boolean; headers?: Record<string, string> }
 
 export class Client {
   readonly baseUrl = inject('baseUrl')
@@ -40,9 +41,27 @@ export class Client {
     return html
   }
 
-  async request<T = any>(method: string, path: string, body?: unknown, opts: { csrf?: boolean } = {}): Promise<Reply<T>> {
+  /** A second client holding a copy of this one's cookies and CSRF token (a stolen cookie). */
+  clone(): Client {
+    const copy = new Client()
+    for (const [k, v] of this.cookies) copy.cookies.set(k, v)
+    copy.csrf = this.csrf
+    return copy
+  }
+
+  /** The cookie and CSRF headers this client would send, for a raw node:http request. */
+  async authHeaders(): Promise<Record<string, string>> {
+    if (!this.csrf) await this.page('/')
+    return { cookie: this.cookieHeader(), 'csrf-token': this.csrf }
+  }
+
+  cookie(name: string): string | undefined {
+    return this.cookies.get(name)
+  }
+
+  async request<T = any>(method: string, path: string, body?: unknown, opts: RequestOptions = {}): Promise<Reply<T>> {
     if (method !== 'GET' && opts.csrf !== false && !this.csrf) await this.page('/')
-    const headers: Record<string, string> = {}
+    const headers: Record<string, string> = { ...opts.headers }
     if (body !== undefined && !(body instanceof FormData)) headers['content-type'] = 'application/json'
     if (method !== 'GET' && opts.csrf !== false) headers['csrf-token'] = this.csrf
     const res = await this.raw(path, { method, headers, body: body === undefined ? undefined : body instanceof FormData ? body : typeof body === 'string' ? body : JSON.stringify(body) })
@@ -53,7 +72,8 @@ export class Client {
   }
 
   get<T = any>(path: string) { return this.request<T>('GET', path) }
-  post<T = any>(path: string, body?: unknown, opts?: { csrf?: boolean }) { return this.request<T>('POST', path, body ?? {}, opts) }
+  post<T = any>(path: string, body?: unknown, opts?: RequestOptions) { return this.request<T>('POST', path, body ?? {}, opts) }
+  delete<T = any>(path: string) { return this.request<T>('DELETE', path) }
   patch<T = any>(path: string, body?: unknown) { return this.request<T>('PATCH', path, body ?? {}) }
 
   async signIn(email: string, password = 'tiltwright-demo') {

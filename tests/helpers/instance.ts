@@ -4,10 +4,9 @@ import { spawn, type ChildProcess } from 'node:child_process'
 import { readFileSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { inject } from 'vitest'
-import { instance, projectRoot, startMariaDb } from '../../scripts/lib/mariadb'
+import { projectRoot, startMariaDb } from '../../scripts/lib/mariadb'
+import { SUFFIX, testDatabase } from '../setup/slot'
 
-const SLOT = Number(process.env.TILTWRIGHT_TEST_SLOT || 0)
-const SUFFIX = SLOT ? String(SLOT) : ''
 
 export interface AppInstance { url: string; process: ChildProcess; log: () => string; kill: (signal?: NodeJS.Signals) => Promise<void> }
 
@@ -60,8 +59,7 @@ export async function startAppInstance(port: number, change: Record<string, stri
   }
 }
 
-/** The test database, as the global set-up started it. */
-export const testDb = () => instance(`test${SUFFIX}`, inject('dbPort'), 'tiltwright_test')
+const testDb = testDatabase
 
 /** Kills the test MariaDB at once (no clean shutdown), as a crash would. */
 export function killDatabase() {

@@ -4,33 +4,24 @@
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process'
 import { resolve } from 'node:path'
 import type { TestProject } from 'vitest/node'
-import { instance, projectRoot, startMariaDb } from '../../scripts/lib/mariadb'
+import { projectRoot, startMariaDb } from '../../scripts/lib/mariadb'
 import { migrateDatabase } from '../../scripts/lib/migrate'
 import { seedDemo } from '../../scripts/seed'
 import { startMailCatcher } from '../../scripts/mail-catcher'
 import { ensureDebianPackage } from '../../scripts/lib/system'
 import { newSecrets, secretsEnv } from '../../scripts/lib/secrets'
-
-// TILTWRIGHT_TEST_SLOT lets two suites run side by side on one machine (each slot has its
-// own ports, data folder and build folders).
-const SLOT = Number(process.env.TILTWRIGHT_TEST_SLOT || 0)
-// A step of 100 keeps every slot's four ports clear of every other slot's.
-const APP_PORT = 3417 + SLOT * 100
-const SMTP_PORT = 2525 + SLOT * 100
-const MAIL_HTTP_PORT = 2580 + SLOT * 100
-const DB_PORT = 3407 + SLOT * 100
-const SUFFIX = SLOT ? String(SLOT) : ''
+import { APP_PORT, DB_PORT, MAIL_HTTP_PORT, SMTP_PORT, SUFFIX, testDatabase } from './slot'
 
 declare module 'vitest' {
   export interface ProvidedContext {
-    baseUrl: string; mailUrl: string; dbUrl: string; chromium: string
+    baseUrl: string; mailUrl: string; dbUrl: string; chromium: string; appPid: number
     paymentsKey: string; webhookSecret: string; appEnv: Record<string, string>; dbPort: number
   }
 }
 
 export default async function setup(project: TestProject) {
   const chromium = ensureDebianPackage('chromium', 'chromium', 'the browser tests drive Debian\'s Chromium')
-  const db = await startMariaDb(instance(`test${SUFFIX}`, DB_PORT, 'tiltwright_test'), { fresh: true })
+  const db = await startMariaDb(testDatabase(), { fresh: true })
   await migrateDatabase(db.db.url)
   await seedDemo(db.db.url)
   const catcher = await startMailCatcher({ smtpPort: SMTP_PORT, httpPort: MAIL_HTTP_PORT, name: `test${SUFFIX}`, quiet: true })
@@ -61,6 +52,8 @@ export default async function setup(project: TestProject) {
     NUXT_OUTBOX_RETRY_BASE_MS: '400',
     // Sweep stale card orders every second, so the hold test need not wait 10 minutes.
     NUXT_CARD_HOLD_SWEEP_MS: '1000',
+    // Requests from 127.0.0.2 stand for a reverse proxy (the throttle test connects from there).
+    NUXT_TRUSTED_PROXIES: '127.0.0.2',
     ...secretsEnv(secrets, true, {}),
   }
   const app: ChildProcess = spawn(process.execPath, [resolve(projectRoot, `.output-test${SUFFIX}/server/index.mjs`)], {
@@ -92,6 +85,7 @@ export default async function setup(project: TestProject) {
   project.provide('mailUrl', `http://127.0.0.1:${MAIL_HTTP_PORT}`)
   project.provide('dbUrl', db.db.url)
   project.provide('chromium', chromium)
+  project.provide('appPid', app.pid!)
   project.provide('paymentsKey', secrets.paymentsSecretKey)
   project.provide('webhookSecret', secrets.paymentsWebhookSecret)
   project.provide('appEnv', appEnv)

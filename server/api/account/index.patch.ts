@@ -7,6 +7,6 @@ export default defineEventHandler(async (event) => {
   const { name } = await readBodyAs(event, accountSchema)
   await useDb().update(users).set({ name }).where(eq(users.id, user.id))
   const updated = { ...user, name }
-  await signIn(event, updated)
+  await refreshSessionUser(event, updated)
   return { user: updated }
 })

@@ -1,3 +1,4 @@
+// A new password ends every other session of the account; this one stays signed in.
 import { eq } from 'drizzle-orm'
 import { changePasswordSchema } from '../../../shared/schemas/auth'
 import { users } from '../../database/schema'
@@ -5,6 +6,7 @@ import { passwordChangedMail } from '../../emails/account'
 
 export default defineEventHandler(async (event) => {
   const user = await requireUser(event)
+  const sessionId = await currentSessionId(event)
   const { currentPassword, newPassword } = await readBodyAs(event, changePasswordSchema)
   const db = useDb()
   const [row] = await db.select().from(users).where(eq(users.id, user.id)).limit(1)
@@ -14,6 +16,8 @@ export default defineEventHandler(async (event) => {
   const passwordHash = await hashPassword(newPassword)
   await db.transaction(async (tx) => {
     await tx.update(users).set({ passwordHash }).where(eq(users.id, user.id))
+    await revokeSessions(tx, user.id, sessionId)
+    await spendResetLinks(tx, user.id)
     await enqueueMail(tx, 'password-changed', user.email, passwordChangedMail(user.name))
     await audit(tx, { actorId: user.id, action: 'account.password-changed', subjectType: 'user', subjectId: user.id })
   })

@@ -1,4 +1,5 @@
+// Ends this browser's session: its row is revoked, so a copy of the cookie stops working too.
 export default defineEventHandler(async (event) => {
-  await clearUserSession(event)
+  await endSession(event)
   return { ok: true }
 })

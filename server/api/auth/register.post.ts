@@ -1,29 +1,32 @@
-// A teacher opens an account for their school. The account is signed in at once; the
-// verification link arrives by e-mail.
-import { eq } from 'drizzle-orm'
+// A teacher opens an account for their school. The answer is the same whether or not the
+// address already has an account (its owner gets a "you already have an account" mail
+// instead), so the form cannot be used to find out who has one. The page then signs in with
+// the password just chosen; the confirmation link arrives by e-mail.
 import { registerSchema } from '../../../shared/schemas/auth'
 import { schools, users } from '../../database/schema'
 
+export const REGISTERED_MESSAGE = 'Thank you. We sent a message to that address: open it to confirm the address.'
+
 export default defineEventHandler(async (event) => {
   const input = await readBodyAs(event, registerSchema)
+  // Hash before looking, so a known address costs the same time as a new one.
   const passwordHash = await hashPassword(input.password)
-  const db = useDb()
-  let userId: number
-  try {
-    userId = await db.transaction(async (tx) => {
-      const [school] = await tx.insert(schools).values(input.school).$returningId()
-      const [user] = await tx.insert(users).values({ email: input.email, name: input.name, passwordHash, role: 'teacher', schoolId: school!.id }).$returningId()
-      await sendVerification(tx, { id: user!.id, name: input.name, email: input.email })
-      await audit(tx, { actorId: user!.id, action: 'account.registered', subjectType: 'user', subjectId: user!.id })
-      return user!.id
-    })
-  } catch (e) {
-    if (isDuplicateKey(e)) throw conflict('An account with this e-mail address already exists. Sign in, or reset your password.', 'email-taken', { email: 'An account with this e-mail address already exists.' })
-    throw e
-  }
-  const [row] = await db.select().from(users).where(eq(users.id, userId)).limit(1)
-  const user = toSessionUser(row!)
-  await signIn(event, user)
+  await useDb().transaction(async (tx) => {
+    const known = await findUserByEmail(tx, input.email)
+    if (known) {
+      await sendAccountExists(tx, known)
+      return
+    }
+    const [school] = await tx.insert(schools).values(input.school).$returningId()
+    const [user] = await tx.insert(users).values({
+      email: input.email, name: input.name, passwordHash, role: 'teacher', schoolId: school!.id,
+    }).$returningId()
+    await sendVerification(tx, { id: user!.id, name: input.name, email: input.email })
+    await audit(tx, { actorId: user!.id, action: 'account.registered', subjectType: 'user', subjectId: user!.id })
+  }).catch((e) => {
+    // Two registrations of one new address at once: the loser is told nothing different either.
+    if (!isDuplicateKey(e)) throw e
+  })
   setResponseStatus(event, 201)
-  return { user }
+  return { message: REGISTERED_MESSAGE }
 })

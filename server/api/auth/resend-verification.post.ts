@@ -1,6 +1,8 @@
+// "Send it again" from the e-mail banner: sends only while the address is unconfirmed, and
+// says honestly whether a mail went out (the hourly cap may hold it back).
 export default defineEventHandler(async (event) => {
   const user = await requireUser(event)
   if (user.verified) return { sent: false, verified: true }
-  await useDb().transaction((tx) => sendVerification(tx, user))
-  return { sent: true }
+  const sent = await useDb().transaction((tx) => sendVerification(tx, user))
+  return { sent, verified: false }
 })

@@ -1,3 +1,6 @@
+// A reset link sets a new password once. Using it spends every other reset link of the
+// account, ends every session of the account, clears its sign-in throttles (the owner's way
+// back in) and signs this browser in with a new session.
 import { eq } from 'drizzle-orm'
 import { resetPasswordSchema } from '../../../shared/schemas/auth'
 import { users } from '../../database/schema'
@@ -6,19 +9,20 @@ import { passwordChangedMail } from '../../emails/account'
 export default defineEventHandler(async (event) => {
   const { token, password } = await readBodyAs(event, resetPasswordSchema)
   const passwordHash = await hashPassword(password)
-  const db = useDb()
-  const row = await db.transaction(async (tx) => {
+  const done = await useDb().transaction(async (tx) => {
     const id = await consumeToken(tx, token, 'reset-password')
-    if (id === null) return null
+    if (id === null) return false
     // Reading the link proves the address, so a reset also verifies it.
     await tx.update(users).set({ passwordHash, verifiedAt: new Date() }).where(eq(users.id, id))
     const [u] = await tx.select().from(users).where(eq(users.id, id)).limit(1)
+    await spendResetLinks(tx, id)
+    await revokeSessions(tx, id)
+    await clearSignInThrottles(tx, u!.email)
     await enqueueMail(tx, 'password-changed', u!.email, passwordChangedMail(u!.name))
     await audit(tx, { actorId: id, action: 'account.password-reset', subjectType: 'user', subjectId: id })
-    return u!
+    await startSession(event, tx, toSessionUser(u!))
+    return true
   })
-  if (!row) throw badRequest('This reset link has expired or was already used. Ask for a new one.', 'token-invalid')
-  await clearSignInFailures(row.email)
-  await signIn(event, toSessionUser(row))
+  if (!done) throw badRequest('This reset link has expired or was already used. Ask for a new one.', 'token-invalid')
   return { ok: true }
 })

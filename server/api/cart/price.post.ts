@@ -6,6 +6,7 @@ import { z } from 'zod'
 import { cartLineSchema } from '../../../shared/schemas/shop'
 import { usStateField } from '../../../shared/schemas/address'
 import type { PricedCart } from '../../../shared/types/shop'
+import { canSeePrices } from '../../../shared/utils/roles'
 
 const body = z.object({
   lines: z.array(cartLineSchema).max(40, 'At most 40 different items in one order.'),
@@ -15,6 +16,7 @@ const body = z.object({
 export default defineEventHandler(async (event): Promise<PricedCart> => {
   const session = await getUserSession(event)
   const user = session.user ? await requireUser(event) : null
+  if (user && !canSeePrices(user)) throw forbidden('A builder\'s account shows no prices; your teacher orders the kits.')
   const input = await readBodyAs(event, body)
   const merged = [...input.lines.reduce((m, l) => m.set(l.productId, (m.get(l.productId) ?? 0) + l.quantity), new Map<number, number>())]
     .map(([productId, quantity]) => ({ productId, quantity }))

@@ -19,7 +19,7 @@ export default defineEventHandler(async (event) => {
   assertMayOrder(user)
   let parts: MultiPartData[] | undefined
   try {
-    parts = await readMultipartFormData(event)
+    parts = await readMultipartParts(event)
   } catch {
     throw badRequest('The form could not be read. Send it as multipart/form-data.', 'bad-multipart')
   }

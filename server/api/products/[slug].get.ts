@@ -5,5 +5,6 @@ export default defineEventHandler(async (event): Promise<ProductDetail> => {
   if (!/^[a-z0-9-]{1,80}$/.test(slug)) throw notFound('That product')
   const [entry] = await loadCatalog(useDb(), { activeOnly: true, slug })
   if (!entry) throw notFound('That product')
-  return { ...productView(entry), description: entry.row.description, specs: entry.row.specs, weightGrams: entry.row.weightGrams }
+  const view = withoutPricesIf(await hidePricesFor(event), productView(entry))
+  return { ...view, description: entry.row.description, specs: entry.row.specs, weightGrams: entry.row.weightGrams }
 })

@@ -1,5 +1,7 @@
 // The public catalog: every product on sale with its classroom tiers and what is left.
-export default defineEventHandler(async () => {
+// A builder (a student) gets the kits without prices.
+export default defineEventHandler(async (event) => {
   const catalog = await loadCatalog(useDb(), { activeOnly: true })
-  return { data: catalog.map(productView) }
+  const hide = await hidePricesFor(event)
+  return { data: catalog.map((e) => withoutPricesIf(hide, productView(e))) }
 })

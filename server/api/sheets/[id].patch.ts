@@ -10,6 +10,11 @@ export default defineEventHandler(async (event) => {
   const input = await readBodyAs(event, updateSheetSchema)
   const sheet = await loadVisibleSheet(user, id)
   if (!canEditSheet(user, sheet)) throw forbidden('Only the sheet\'s author can change it.')
-  await useDb().update(tuningSheets).set({ ...(input.title ? { title: input.title } : {}), note: input.note }).where(eq(tuningSheets.id, id))
+  // A note left out of the body stays as it is (a rename sends only the title).
+  const changes = {
+    ...(input.title ? { title: input.title } : {}),
+    ...(input.note !== undefined ? { note: input.note } : {}),
+  }
+  if (Object.keys(changes).length) await useDb().update(tuningSheets).set(changes).where(eq(tuningSheets.id, id))
   return await loadVisibleSheet(user, id)
 })

@@ -1,0 +1,18 @@
+// Every request body passes through the limits of server/utils/body-limits.ts before any route
+// reads it; the routes then read the checked bytes (h3's readBody/readMultipartFormData take
+// them from event._requestBody).
+const WITH_BODY = new Set(['POST', 'PUT', 'PATCH', 'DELETE'])
+
+export default defineEventHandler(async (event) => {
+  if (!WITH_BODY.has(event.method)) return
+  const type = getRequestHeader(event, 'content-type') ?? ''
+  const boundary = type.startsWith('multipart/form-data') ? (type.match(/boundary="?([^";]+)"?/i)?.[1] ?? null) : null
+  const limit = boundary ? BODY_LIMITS.multipartBytes : BODY_LIMITS.bodyBytes
+  const declared = Number(getRequestHeader(event, 'content-length') || 0)
+  if (declared > limit) throw tooLarge(event, limit)
+  const chunked = /chunked/i.test(getRequestHeader(event, 'transfer-encoding') ?? '')
+  if (!declared && !chunked) return
+  const body = await readBodyWithin(event, limit, boundary)
+  // h3 takes a Buffer here as it is (readRawBody checks Buffer.isBuffer first).
+  if (body.length) event._requestBody = body as unknown as BodyInit
+})

@@ -1,0 +1,74 @@
+// Request size limits, enforced while the body streams in (server/middleware/body-limits.ts):
+// a declared Content-Length over the limit is refused before reading, and a chunked body is
+// refused with 413 the moment it passes the limit, so nothing past the limit is ever kept.
+import type { H3Event } from 'h3'
+import { UPLOAD_LIMIT_BYTES } from '../../shared/schemas/shop'
+
+export const BODY_LIMITS = {
+  /** JSON, form and any other non-multipart body. */
+  bodyBytes: 2_000_000,
+  /** A whole multipart request (a purchase order and a tax certificate with their fields). */
+  multipartBytes: 12_000_000,
+  /** One part of a multipart request: one file plus its part headers. */
+  partBytes: UPLOAD_LIMIT_BYTES + 16_384,
+}
+
+/** How long the rest of a refused body may keep arriving (read and dropped, never kept) after the
+ *  413 has gone out. Closing at once would reset the connection under the client before it has
+ *  read the answer; this lets it read the 413, then cuts off a sender that does not stop. */
+const DRAIN_AFTER_REFUSAL_MS = 3000
+
+export function tooLarge(event: H3Event, limit: number) {
+  const { req, res } = event.node
+  req.removeAllListeners('data')
+  req.resume()
+  res.once('finish', () => {
+    setTimeout(() => { if (!req.complete) req.socket.destroy() }, DRAIN_AFTER_REFUSAL_MS).unref()
+  })
+  const mb = Math.round((limit / 1_000_000) * 10) / 10
+  return createError({
+    statusCode: 413, statusMessage: 'Payload Too Large', message: `That is more than this form accepts (${mb} MB).`,
+    data: { code: 'too-large', limitBytes: limit },
+  })
+}
+
+/** Counts the bytes between multipart boundaries as they pass; calls `over` when a part is too big. */
+function partWatcher(boundary: string, maxPart: number) {
+  const delimiter = Buffer.from(`--${boundary}`)
+  let carry = Buffer.alloc(0)
+  let seen = 0 // bytes of the stream before `carry`
+  let partStart = 0
+  return (chunk: Buffer): boolean => {
+    const window = Buffer.concat([carry, chunk])
+    for (let i = window.indexOf(delimiter); i !== -1; i = window.indexOf(delimiter, i + 1)) {
+      partStart = Math.max(partStart, seen + i + delimiter.length)
+    }
+    const keep = Math.min(window.length, delimiter.length - 1)
+    seen += window.length - keep
+    carry = Buffer.from(window.subarray(window.length - keep))
+    return seen + carry.length - partStart <= maxPart
+  }
+}
+
+/** Reads the body with the limits above; rejects with 413 as soon as one is passed. */
+export function readBodyWithin(event: H3Event, limit: number, boundary: string | null): Promise<Buffer> {
+  const req = event.node.req
+  const partOk = boundary ? partWatcher(boundary, BODY_LIMITS.partBytes) : () => true
+  return new Promise((resolve, reject) => {
+    const chunks: Buffer[] = []
+    let total = 0
+    const refuse = (passed: number) => {
+      chunks.length = 0
+      reject(tooLarge(event, passed))
+    }
+    const onData = (chunk: Buffer) => {
+      total += chunk.length
+      if (total > limit) return refuse(limit)
+      if (!partOk(chunk)) return refuse(BODY_LIMITS.partBytes)
+      chunks.push(chunk)
+    }
+    req.on('data', onData)
+    req.once('end', () => resolve(Buffer.concat(chunks, total)))
+    req.once('error', reject)
+  })
+}
