@@ -17,8 +17,14 @@ export function appUrl(path: string) {
 
 type MailUser = { id: number; name: string; email: string }
 
+/** Locks the user's row for the rest of the transaction: one account mail at a time per person. */
+export async function lockUser(tx: DbOrTx, userId: number) {
+  await tx.select({ id: users.id }).from(users).where(eq(users.id, userId)).for('update')
+}
+
 /** Sends a confirmation link unless the hour's cap for this address is reached; says whether it did. */
 export async function sendVerification(tx: DbOrTx, user: MailUser): Promise<boolean> {
+  await lockUser(tx, user.id)
   if (!(await takeMailQuota(tx, 'verify-email', user.email))) return false
   const token = await issueToken(tx, user.id, 'verify-email')
   await enqueueMail(tx, 'verify-email', user.email, verificationMail(user.name, appUrl(`/verify-email?token=${token}`)))
@@ -28,7 +34,7 @@ export async function sendVerification(tx: DbOrTx, user: MailUser): Promise<bool
 /** Sends a reset link, except within a minute of the last one or past the hour's cap. Locks the
  *  user's row first, so two requests at once cannot both pass the one-minute check. */
 export async function sendPasswordReset(tx: DbOrTx, user: MailUser): Promise<boolean> {
-  await tx.select({ id: users.id }).from(users).where(eq(users.id, user.id)).for('update')
+  await lockUser(tx, user.id)
   const [recent] = await tx.select({ id: authTokens.id }).from(authTokens).where(and(
     eq(authTokens.userId, user.id), eq(authTokens.purpose, 'reset-password'),
     gt(authTokens.createdAt, new Date(Date.now() - RESET_RESEND_GAP_MS)),
@@ -41,6 +47,7 @@ export async function sendPasswordReset(tx: DbOrTx, user: MailUser): Promise<boo
 
 /** Someone tried to register an address that already has an account: tell its owner, not the form. */
 export async function sendAccountExists(tx: DbOrTx, user: MailUser) {
+  await lockUser(tx, user.id)
   if (!(await takeMailQuota(tx, 'account-exists', user.email))) return
   await enqueueMail(tx, 'account-exists', user.email, accountExistsMail(user.name, appUrl('/login'), appUrl('/forgot-password')))
 }
