@@ -76,10 +76,11 @@ export const ORDER_FLOW: readonly FlowRow[] = [
     wording: 'Purchase order approved by {actor}.' },
   { from: 'po review', action: 'reject', to: 'rejected', who: ['admin'], method: PO,
     wording: 'Purchase order rejected by {actor}: {reason}' },
-  ...(['po review', 'awaiting payment', 'paid'] as const).map((from): FlowRow => ({
-    from, action: 'allocate', to: from, who: ['admin'], allocated: false,
-    wording: 'Units allocated for packing: {reference}.',
-  })),
+  // Units are allocated once the order may be packed: paid, or a purchase order approved.
+  { from: 'paid', action: 'allocate', to: 'paid', who: ['admin'], allocated: false,
+    wording: 'Units allocated for packing: {reference}.' },
+  { from: 'awaiting payment', action: 'allocate', to: 'awaiting payment', who: ['admin'], method: PO, allocated: false,
+    wording: 'Units allocated for packing: {reference}.' },
   { from: 'paid', action: 'ship', to: 'shipped', who: ['admin'], allocated: true,
     wording: 'Shipped with {reference}.' },
   { from: 'awaiting payment', action: 'ship', to: 'shipped', who: ['admin'], method: PO, allocated: true,

@@ -19,7 +19,9 @@ const CASES: [string, OrderFacts, OrderAction, Actor, string | null][] = [
   ['an approved PO cannot be approved again', po('awaiting payment'), 'approve', 'admin', null],
   ['an admin rejects a PO in review: rejected, not cancelled', po('po review'), 'reject', 'admin', 'rejected'],
   ['a card order is never "rejected"', card('awaiting payment'), 'reject', 'admin', null],
-  ['allocation keeps the state', po('po review'), 'allocate', 'admin', 'po review'],
+  ['an approved PO is allocated, keeping its state', po('awaiting payment'), 'allocate', 'admin', 'awaiting payment'],
+  ['a PO in review is not packed yet', po('po review'), 'allocate', 'admin', null],
+  ['an unpaid card order is not packed yet', card('awaiting payment'), 'allocate', 'admin', null],
   ['allocation happens once', card('paid', { allocated: true, paid: true }), 'allocate', 'admin', null],
   ['a cancelled order is not allocated', card('cancelled'), 'allocate', 'admin', null],
   ['a paid, allocated card order ships', card('paid', { allocated: true, paid: true }), 'ship', 'admin', 'shipped'],
@@ -80,7 +82,7 @@ describe('the order flow, as a table', () => {
   })
 
   it('offers an admin the buttons of a PO in review', () => {
-    expect(openActions(po('po review'), 'admin')).toEqual(['approve', 'reject', 'allocate', 'cancel'])
+    expect(openActions(po('po review'), 'admin')).toEqual(['approve', 'reject', 'cancel'])
   })
 
   it('fills the timeline wording', () => {
