@@ -9,7 +9,7 @@ import type { OrderView, OrderDocument } from '../../shared/types/shop'
 import { canCancelOrder, canSeeOrder, canSeeOrderDocuments, isQuoteValid, unitsLeft } from '../../shared/utils/shop-rules'
 import { CLOSED_STATUSES, openActions } from '../../shared/utils/order-flow'
 import type { SessionUser } from '../../shared/utils/roles'
-import { lineTierWording, type PricedLine, type Totals } from '../../shared/utils/pricing'
+import { lineTierWording, orderSizeProblem, type PricedLine, type Totals } from '../../shared/utils/pricing'
 import { quoteTaxNote, retax, taxLineLabel } from '../../shared/utils/tax'
 import type { CartLine } from '../../shared/schemas/shop'
 import type { CheckoutAddresses } from '../../shared/schemas/address'
@@ -126,6 +126,8 @@ export async function resolveCheckout(
     throw invalid(fields, 'Some items in the cart are no longer sold.')
   }
   const { lines, missing: _m, byId: _b, ...totals } = priced
+  const tooBig = orderSizeProblem(totals)
+  if (tooBig) throw invalid({ lines: tooBig }, tooBig)
   return { lines, totals, quoteId: null, addresses, taxNote: null }
 }
 

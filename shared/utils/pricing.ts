@@ -158,6 +158,17 @@ export function risingTierProblems(tiers: readonly PriceTier[]): { index: number
   return found
 }
 
+/** The largest order taken online: $5,000,000.00. Amounts are stored as 32-bit cents, and a
+ *  larger order is a conversation with us, not a cart. */
+export const MAX_ORDER_TOTAL_CENTS = 500_000_000
+
+/** What is wrong with an order's size, or null; the same words for the cart, quote and checkout. */
+export function orderSizeProblem(totals: Pick<Totals, 'totalCents'>): string | null {
+  return totals.totalCents > MAX_ORDER_TOTAL_CENTS
+    ? `An order online can be at most ${formatCents(MAX_ORDER_TOTAL_CENTS)}. Split it, or write to us for a quote.`
+    : null
+}
+
 export const QUOTE_VALID_DAYS = 30
 export const INVOICE_NET_DAYS = 30
 

@@ -256,3 +256,19 @@ describe('an invoice the payment service could not issue', () => {
     expect(invoices.data.filter((i) => i.metadata?.orderId === String(id) && i.status !== 'draft')).toHaveLength(1)
   })
 })
+
+describe('an order too large to store', () => {
+  it('refuses a quote or order above the online limit with a clear message, never a 500', async () => {
+    const admin = await signedIn('admin@tiltwright.test')
+    const { productId } = await productWithStock(admin, 600, [{ minQuantity: 1, unitPriceCents: 10_000_000 }])
+    const t = await newTeacher('huge')
+    const lines = [{ productId, quantity: 500 }]
+    for (const path of ['/api/quotes', '/api/checkout/card']) {
+      const r = await t.client.post(path, { lines })
+      expect(r.status).toBe(422)
+      expect(r.body.data.fields.lines).toMatch(/at most \$5,000,000\.00/)
+    }
+    const ok = await t.client.post('/api/quotes', { lines: [{ productId, quantity: 40 }] })
+    expect(ok.status).toBe(201)
+  })
+})

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest'
 import fc from 'fast-check'
 import {
-  formatCents, priceCart, priceLine, SHIPPING, shippingCents, taxCents, tierFor, tierProblems, tierRangeLabel, totalsFor,
+  formatCents, MAX_ORDER_TOTAL_CENTS, orderSizeProblem, priceCart, priceLine, SHIPPING, shippingCents, taxCents, tierFor,
+  tierProblems, tierRangeLabel, totalsFor,
 } from '../../shared/utils/pricing'
 
 const tiers = [{ minQuantity: 1, unitPriceCents: 14900 }, { minQuantity: 5, unitPriceCents: 13400 }, { minQuantity: 12, unitPriceCents: 11900 }]
@@ -93,5 +94,13 @@ describe('prices typed by an admin', () => {
     const { parseDollars } = await import('../../shared/utils/pricing')
     expect(['24.5', '$1,240.00', '0.07', '19', '4.10'].map(parseDollars)).toEqual([2450, 124_000, 7, 1900, 410])
     expect(['', 'abc', '1.234', '-3', '1e3'].map(parseDollars)).toEqual([null, null, null, null, null])
+  })
+})
+
+describe('order size', () => {
+  it('allows up to the online limit and names it beyond', () => {
+    expect(MAX_ORDER_TOTAL_CENTS).toBeLessThan(2 ** 31)
+    expect(orderSizeProblem({ totalCents: MAX_ORDER_TOTAL_CENTS })).toBeNull()
+    expect(orderSizeProblem({ totalCents: MAX_ORDER_TOTAL_CENTS + 1 })).toMatch(/at most \$5,000,000\.00/)
   })
 })
