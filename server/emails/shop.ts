@@ -1,5 +1,5 @@
 // The shop's e-mails. Each is written to the outbox in the transaction of its change.
-import { formatCents } from '../../shared/utils/pricing'
+import { formatCents, INVOICE_NET_DAYS } from '../../shared/utils/pricing'
 import { renderMail } from './layout'
 
 const hello = (name: string) => `Hello ${name},`
@@ -29,9 +29,10 @@ export function poReviewMail(name: string, o: { number: string; poNumber: string
   ])
 }
 
-export function poApprovedMail(name: string, o: { number: string; poNumber: string }, url: string) {
+export function poApprovedMail(name: string, o: { number: string; poNumber: string; totalCents: number; exemptionAccepted: boolean }, url: string) {
   return renderMail(`Purchase order ${o.poNumber} approved`, hello(name), [
-    { paragraph: `Your purchase order ${o.poNumber} for order ${o.number} is approved. The invoice (net 30) follows in a separate e-mail to you and your accounts-payable contact.` },
+    { paragraph: `Your purchase order ${o.poNumber} for order ${o.number} is approved. The invoice (net ${INVOICE_NET_DAYS}) follows in a separate e-mail to you and your accounts-payable contact.` },
+    ...(o.exemptionAccepted ? [{ paragraph: `We accepted your school's tax-exemption certificate, so no sales tax is charged: the order's total is now ${formatCents(o.totalCents)}, and later orders carry no sales tax either.` }] : []),
     { link: { label: 'Follow the order', url } },
   ])
 }
@@ -51,8 +52,9 @@ export function poRejectedMail(
   ])
 }
 
-export function invoiceIssuedMail(o: { number: string; invoiceNumber: string; totalCents: number; dueAt: string; poNumber: string }, payUrl: string | null) {
-  return renderMail(`Invoice ${o.invoiceNumber} for purchase order ${o.poNumber}`, 'Hello,', [
+/** To accounts payable (no name known: `name` null) and to the teacher (by name). */
+export function invoiceIssuedMail(o: { number: string; invoiceNumber: string; totalCents: number; dueAt: string; poNumber: string }, payUrl: string | null, name: string | null = null) {
+  return renderMail(`Invoice ${o.invoiceNumber} for purchase order ${o.poNumber}`, name ? hello(name) : 'Hello accounts payable,', [
     { paragraph: `Invoice ${o.invoiceNumber} for Tiltwright order ${o.number} (purchase order ${o.poNumber}) is attached: ${formatCents(o.totalCents)}, due ${o.dueAt} (net 30).` },
     ...(payUrl ? [{ link: { label: 'Pay the invoice online', url: payUrl } }] : []),
   ])
@@ -82,8 +84,8 @@ export function orderCancelledMail(name: string, o: { number: string; reason?: s
 }
 
 /** To accounts payable and the teacher when a cancelled order's invoice is voided. */
-export function invoiceVoidedMail(o: { number: string; invoiceNumber: string; poNumber: string; reason: string }) {
-  return renderMail(`Invoice ${o.invoiceNumber} is void: do not pay it`, 'Hello,', [
+export function invoiceVoidedMail(o: { number: string; invoiceNumber: string; poNumber: string; reason: string }, name: string | null = null) {
+  return renderMail(`Invoice ${o.invoiceNumber} is void: do not pay it`, name ? hello(name) : 'Hello accounts payable,', [
     { paragraph: `Tiltwright order ${o.number} (purchase order ${o.poNumber}) is cancelled, so invoice ${o.invoiceNumber} is void. Please do not pay it; nothing is owed for this order.` },
     { paragraph: `The reason given: ${o.reason}` },
     { paragraph: 'If a payment is already on its way, we refund it in full when it arrives.' },

@@ -2,6 +2,7 @@
 // palette and Nunito, the lines, the Approve / Decline form, and what an invoice that can no
 // longer be paid says. pages.ts serves it; unit tests read it directly.
 import { palette } from '../../shared/utils/palette'
+import { formatDay } from '../../shared/utils/dates'
 
 /** The two answers a tester can give; the form posts `decision` with one of them. */
 export const DECISIONS = {
@@ -80,8 +81,10 @@ export interface InvoiceLike {
 }
 
 export function invoiceHead(inv: InvoiceLike) {
-  const due = inv.due_date ? new Date(inv.due_date * 1000).toISOString().slice(0, 10) : '—'
-  return `<h1>Invoice ${esc(inv.number)}</h1><p>${esc(inv.description)}</p><p>Due ${esc(due)}</p>`
+  // Only an open invoice is due; a paid or void one says so below instead.
+  const due = inv.due_date ? formatDay(new Date(inv.due_date * 1000), 'long') : null
+  return `<h1>Invoice ${esc(inv.number)}</h1><p>${esc(inv.description)}</p>`
+    + (inv.status === 'open' && due ? `<p>Due ${esc(due)}</p>` : '')
     + linesTable(inv.lines.data, inv.amount_due)
 }
 
@@ -89,7 +92,7 @@ export function invoiceHead(inv: InvoiceLike) {
  *  form, no button. Null while it is open. */
 export function closedInvoicePage(inv: InvoiceLike, backUrl: string, method: string): { status: number; html: string } | null {
   const head = invoiceHead(inv)
-  const back = `<p><a href="${esc(backUrl)}">Back to Tiltwright</a></p>`
+  const back = `<p><a href="${esc(backUrl)}">Tiltwright's home page</a></p>`
   const say = (title: string, cls: string, words: string, status: number) =>
     ({ status, html: page(title, `${head}<p class="${cls}" role="status">${words}</p>${back}`) })
   if (inv.status === 'paid') return say('Invoice paid', 'ok', 'This invoice is paid. Thank you.', 200)

@@ -38,7 +38,8 @@ async function checkoutPage(session: FakeObject, method: string, form: Record<st
 }
 
 async function invoicePage(inv: FakeObject, method: string, form: Record<string, unknown>) {
-  const back = new URL('/orders', useRuntimeConfig().publicUrl).toString()
+  // Accounts payable may have no account: the way back is the home page, not a signed-in page.
+  const back = new URL('/', useRuntimeConfig().publicUrl).toString()
   const closed = closedInvoicePage(inv as unknown as InvoiceLike, back, method)
   if (closed) return closed
   const head = invoiceHead(inv as unknown as InvoiceLike)

@@ -231,7 +231,9 @@ export async function approvePurchaseOrder(admin: SessionUser, orderId: number, 
     await tx.update(purchaseOrders).set({ status: 'approved', reviewedById: admin.id, reviewedAt: new Date() })
       .where(eq(purchaseOrders.orderId, orderId))
     const { buyer, po } = await orderPeople(tx, order)
-    await enqueueMail(tx, 'po-approved', buyer.email, poApprovedMail(buyer.name, { number: order.number!, poNumber: po!.poNumber }, orderUrl(orderId)))
+    const [now] = await tx.select({ totalCents: orders.totalCents }).from(orders).where(eq(orders.id, orderId))
+    const approval = { number: order.number!, poNumber: po!.poNumber, totalCents: now!.totalCents, exemptionAccepted: acceptTaxCertificate }
+    await enqueueMail(tx, 'po-approved', buyer.email, poApprovedMail(buyer.name, approval, orderUrl(orderId)))
     await audit(tx, { actorId: admin.id, action: 'order.po-approved', subjectType: 'order', subjectId: orderId })
     return { jobId: (await enqueueJob(tx, 'issue-invoice', { orderId }, { uniqueKey: `invoice-${orderId}`, runHere: true }))! }
   })
@@ -264,9 +266,10 @@ export async function recordInvoiceIssued(orderId: number, invoice: { customerId
     const due = invoice.dueAt ? formatDay(invoice.dueAt) : `${INVOICE_NET_DAYS} days from today`
     await addOrderEvent(tx, orderId, 'invoice-issued', `Invoice ${invoice.number} issued: net ${INVOICE_NET_DAYS}, due ${due}.`)
     const { buyer, po } = await orderPeople(tx, order)
-    const mail = invoiceIssuedMail({ number: order.number!, invoiceNumber: invoice.number, totalCents: order.totalCents, dueAt: due, poNumber: po!.poNumber }, invoice.url)
-    for (const to of new Set([po!.apEmail, buyer.email])) {
-      await enqueueMail(tx, 'invoice-issued', to, mail, [{ document: 'invoice', orderId }])
+    const what = { number: order.number!, invoiceNumber: invoice.number, totalCents: order.totalCents, dueAt: due, poNumber: po!.poNumber }
+    await enqueueMail(tx, 'invoice-issued', po!.apEmail, invoiceIssuedMail(what, invoice.url), [{ document: 'invoice', orderId }])
+    if (buyer.email !== po!.apEmail) {
+      await enqueueMail(tx, 'invoice-issued', buyer.email, invoiceIssuedMail(what, invoice.url, buyer.name), [{ document: 'invoice', orderId }])
     }
   })
 }
@@ -426,11 +429,14 @@ export async function cancelOrder(user: SessionUser, orderId: number, reason: st
 
 async function afterCancel(tx: Tx, order: OrderRow, reason: string) {
   const { buyer, po } = await orderPeople(tx, order)
-  await enqueueMail(tx, 'order-cancelled', buyer.email, orderCancelledMail(buyer.name, { number: order.number!, reason }, orderUrl(order.id)))
   if (order.invoiceId && po) {
+    // One mail each: the void notice says the order is cancelled, and why.
     await enqueueJob(tx, 'void-invoice', { orderId: order.id }, { uniqueKey: `void-${order.id}` })
-    const mail = invoiceVoidedMail({ number: order.number!, invoiceNumber: order.invoiceNumber ?? order.invoiceId, poNumber: po.poNumber, reason })
-    for (const to of new Set([po.apEmail, buyer.email])) await enqueueMail(tx, 'invoice-voided', to, mail)
+    const what = { number: order.number!, invoiceNumber: order.invoiceNumber ?? order.invoiceId, poNumber: po.poNumber, reason }
+    await enqueueMail(tx, 'invoice-voided', po.apEmail, invoiceVoidedMail(what))
+    if (buyer.email !== po.apEmail) await enqueueMail(tx, 'invoice-voided', buyer.email, invoiceVoidedMail(what, buyer.name))
+  } else {
+    await enqueueMail(tx, 'order-cancelled', buyer.email, orderCancelledMail(buyer.name, { number: order.number!, reason }, orderUrl(order.id)))
   }
   if (order.checkoutSessionId) await enqueueJob(tx, 'expire-checkout', { orderId: order.id }, { uniqueKey: `expire-${order.id}` })
 }

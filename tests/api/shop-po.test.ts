@@ -1,6 +1,7 @@
 // The purchase-order path end to end: upload, review, approve (invoice through the SDK, net
 // 30, e-mailed as a PDF), pay on the fake's invoice page, webhook, ship; and the refusals.
 import { describe, expect, it } from 'vitest'
+import { formatCents } from '../../shared/utils/pricing'
 import { VENDOR } from '../../shared/utils/vendor'
 import { Client } from '../helpers/client'
 import { linkIn, waitForMail } from '../helpers/mail'
@@ -39,6 +40,10 @@ describe('purchase-order checkout', () => {
     const a = await admin.post(`/api/admin/orders/${id}/approve`, { acceptTaxCertificate: true })
     expect(a.status).toBe(200)
     expect(a.body).toMatchObject({ status: 'awaiting payment', taxCents: 0, taxExempt: true, totalCents: price.subtotalCents + price.shippingCents })
+    // The teacher hears of the exemption and the new total with the approval, not only from the invoice.
+    const approval = await waitForMail(t.email, /^Purchase order CH-2026-0417 approved$/)
+    expect(approval.text).toMatch(/accepted your school's tax-exemption certificate/)
+    expect(approval.text).toContain(formatCents(price.subtotalCents + price.shippingCents))
     expect(a.body.invoice.number).toMatch(/^TWF-/)
     expect(a.body.purchaseOrder.status).toBe('approved')
     expect((await admin.post(`/api/admin/orders/${id}/approve`, {})).status).toBe(409)
