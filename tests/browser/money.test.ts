@@ -2,13 +2,13 @@
 // quote, ordered from the quote with a purchase order, approved (invoice issued), then
 // cancelled by the admin with a reason after confirming; the teacher sees the invoice void and
 // the simulator's invoice page refuses payment. Screenshots go to tests/.artifacts/money/.
-import { mkdirSync } from 'node:fs'
+import { mkdirSync, writeFileSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
 import { gotoReady, launch, signInThroughPage } from '../helpers/browser'
 import { waitForMail } from '../helpers/mail'
-import { PDF_BYTES, newTeacher, productWithStock, signedIn } from '../helpers/shop'
+import { PDF_BYTES, newTeacher, pdfText, productWithStock, signedIn } from '../helpers/shop'
 
 const shots = resolve(import.meta.dirname, '../.artifacts/money')
 mkdirSync(shots, { recursive: true })
@@ -30,6 +30,7 @@ describe('a purchase order from quote to void', () => {
     await gotoReady(teacher, '/cart')
     await teacher.getByRole('button', { name: 'Save as a formal quote (PDF)' }).click()
     await teacher.waitForURL(/\/quotes\/\d+/)
+    const quoteId = Number(new URL(teacher.url()).pathname.split('/').pop())
     await teacher.getByText(`Test part ${slug}`).first().waitFor()
     await shot(teacher, 'quote')
     await teacher.getByRole('link', { name: 'Order with a purchase order' }).click()
@@ -71,6 +72,13 @@ describe('a purchase order from quote to void', () => {
     await teacher.getByText('This invoice is void').waitFor()
     expect(await teacher.getByRole('button', { name: 'Approve this payment' }).count()).toBe(0)
     await shot(teacher, 'simulator-invoice-void')
+    // The invoice PDF, kept for a person to look at: it must say VOID and not how to pay.
+    const pdf = await t.client.raw(`/api/orders/${id}/documents/invoice`)
+    const bytes = Buffer.from(await pdf.arrayBuffer())
+    writeFileSync(resolve(shots, 'invoice-void.pdf'), bytes)
+    expect(await pdfText(new Uint8Array(bytes))).toContain('This invoice is void')
+    const quotePdf = await t.client.raw(`/api/quotes/${quoteId}/pdf`)
+    writeFileSync(resolve(shots, 'quote.pdf'), Buffer.from(await quotePdf.arrayBuffer()))
     const mail = await waitForMail('ap-quote-void@district.test', /is void: do not pay it$/)
     expect(mail.text).toContain('QV-2026-31')
   })
