@@ -6,6 +6,7 @@ import PDFDocument from 'pdfkit'
 import { formatCents } from '../../shared/utils/pricing'
 import { VENDOR } from '../../shared/utils/vendor'
 import { palette } from '../../shared/utils/palette'
+import { formatDay } from '../../shared/utils/dates'
 
 export interface DocLineSpec { description: string; quantity: number; note?: string; unitCents?: number; totalCents?: number }
 
@@ -45,7 +46,8 @@ function loadFonts() {
   return fonts
 }
 
-export const toDate = (d: Date | string) => new Date(d).toISOString().slice(0, 10)
+/** Documents and e-mails write dates the way the pages do ("January 1, 2027"). */
+export const toDate = (d: Date | string) => formatDay(d, 'long')
 
 export function renderDocument(spec: DocSpec): Promise<Buffer> {
   const f = loadFonts()

@@ -263,7 +263,7 @@ export async function recordInvoiceIssued(orderId: number, invoice: { customerId
       providerCustomerId: invoice.customerId, invoiceId: invoice.invoiceId, invoiceNumber: invoice.number,
       invoiceUrl: invoice.url, invoiceDueAt: invoice.dueAt,
     }).where(eq(orders.id, orderId))
-    const due = invoice.dueAt ? formatDay(invoice.dueAt) : `${INVOICE_NET_DAYS} days from today`
+    const due = invoice.dueAt ? formatDay(invoice.dueAt, 'long') : `${INVOICE_NET_DAYS} days from today`
     await addOrderEvent(tx, orderId, 'invoice-issued', `Invoice ${invoice.number} issued: net ${INVOICE_NET_DAYS}, due ${due}.`)
     const { buyer, po } = await orderPeople(tx, order)
     const what = { number: order.number!, invoiceNumber: invoice.number, totalCents: order.totalCents, dueAt: due, poNumber: po!.poNumber }

@@ -2,6 +2,7 @@
 // 30, e-mailed as a PDF), pay on the fake's invoice page, webhook, ship; and the refusals.
 import { describe, expect, it } from 'vitest'
 import { formatCents } from '../../shared/utils/pricing'
+import { formatDay } from '../../shared/utils/dates'
 import { VENDOR } from '../../shared/utils/vendor'
 import { Client } from '../helpers/client'
 import { linkIn, waitForMail } from '../helpers/mail'
@@ -64,7 +65,7 @@ describe('purchase-order checkout', () => {
     // What accounts payable needs, said once in shared/utils/vendor.ts: remit-to, cheque payee,
     // bank transfer, our tax id, the PO, terms, due date, and the online link as one option.
     for (const s of ['Remit to', `Cheque payable to ${VENDOR.chequePayee}`, VENDOR.remitTo[2]!, VENDOR.bank.routingNumber, VENDOR.bank.accountNumber,
-      VENDOR.taxId, 'Due date', a.body.invoice.dueAt.slice(0, 10), 'Online by card', 'invented for this demonstration']) expect(text).toContain(s)
+      VENDOR.taxId, 'Due date', formatDay(a.body.invoice.dueAt, 'long'), 'Online by card', 'invented for this demonstration']) expect(text).toContain(s)
     // The provider's line items speak the shop's tier wording, never "1+".
     expect(inv.lines.data.map((l: any) => l.description)).toEqual([expect.stringMatching(/^Long-Beam Rig Kit \(price for 5–11\) × 6$/), expect.stringMatching(/^Shipping/)])
 
