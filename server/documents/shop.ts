@@ -26,9 +26,11 @@ function shipToLines(order: Pick<OrderMoney, 'shipTo' | 'deliveryNote'>, school:
 
 const billTo = (order: OrderMoney, school: School) => order.billTo ?? schoolPostalAddress(school)
 
+const capitalised = (s: string) => s.charAt(0).toUpperCase() + s.slice(1)
+
 const pricedLines = (lines: Line[]): DocLineSpec[] => lines.map((l) => ({
   description: l.name, quantity: l.quantity, unitCents: l.unitPriceCents, totalCents: l.lineTotalCents,
-  note: `Classroom ${lineTierWording(l)}`,
+  note: capitalised(lineTierWording(l)),
 }))
 
 function totals(m: Money, charged = false) {

@@ -26,7 +26,7 @@ describe('quotes', () => {
     expect(Buffer.from(bytes.slice(0, 5)).toString()).toBe('%PDF-')
     expect(Buffer.from(bytes).toString('latin1')).toMatch(/\/FontName \/[A-Z]{6}\+Nunito/)
     const text = await pdfText(bytes)
-    for (const s of [q.body.number, 'QUOTE FOR', 'quote Academy', `Test part ${slug}`, 'Classroom price for 12+', '$24.50', '$294.00', '$13.20', '$21.32', '$328.52', 'Valid until', 'net 30',
+    for (const s of [q.body.number, 'QUOTE FOR', 'quote Academy', `Test part ${slug}`, 'Price for 12+', '$24.50', '$294.00', '$13.20', '$21.32', '$328.52', 'Valid until', 'net 30',
       'Sales tax (CA 7.25%, estimated)', 'local (county and city) add-on rates are not included']) expect(text).toContain(s)
 
     const mail = await waitForMail(t.email, new RegExp(`quote ${q.body.number}`))

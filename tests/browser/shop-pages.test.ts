@@ -126,6 +126,17 @@ describe('the admin orders table', () => {
     expect(await page.getByLabel('Status').inputValue()).toBe('')
     await page.close()
   })
+
+  it('shows each order\'s number, status and total on a phone without scrolling the table', async () => {
+    const page = await browser.newPage({ viewport: { width: 390, height: 844 } })
+    await signInThroughPage(page, 'admin@tiltwright.test')
+    await gotoReady(page, '/admin/orders')
+    for (const name of ['Order', 'Status', 'Total']) {
+      const box = await page.getByRole('columnheader', { name }).boundingBox()
+      expect(box && box.x + box.width, name).toBeLessThanOrEqual(390)
+    }
+    await page.close()
+  })
 })
 
 describe('pages for the role', () => {
