@@ -68,7 +68,7 @@ describe('sales tax by destination', () => {
     await payOnPage(r.body.url, APPROVE)
     await waitForOrder(t.client, r.body.orderId, (o) => o.status === 'paid')
     const receipt = await pdfOf(t.client, `/api/orders/${r.body.orderId}/documents/receipt`)
-    for (const s of ['SHIP TO', 'Portland, OR 97201', 'Delivery note: Room 114, science department', 'SOLD TO', 'Harrow Ridge District Office', 'price for 1–9', 'OR: no state sales tax']) {
+    for (const s of ['SHIP TO', 'Portland, OR 97201', 'Delivery note: Room 114, science department', 'SOLD TO', 'Harrow Ridge District Office', 'Price for 1–9', 'OR: no state sales tax']) {
       expect(receipt).toContain(s)
     }
   })
