@@ -71,7 +71,9 @@ describe('size limits hold for chunked bodies', () => {
     }, [head, Buffer.alloc(64 * 1024, 1)], 50_000_000)
     expect(r.status).toBe(413)
     expect(r.body.data.limitBytes).toBeLessThan(6_000_000)
-    expect(r.sentBeforeAnswer).toBeLessThan(20_000_000)
+    // Long before the 50 MB were out. The count includes what the sockets buffered on both sides
+    // (a run once measured 20.6 MB on a busy machine), so the bound leaves room for that.
+    expect(r.sentBeforeAnswer).toBeLessThan(30_000_000)
   })
 
   it('refuses a multipart request whose files together pass the per-request limit', async () => {
