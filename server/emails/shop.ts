@@ -86,7 +86,8 @@ export function orderCancelledMail(name: string, o: { number: string; reason?: s
 /** To accounts payable and the teacher when a cancelled order's invoice is voided. */
 export function invoiceVoidedMail(o: { number: string; invoiceNumber: string; poNumber: string; reason: string }, name: string | null = null) {
   return renderMail(`Invoice ${o.invoiceNumber} is void: do not pay it`, name ? hello(name) : 'Hello accounts payable,', [
-    { paragraph: `Tiltwright order ${o.number} (purchase order ${o.poNumber}) is cancelled, so invoice ${o.invoiceNumber} is void. Please do not pay it; nothing is owed for this order.` },
+    { paragraph: `Tiltwright order ${o.number} (purchase order ${o.poNumber}) is cancelled, so invoice ${o.invoiceNumber} `
+      + 'is void. Please do not pay it; nothing is owed for this order.' },
     { paragraph: `The reason given: ${o.reason}` },
     { paragraph: 'If a payment is already on its way, we refund it in full when it arrives.' },
   ])
@@ -95,7 +96,8 @@ export function invoiceVoidedMail(o: { number: string; invoiceNumber: string; po
 /** To the payer when money arrived for an order that had already ended. */
 export function paymentRefundedMail(name: string, o: { number: string; amountCents: number; status: string }, url: string) {
   return renderMail(`Refund for order ${o.number}`, hello(name), [
-    { paragraph: `A payment of ${formatCents(o.amountCents)} reached us for order ${o.number} after the order was ${o.status}. We have refunded it in full; depending on the bank it shows within 5–10 working days.` },
+    { paragraph: `A payment of ${formatCents(o.amountCents)} reached us for order ${o.number} after the order was ${o.status}. `
+      + 'We have refunded it in full; depending on the bank it shows within 5–10 working days.' },
     { paragraph: 'Nothing else is needed from you. If you still want the kits, place a new order.' },
     { link: { label: 'See the order', url } },
   ])

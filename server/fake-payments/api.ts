@@ -155,7 +155,10 @@ const routes: Route[] = [
     const left = intent.amount - (intent.amount_refunded ?? 0)
     const amount = asInt(b.amount, left)
     if (amount < 1 || amount > left) throw providerError(400, `Refund amount must be between 1 and ${left}.`, 'invalid_request_error', 'amount')
-    const refund = await putObject({ id: newId('re'), object: 'refund', created: nowSeconds(), amount, currency: intent.currency, payment_intent: id, status: 'succeeded', metadata: asRecord(b.metadata) })
+    const refund = await putObject({
+      id: newId('re'), object: 'refund', created: nowSeconds(), amount, currency: intent.currency, payment_intent: id,
+      status: 'succeeded', metadata: asRecord(b.metadata),
+    })
     await putObject({ ...intent, amount_refunded: (intent.amount_refunded ?? 0) + amount })
     await emitEvent('refund.created', refund)
     return refund
@@ -217,5 +220,7 @@ export default defineEventHandler(async (event) => {
     }
   }
   setResponseStatus(event, 404)
-  return { error: { type: 'invalid_request_error', message: `Unrecognized request URL (${event.method}: ${path}). The local payment simulator implements only what Tiltwright uses.` } }
+  const message = `Unrecognized request URL (${event.method}: ${path}). `
+    + 'The local payment simulator implements only what Tiltwright uses.'
+  return { error: { type: 'invalid_request_error', message } }
 })

@@ -19,7 +19,8 @@ async function checkoutPage(session: FakeObject, method: string, form: Record<st
   const head = `<h1>Pay ${esc(session.metadata?.orderNumber ? `order ${session.metadata.orderNumber}` : 'Tiltwright')}</h1>${linesTable(lines, session.amount_total)}`
   if (session.status === 'expired') {
     const back = session.cancel_url ? `<p><a href="${esc(session.cancel_url)}">Back to Tiltwright</a></p>` : ''
-    return { status: method === 'POST' ? 409 : 200, html: page('Checkout closed', `${head}<p class="void" role="status">This checkout was closed: the order ended, so nothing can be paid here.</p>${back}`) }
+    const words = '<p class="void" role="status">This checkout was closed: the order ended, so nothing can be paid here.</p>'
+    return { status: method === 'POST' ? 409 : 200, html: page('Checkout closed', `${head}${words}${back}`) }
   }
   if (session.status !== 'open') {
     return { status: 200, html: page('Paid', `${head}<p class="ok">This checkout is complete.</p><p><a href="${esc(session.success_url)}">Back to Tiltwright</a></p>`) }

@@ -47,7 +47,8 @@ export const issueInvoiceJob: JobDefinition<OrderJob> = {
     await recordInvoiceIssued(orderId, invoice)
   },
   async giveUp({ orderId }, _job, error) {
-    await addOrderEvent(useDb(), orderId, 'invoice-failed', `The invoice could not be issued at the payment service (${error}). An admin can try again from the order page.`)
+    await addOrderEvent(useDb(), orderId, 'invoice-failed',
+      `The invoice could not be issued at the payment service (${error}). An admin can try again from the order page.`)
   },
 }
 

@@ -82,7 +82,8 @@ export function assertMayOrder(user: SessionUser) {
   if (!user.verified) {
     throw createError({
       statusCode: 403, statusMessage: 'Forbidden', data: { code: 'unverified' },
-      message: 'Confirm your e-mail address before placing an order: use the link in the mail we sent you, or send it again from your account page. Quotes do not need it.',
+      message: 'Confirm your e-mail address before placing an order: use the link in the mail we sent you, '
+        + 'or send it again from your account page. Quotes do not need it.',
     })
   }
 }
@@ -255,7 +256,8 @@ export async function retryInvoice(admin: SessionUser, orderId: number) {
 }
 
 /** Stores the provider's invoice on the order and sends it to accounts payable and the teacher. */
-export async function recordInvoiceIssued(orderId: number, invoice: { customerId: string; invoiceId: string; number: string; url: string | null; dueAt: Date | null }) {
+export async function recordInvoiceIssued(orderId: number,
+  invoice: { customerId: string; invoiceId: string; number: string; url: string | null; dueAt: Date | null }) {
   await transactionWithRetry(async (tx) => {
     const order = await lockOrder(tx, orderId)
     if (order.invoiceId) return
@@ -387,7 +389,8 @@ export async function receivePayment(tx: Tx, orderId: number, pay: ProviderPayme
   }
   if (order.status === 'cancelled' || order.status === 'rejected') {
     if (!pay.paymentIntent) {
-      await addOrderEvent(tx, orderId, 'payment-after-end', `A payment of ${formatCents(pay.amountCents)} arrived after the order ended and could not be refunded automatically; refund it by hand.`)
+      await addOrderEvent(tx, orderId, 'payment-after-end', `A payment of ${formatCents(pay.amountCents)} arrived after `
+        + 'the order ended and could not be refunded automatically; refund it by hand.')
       return 'mismatch'
     }
     await enqueueJob(tx, 'refund-payment', { orderId, paymentIntent: pay.paymentIntent, amountCents: pay.amountCents },
@@ -447,7 +450,8 @@ export async function recordInvoiceVoided(orderId: number) {
     const order = await lockOrder(tx, orderId)
     if (order.invoiceVoidedAt) return
     await tx.update(orders).set({ invoiceVoidedAt: new Date() }).where(eq(orders.id, orderId))
-    await addOrderEvent(tx, orderId, 'invoice-voided', `Invoice ${order.invoiceNumber ?? ''} voided at the payment service; it can no longer be paid.`.replace('  ', ' '))
+    const invoice = order.invoiceNumber ? `Invoice ${order.invoiceNumber}` : 'The invoice'
+    await addOrderEvent(tx, orderId, 'invoice-voided', `${invoice} voided at the payment service; it can no longer be paid.`)
   })
 }
 

@@ -46,7 +46,10 @@ describe('nobody outside the install can move money', () => {
     const order = (await t.client.get(`/api/orders/${orderId}`)).body
     const payload = JSON.stringify({
       id: 'evt_forged_1', object: 'event', type: 'checkout.session.completed',
-      data: { object: { id: sessionId, object: 'checkout.session', payment_status: 'paid', amount_total: order.totalCents, currency: 'usd', metadata: { orderId: String(orderId) } } },
+      data: { object: {
+        id: sessionId, object: 'checkout.session', payment_status: 'paid', amount_total: order.totalCents, currency: 'usd',
+        metadata: { orderId: String(orderId) },
+      } },
     })
     const stripe = new Stripe('sk_test_unused', { telemetry: false })
     const forged = await postWebhook(payload, stripe.webhooks.generateTestHeaderString({ payload, secret: PUBLISHED_WEBHOOK_SECRET }))
@@ -100,11 +103,12 @@ describe('money for an order that ended', () => {
     const admin = await signedIn('admin@tiltwright.test')
     const { productId, batchId } = await productWithStock(admin, 10)
     const t = await newTeacher('void')
-    const r = await t.client.post('/api/checkout/purchase-order', poForm({ lines: [{ productId, quantity: 3 }], poNumber: 'VOID-77', apEmail: 'ap-void@district.test' }))
+    const form = poForm({ lines: [{ productId, quantity: 3 }], poNumber: 'VOID-77', apEmail: 'ap-void@district.test' })
+    const r = await t.client.post('/api/checkout/purchase-order', form)
     expect(r.status).toBe(201)
     const id = r.body.orderId
     const approved = await admin.post(`/api/admin/orders/${id}/approve`, {})
-    expect(approved.body.invoice.number).toBeTruthy()
+    expect(approved.body.invoice.number).toMatch(/^TWF-\d+$/)
     expect(approved.body.payUrl).toMatch(/\/fake-pay\/invoice\//)
 
     const noReason = await admin.post(`/api/admin/orders/${id}/cancel`, {})

@@ -12,7 +12,9 @@ export interface AppInstance { url: string; process: ChildProcess; log: () => st
 
 function spawnApp(port: number, change: Record<string, string | undefined> = {}) {
   const url = `http://localhost:${port}`
-  const env: Record<string, string> = { PATH: process.env.PATH ?? '', HOME: process.env.HOME ?? '/root', ...inject('appEnv'), PORT: String(port), NUXT_PUBLIC_URL: url }
+  const env: Record<string, string> = {
+    PATH: process.env.PATH ?? '', HOME: process.env.HOME ?? '/root', ...inject('appEnv'), PORT: String(port), NUXT_PUBLIC_URL: url,
+  }
   for (const [k, v] of Object.entries(change)) {
     if (v === undefined) delete env[k]
     else env[k] = v
@@ -59,15 +61,14 @@ export async function startAppInstance(port: number, change: Record<string, stri
   }
 }
 
-const testDb = testDatabase
 
 /** Kills the test MariaDB at once (no clean shutdown), as a crash would. */
 export function killDatabase() {
-  const pid = Number(readFileSync(resolve(testDb().dataDir, 'mariadbd.pid'), 'utf8'))
+  const pid = Number(readFileSync(resolve(testDatabase().dataDir, 'mariadbd.pid'), 'utf8'))
   process.kill(pid, 'SIGKILL')
   return pid
 }
 
 export async function restartDatabase() {
-  await startMariaDb(testDb())
+  await startMariaDb(testDatabase())
 }

@@ -10,12 +10,12 @@ import { seedDemo } from '../../scripts/seed'
 import { startMailCatcher } from '../../scripts/mail-catcher'
 import { ensureDebianPackage } from '../../scripts/lib/system'
 import { newSecrets, secretsEnv } from '../../scripts/lib/secrets'
-import { APP_PORT, DB_PORT, MAIL_HTTP_PORT, SMTP_PORT, SUFFIX, testDatabase } from './slot'
+import { APP_PORT, MAIL_HTTP_PORT, SMTP_PORT, SUFFIX, testDatabase } from './slot'
 
 declare module 'vitest' {
   export interface ProvidedContext {
     baseUrl: string; mailUrl: string; dbUrl: string; chromium: string; appPid: number
-    paymentsKey: string; webhookSecret: string; appEnv: Record<string, string>; dbPort: number
+    paymentsKey: string; webhookSecret: string; appEnv: Record<string, string>
   }
 }
 
@@ -89,7 +89,6 @@ export default async function setup(project: TestProject) {
   project.provide('paymentsKey', secrets.paymentsSecretKey)
   project.provide('webhookSecret', secrets.paymentsWebhookSecret)
   project.provide('appEnv', appEnv)
-  project.provide('dbPort', DB_PORT)
 
   return async () => {
     app.kill('SIGTERM')
