@@ -15,12 +15,15 @@ const fakePaymentHandlers = fakePayments
 const secureCookies = (process.env.TILTWRIGHT_PUBLIC_URL ?? '').startsWith('https://')
 
 export default defineNuxtConfig({
-  compatibilityDate: '2026-11-01',
-  srcDir: '.',
-  serverDir: 'server',
-  telemetry: false,
-  devtools: { enabled: false },
+  modules: [
+    '@nuxt/eslint',
+    '@nuxtjs/tailwindcss',
+    '@pinia/nuxt',
+    'nuxt-auth-utils',
+    'nuxt-security',
+  ],
   ssr: true,
+  devtools: { enabled: false },
   app: {
     head: {
       htmlAttrs: { lang: 'en' },
@@ -28,14 +31,7 @@ export default defineNuxtConfig({
       link: [{ rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' }],
     },
   },
-  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', 'nuxt-security'],
   css: ['~/assets/css/main.css'],
-  tailwindcss: { viewer: false, cssPath: false },
-  typescript: {
-    strict: true,
-    // odex (a test-only ODE solver) ships TypeScript sources that fail strict checks.
-    tsConfig: { compilerOptions: { paths: { odex: ['../tests/types/odex.d.ts'] } } },
-  },
   runtimeConfig: {
     databaseUrl: 'mysql://root@127.0.0.1:3406/tiltwright',
     smtpHost: '127.0.0.1',
@@ -70,11 +66,62 @@ export default defineNuxtConfig({
     // Secure cookie over plain HTTP); NUXT_SESSION_COOKIE_SECURE overrides it at run time.
     session: { maxAge: 60 * 60 * 24 * 14, cookie: { secure: secureCookies } },
   },
+  srcDir: '.',
+  serverDir: 'server',
+  // The test suite builds into folders of its own so a running dev server is not disturbed.
+  buildDir: process.env.TILTWRIGHT_BUILD_DIR || '.nuxt',
+  routeRules: {
+    // The planner's computation is open to anyone and changes nothing: no CSRF token needed,
+    // but a per-address rate limit (nuxt-security) keeps it from being used as a free CPU.
+    '/api/planner/**': {
+      csurf: false,
+      security: {
+        rateLimiter: { tokensPerInterval: 240, interval: 60_000, headers: true, throwError: true },
+      },
+    },
+    // Callers that cannot carry a page's CSRF token: the payment provider's webhook, and the
+    // fake's API and hosted pages (the fake is not served at all outside fake mode).
+    '/api/webhooks/**': { csurf: false },
+    '/v1/**': { csurf: false },
+    '/fake-pay/**': { csurf: false },
+  },
+  compatibilityDate: '2026-11-01',
+  nitro: {
+    // Durable jobs (server/utils/jobs.ts) are run by a scheduled task every five seconds, and
+    // nudged right after the transaction that queues them.
+    experimental: { tasks: true },
+    scheduledTasks: { '*/5 * * * * *': ['jobs:run'] },
+    // Uploaded purchase orders and tax certificates: local disk outside anything served.
+    storage: {
+      uploads: { driver: 'fs', base: process.env.TILTWRIGHT_UPLOAD_DIR || resolve('data/uploads') },
+    },
+    output: { dir: process.env.TILTWRIGHT_OUTPUT_DIR || '.output' },
+  },
+  serverHandlers: fakePaymentHandlers,
+  typescript: {
+    strict: true,
+    // odex (a test-only ODE solver) ships TypeScript sources that fail strict checks.
+    tsConfig: { compilerOptions: { paths: { odex: ['../tests/types/odex.d.ts'] } } },
+  },
+  telemetry: false,
+  // `npm run lint`: @nuxt/eslint's rules plus its stylistic ones (layout, quotes, Vue attributes);
+  // the project's own choices are in eslint.config.mjs.
+  eslint: {
+    config: {
+      stylistic: {
+        indent: 2,
+        quotes: 'single',
+        semi: false,
+        commaDangle: 'always-multiline',
+        braceStyle: '1tbs',
+      },
+    },
+  },
   security: {
     headers: {
       contentSecurityPolicy: {
-        'default-src': ["'self'"],
-        'img-src': ["'self'", 'data:', 'blob:'],
+        'default-src': ['\'self\''],
+        'img-src': ['\'self\'', 'data:', 'blob:'],
         'upgrade-insecure-requests': false,
       },
       crossOriginEmbedderPolicy: false,
@@ -88,31 +135,5 @@ export default defineNuxtConfig({
     // limiter only reads Content-Length, which a chunked request does not send.
     requestSizeLimiter: false,
   },
-  routeRules: {
-    // The planner's computation is open to anyone and changes nothing: no CSRF token needed,
-    // but a per-address rate limit (nuxt-security) keeps it from being used as a free CPU.
-    '/api/planner/**': {
-      csurf: false,
-      security: { rateLimiter: { tokensPerInterval: 240, interval: 60_000, headers: true, throwError: true } },
-    },
-    // Callers that cannot carry a page's CSRF token: the payment provider's webhook, and the
-    // fake's API and hosted pages (the fake is not served at all outside fake mode).
-    '/api/webhooks/**': { csurf: false },
-    '/v1/**': { csurf: false },
-    '/fake-pay/**': { csurf: false },
-  },
-  // The test suite builds into folders of its own so a running dev server is not disturbed.
-  buildDir: process.env.TILTWRIGHT_BUILD_DIR || '.nuxt',
-  serverHandlers: fakePaymentHandlers,
-  nitro: {
-    // Durable jobs (server/utils/jobs.ts) are run by a scheduled task every five seconds, and
-    // nudged right after the transaction that queues them.
-    experimental: { tasks: true },
-    scheduledTasks: { '*/5 * * * * *': ['jobs:run'] },
-    // Uploaded purchase orders and tax certificates: local disk outside anything served.
-    storage: {
-      uploads: { driver: 'fs', base: process.env.TILTWRIGHT_UPLOAD_DIR || resolve('data/uploads') },
-    },
-    output: { dir: process.env.TILTWRIGHT_OUTPUT_DIR || '.output' },
-  },
+  tailwindcss: { viewer: false, cssPath: false },
 })

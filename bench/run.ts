@@ -69,7 +69,7 @@ function time(fn: () => unknown, inner: number, outer: number): number {
   return median(rounds)
 }
 
-const cases: { rig: Rig; targets: Targets; gains: Gains }[] = []
+const cases: { rig: Rig, targets: Targets, gains: Gains }[] = []
 while (cases.length < 200) {
   const rig = randomRig()
   const targets = targetsFor(rig)
@@ -83,8 +83,8 @@ for (const c of cases) {
   planGains(c.rig, c.targets)
 }
 
-const analyzePerRig = cases.map((c) => time(() => analyzeLoop(c.rig, c.gains), 20, 5))
-const planPerRig = cases.map((c) => time(() => planGains(c.rig, c.targets), 10, 3))
+const analyzePerRig = cases.map(c => time(() => analyzeLoop(c.rig, c.gains), 20, 5))
+const planPerRig = cases.map(c => time(() => planGains(c.rig, c.targets), 10, 3))
 
 const preset = KIT_PRESETS[0]!.rig
 const presetPlan = planGains(preset, DEFAULT_TARGETS)
@@ -108,9 +108,12 @@ const rows: [string, number, string][] = [
   ['stabilityMap 100×100 (classroom rig)', mapMs, '< 150 ms'],
   ['simulate, 10 s nonlinear (classroom rig)', simMs, ''],
 ]
-const width = Math.max(...rows.map((r) => r[0].length))
+const width = Math.max(...rows.map(r => r[0].length))
 console.log(`${'Gain Planner benchmark'.padEnd(width)}  median ms   target`)
 for (const [name, ms, target] of rows) {
   console.log(`${name.padEnd(width)}  ${ms.toFixed(ms < 1 ? 4 : 2).padStart(9)}   ${target}`)
 }
-console.log(`(analyzeLoop per rig: fastest ${Math.min(...analyzePerRig).toFixed(4)} ms, slowest ${Math.max(...analyzePerRig).toFixed(4)} ms)`)
+console.log(
+  `(analyzeLoop per rig: fastest ${Math.min(...analyzePerRig).toFixed(4)} ms, slowest `
+  + `${Math.max(...analyzePerRig).toFixed(4)} ms)`,
+)

@@ -5,7 +5,10 @@
 // that quote's cart, already ordered, and keeping it would invite a double order.
 import type { DocLine } from '~~/shared/types/shop'
 
-export function emptyCartIfItWasThisQuote(cart: ReturnType<typeof useCartStore>, quoteLines: readonly Pick<DocLine, 'productId' | 'quantity'>[]) {
+export function emptyCartIfItWasThisQuote(
+  cart: ReturnType<typeof useCartStore>,
+  quoteLines: readonly Pick<DocLine, 'productId' | 'quantity'>[],
+) {
   cart.restore()
   if (cart.holds(quoteLines)) cart.clear()
 }
@@ -13,7 +16,8 @@ export function emptyCartIfItWasThisQuote(cart: ReturnType<typeof useCartStore>,
 /** A card order keeps the cart until it is paid (leaving the payment page must not lose it);
  *  once paid, a cart holding exactly the order's lines has done its work and is emptied. */
 export function emptyCartOncePaid(
-  cart: ReturnType<typeof useCartStore>, order: { paidAt: string | null; lines: readonly Pick<DocLine, 'productId' | 'quantity'>[] },
+  cart: ReturnType<typeof useCartStore>,
+  order: { paidAt: string | null, lines: readonly Pick<DocLine, 'productId' | 'quantity'>[] },
 ) {
   if (order.paidAt) emptyCartIfItWasThisQuote(cart, order.lines)
 }

@@ -4,7 +4,11 @@
 import type { PricedCart } from '~~/shared/types/shop'
 import { lineQuantityProblem } from '~~/shared/schemas/shop'
 
-interface LineInfo { name: string; slug: string; image: string }
+interface LineInfo {
+  name: string
+  slug: string
+  image: string
+}
 
 /** `shipToState`, when given, prices the tax for that destination (checkout's ship-to). */
 export function useCartPrice(shipToState?: Ref<string | null | undefined>) {
@@ -19,19 +23,36 @@ export function useCartPrice(shipToState?: Ref<string | null | undefined>) {
 
   async function refresh() {
     const mine = ++seq
-    if (!cart.lines.length) { priced.value = null; return }
+    if (!cart.lines.length) {
+      priced.value = null
+      return
+    }
     pending.value = true
     try {
       const sent = cart.validLines
-      const r = sent.length ? await api<PricedCart>('/api/cart/price', {
-        method: 'POST', body: { lines: sent, ...(shipToState?.value ? { shipToState: shipToState.value } : {}) },
-      }) : null
-      if (cart.lines.some((l) => !info.value[l.productId] && !r?.lines.some((p) => p.productId === l.productId))) {
+      const r = sent.length
+        ? await api<PricedCart>('/api/cart/price', {
+            method: 'POST',
+            body: {
+              lines: sent,
+              ...(shipToState?.value ? { shipToState: shipToState.value } : {}),
+            },
+          })
+        : null
+      if (
+        cart.lines.some(
+          l => !info.value[l.productId] && !r?.lines.some(p => p.productId === l.productId),
+        )
+      ) {
         const all = await api<{ data: (LineInfo & { id: number })[] }>('/api/products')
         for (const p of all.data) info.value[p.id] = { name: p.name, slug: p.slug, image: p.image }
       }
-      for (const l of r?.lines ?? []) info.value[l.productId] = { name: l.name, slug: l.slug, image: l.image }
-      if (mine === seq) { priced.value = r; error.value = '' }
+      for (const l of r?.lines ?? [])
+        info.value[l.productId] = { name: l.name, slug: l.slug, image: l.image }
+      if (mine === seq) {
+        priced.value = r
+        error.value = ''
+      }
     } catch (e) {
       if (mine === seq) error.value = toApiFailure(e).message
     } finally {
@@ -40,14 +61,28 @@ export function useCartPrice(shipToState?: Ref<string | null | undefined>) {
   }
 
   /** Every cart line as typed, with its price when it has one and what is wrong with it. */
-  const rows = computed(() => cart.lines.map((l) => {
-    const p = priced.value?.lines.find((x) => x.productId === l.productId)
-    const problem = lineQuantityProblem(l.quantity, p?.available)
-    return { productId: l.productId, quantity: l.quantity, priced: problem ? null : p ?? null, info: p ?? info.value[l.productId] ?? null, problem }
-  }))
-  const problems = computed(() => rows.value.filter((r) => r.problem).length)
-  const orderable = computed(() => !!priced.value && !pending.value && cart.lines.length > 0 && problems.value === 0
-    && priced.value.lines.length === cart.lines.length)
+  const rows = computed(() =>
+    cart.lines.map((l) => {
+      const p = priced.value?.lines.find(x => x.productId === l.productId)
+      const problem = lineQuantityProblem(l.quantity, p?.available)
+      return {
+        productId: l.productId,
+        quantity: l.quantity,
+        priced: problem ? null : (p ?? null),
+        info: p ?? info.value[l.productId] ?? null,
+        problem,
+      }
+    }),
+  )
+  const problems = computed(() => rows.value.filter(r => r.problem).length)
+  const orderable = computed(
+    () =>
+      !!priced.value
+      && !pending.value
+      && cart.lines.length > 0
+      && problems.value === 0
+      && priced.value.lines.length === cart.lines.length,
+  )
 
   onMounted(() => {
     cart.restore()

@@ -6,7 +6,16 @@ export function usePersistedStore(store: Store, key: string) {
   if (!import.meta.client) return
   const saved = localStorage.getItem(key)
   if (saved) {
-    try { store.$patch(JSON.parse(saved)) } catch { localStorage.removeItem(key) }
+    try {
+      store.$patch(JSON.parse(saved))
+    } catch {
+      localStorage.removeItem(key)
+    }
   }
-  store.$subscribe((_m, state) => { localStorage.setItem(key, JSON.stringify(state)) }, { detached: true })
+  store.$subscribe(
+    (_m, state) => {
+      localStorage.setItem(key, JSON.stringify(state))
+    },
+    { detached: true },
+  )
 }

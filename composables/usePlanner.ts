@@ -9,8 +9,12 @@ import { checkPlannerForm } from '~~/shared/utils/planner-form'
 export function usePlanner() {
   const store = usePlannerStore()
   const check = computed(() => checkPlannerForm(store.form))
-  const inputs = computed(() => (check.value.ok ? { rig: check.value.rig, targets: check.value.targets } : null))
-  const plan = computed(() => (inputs.value ? planGains(inputs.value.rig, inputs.value.targets) : null))
+  const inputs = computed(() =>
+    check.value.ok ? { rig: check.value.rig, targets: check.value.targets } : null,
+  )
+  const plan = computed(() =>
+    inputs.value ? planGains(inputs.value.rig, inputs.value.targets) : null,
+  )
 
   const gains = computed<Gains | null>(() => {
     if (!inputs.value) return null
@@ -18,7 +22,13 @@ export function usePlanner() {
     if (store.gainSource === 'own') {
       const g = store.ownGains
       if (!(g.kp > 0) || !(g.kd >= 0) || !(g.ki >= 0)) return null
-      return { kp: g.kp, kd: g.kd, ki: t.form === 'PID' ? g.ki : 0, n: t.derivativeFilterN, derivativeOn: t.derivativeOn }
+      return {
+        kp: g.kp,
+        kd: g.kd,
+        ki: t.form === 'PID' ? g.ki : 0,
+        n: t.derivativeFilterN,
+        derivativeOn: t.derivativeOn,
+      }
     }
     return plan.value?.gains ?? null
   })
@@ -26,13 +36,17 @@ export function usePlanner() {
   const analysis = computed(() => {
     if (!inputs.value || !gains.value) return null
     if (store.gainSource === 'suggested') return plan.value?.analysis ?? null
-    return analyzeLoop(inputs.value.rig, gains.value, { discretization: inputs.value.targets.discretization })
+    return analyzeLoop(inputs.value.rig, gains.value, {
+      discretization: inputs.value.targets.discretization,
+    })
   })
 
   const firmware = computed(() => {
     if (!inputs.value || !gains.value) return null
     if (store.gainSource === 'suggested') return plan.value?.firmware ?? null
-    return firmwareConstants(inputs.value.rig, gains.value, { discretization: inputs.value.targets.discretization })
+    return firmwareConstants(inputs.value.rig, gains.value, {
+      discretization: inputs.value.targets.discretization,
+    })
   })
 
   function useSuggestion() {

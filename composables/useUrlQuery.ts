@@ -3,7 +3,10 @@
 // falls back to its default) and written back with router.replace, defaults left out.
 import type { z } from 'zod'
 
-export function useUrlQuery<T extends Record<string, string | number>>(schema: z.ZodType, defaults: T): { [K in keyof T]: Ref<T[K]> } {
+export function useUrlQuery<T extends Record<string, string | number>>(
+  schema: z.ZodType,
+  defaults: T,
+): { [K in keyof T]: Ref<T[K]> } {
   const route = useRoute()
   const router = useRouter()
   const refs = {} as { [K in keyof T]: Ref<T[K]> }
@@ -14,7 +17,8 @@ export function useUrlQuery<T extends Record<string, string | number>>(schema: z
     if (typeof text === 'string' && text !== '') {
       const one = schema.safeParse({ [key]: text })
       const parsed = one.success ? (one.data as Record<string, unknown>)[key] : undefined
-      if (parsed !== undefined && typeof parsed === typeof defaults[key]) value = parsed as T[typeof key]
+      if (parsed !== undefined && typeof parsed === typeof defaults[key])
+        value = parsed as T[typeof key]
     }
     refs[key] = ref(value) as Ref<T[typeof key]>
   }

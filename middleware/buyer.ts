@@ -4,5 +4,6 @@ import { canBuy } from '~~/shared/utils/roles'
 
 export default defineNuxtRouteMiddleware(() => {
   const { user } = useCurrentUser()
-  if (user.value && !canBuy(user.value)) return abortNavigation(createError({ statusCode: 404, statusMessage: 'Page not found' }))
+  if (user.value && !canBuy(user.value))
+    return abortNavigation(createError({ statusCode: 404, statusMessage: 'Page not found' }))
 })

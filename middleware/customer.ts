@@ -4,5 +4,6 @@ import { isCustomer } from '~~/shared/utils/roles'
 export default defineNuxtRouteMiddleware((to) => {
   const { user } = useCurrentUser()
   if (!user.value) return navigateTo({ path: '/login', query: { next: to.fullPath } })
-  if (!isCustomer(user.value)) return abortNavigation(createError({ statusCode: 404, statusMessage: 'Page not found' }))
+  if (!isCustomer(user.value))
+    return abortNavigation(createError({ statusCode: 404, statusMessage: 'Page not found' }))
 })

@@ -5,5 +5,6 @@ import { canBuy } from '~~/shared/utils/roles'
 export default defineNuxtRouteMiddleware((to) => {
   const { user } = useCurrentUser()
   if (!user.value) return navigateTo({ path: '/login', query: { next: to.fullPath } })
-  if (!canBuy(user.value)) return abortNavigation(createError({ statusCode: 404, statusMessage: 'Page not found' }))
+  if (!canBuy(user.value))
+    return abortNavigation(createError({ statusCode: 404, statusMessage: 'Page not found' }))
 })

@@ -22,7 +22,7 @@ export const DEMO_ACCOUNTS = [
  * the catalog when there are no products (so a data folder from before the shop still gets
  * one). Returns what it seeded.
  */
-export async function seedDemo(url: string): Promise<{ people: boolean; catalog: boolean }> {
+export async function seedDemo(url: string): Promise<{ people: boolean, catalog: boolean }> {
   const conn = await mysql.createConnection({ uri: url })
   try {
     const db = drizzle(conn, { schema, mode: 'default' })
@@ -33,22 +33,57 @@ export async function seedDemo(url: string): Promise<{ people: boolean; catalog:
     const passwordHash = seeded.people ? await new Hash(new Scrypt({})).make(DEMO_PASSWORD) : ''
     await db.transaction(async (tx) => {
       if (seeded.people) {
-        const [school] = await tx.insert(schema.schools).values({
-          name: 'Wrenfield Middle School', district: 'Cobalt Hills School District',
-          addressLine1: '48 Orchard Terrace', city: 'Bramley Falls', region: 'OR', postalCode: '97999', country: 'US',
-          taxExemption: 'accepted',
-        }).$returningId()
+        const [school] = await tx
+          .insert(schema.schools)
+          .values({
+            name: 'Wrenfield Middle School',
+            district: 'Cobalt Hills School District',
+            addressLine1: '48 Orchard Terrace',
+            city: 'Bramley Falls',
+            region: 'OR',
+            postalCode: '97999',
+            country: 'US',
+            taxExemption: 'accepted',
+          })
+          .$returningId()
         for (const a of DEMO_ACCOUNTS) {
           const customer = a.role === 'teacher' || a.role === 'builder'
-          await tx.insert(schema.users).values({ ...a, passwordHash, schoolId: customer ? school!.id : null, verifiedAt: new Date() })
+          await tx
+            .insert(schema.users)
+            .values({
+              ...a,
+              passwordHash,
+              schoolId: customer ? school!.id : null,
+              verifiedAt: new Date(),
+            })
         }
       }
       if (seeded.catalog) {
         for (const [i, p] of DEMO_CATALOG.entries()) {
           const { tiers, batches, ...product } = p
-          const [row] = await tx.insert(schema.products).values({ ...product, sortOrder: i }).$returningId()
-          await tx.insert(schema.priceTiers).values(tiers.map(([minQuantity, unitPriceCents]) => ({ productId: row!.id, minQuantity, unitPriceCents })))
-          await tx.insert(schema.batches).values(batches.map(([code, quantityBuilt, builtOn]) => ({ productId: row!.id, code, quantityBuilt, builtOn: new Date(`${builtOn}T12:00:00Z`) })))
+          const [row] = await tx
+            .insert(schema.products)
+            .values({ ...product, sortOrder: i })
+            .$returningId()
+          await tx
+            .insert(schema.priceTiers)
+            .values(
+              tiers.map(([minQuantity, unitPriceCents]) => ({
+                productId: row!.id,
+                minQuantity,
+                unitPriceCents,
+              })),
+            )
+          await tx
+            .insert(schema.batches)
+            .values(
+              batches.map(([code, quantityBuilt, builtOn]) => ({
+                productId: row!.id,
+                code,
+                quantityBuilt,
+                builtOn: new Date(`${builtOn}T12:00:00Z`),
+              })),
+            )
         }
       }
     })

@@ -6,7 +6,14 @@ import { spawn, spawnSync, type ChildProcess } from 'node:child_process'
 import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { createConnection } from 'node:net'
-import { instance, ping, projectRoot, startMariaDb, type DbInstance, type Started } from './lib/mariadb'
+import {
+  instance,
+  ping,
+  projectRoot,
+  startMariaDb,
+  type DbInstance,
+  type Started,
+} from './lib/mariadb'
 import { migrateDatabase } from './lib/migrate'
 import { seedDemo } from './seed'
 import { startMailCatcher, type Catcher } from './mail-catcher'
@@ -22,7 +29,10 @@ const dbPort = Number(process.env.TILTWRIGHT_DB_PORT || 3406)
 function portInUse(p: number) {
   return new Promise<boolean>((ok) => {
     const s = createConnection({ host: '127.0.0.1', port: p })
-    s.once('connect', () => { s.destroy(); ok(true) })
+    s.once('connect', () => {
+      s.destroy()
+      ok(true)
+    })
     s.once('error', () => ok(false))
   })
 }
@@ -34,9 +44,19 @@ function claimPidFile() {
   if (existsSync(pidFile)) {
     const other = Number(readFileSync(pidFile, 'utf8'))
     let alive = false
-    try { if (other && other !== process.pid) { process.kill(other, 0); alive = true } } catch { /* gone */ }
+    try {
+      if (other && other !== process.pid) {
+        process.kill(other, 0)
+        alive = true
+      }
+    } catch {
+      /* gone */
+    }
     if (alive) {
-      console.error(`[tiltwright] Tiltwright is already running from this folder (process ${other}); nothing to do. Stop it with Ctrl-C first.`)
+      console.error(
+        `[tiltwright] Tiltwright is already running from this folder (process ${other}); `
+        + `nothing to do. Stop it with Ctrl-C first.`,
+      )
       process.exit(1)
     }
   }
@@ -55,10 +75,19 @@ async function stop(code = 0) {
   console.log('\n[tiltwright] stopping…')
   if (app && app.exitCode === null) {
     app.kill('SIGTERM')
-    await new Promise((r) => { const t = setTimeout(r, 8000); app!.once('exit', () => { clearTimeout(t); r(null) }) })
+    await new Promise((r) => {
+      const t = setTimeout(r, 8000)
+      app!.once('exit', () => {
+        clearTimeout(t)
+        r(null)
+      })
+    })
   }
   await catcher?.close()
-  if (db?.startedHere) { db.stop(); console.log('[tiltwright] database stopped') }
+  if (db?.startedHere) {
+    db.stop()
+    console.log('[tiltwright] database stopped')
+  }
   if (ownsPidFile) rmSync(pidFile, { force: true })
   process.exit(code)
 }
@@ -68,7 +97,9 @@ process.on('SIGHUP', () => void stop(0))
 // npm does not pass a SIGTERM it receives on to this script: if whoever started us goes away,
 // we are orphaned (a new parent id) and stop everything ourselves.
 const parentAtStart = process.ppid
-setInterval(() => { if (process.ppid !== parentAtStart) void stop(0) }, 1000).unref()
+setInterval(() => {
+  if (process.ppid !== parentAtStart) void stop(0)
+}, 1000).unref()
 
 // The private MariaDB this script started is watched: two missed pings in a row (5 s apart)
 // and it is started again on the same data, and the log says so. Meanwhile the app answers 503.
@@ -77,7 +108,10 @@ function watchDatabase(target: DbInstance) {
   let restarting = false
   setInterval(async () => {
     if (stopping || restarting) return
-    if (ping(target)) { missed = 0; return }
+    if (ping(target)) {
+      missed = 0
+      return
+    }
     if (++missed < 2) return
     restarting = true
     console.log('[tiltwright] the database stopped answering; restarting it…')
@@ -86,7 +120,10 @@ function watchDatabase(target: DbInstance) {
       missed = 0
       console.log(`[tiltwright] database restarted on 127.0.0.1:${target.port}`)
     } catch (e) {
-      console.error(`[tiltwright] could not restart the database (${e instanceof Error ? e.message : e}); trying again shortly`)
+      console.error(
+        `[tiltwright] could not restart the database (${e instanceof Error ? e.message : e}); `
+        + `trying again shortly`,
+      )
     } finally {
       restarting = false
     }
@@ -96,28 +133,46 @@ function watchDatabase(target: DbInstance) {
 async function main() {
   mkdirSync(resolve(projectRoot, 'data'), { recursive: true })
   claimPidFile()
-  if (!dbOnly && await portInUse(port)) {
-    console.error(`[tiltwright] port ${port} is already in use: is Tiltwright already running? Stop it first, or start this one with PORT=<another port>.`)
+  if (!dbOnly && (await portInUse(port))) {
+    console.error(
+      `[tiltwright] port ${port} is already in use: is Tiltwright already running? Stop it `
+      + `first, or start this one with PORT=<another port>.`,
+    )
     process.exit(1)
   }
   const target = instance('dev', dbPort, 'tiltwright')
   db = await startMariaDb(target)
-  console.log(`[tiltwright] MariaDB ${db.startedHere ? 'started' : 'already running'} on 127.0.0.1:${dbPort} (data in data/mariadb-dev)`)
+  console.log(
+    `[tiltwright] MariaDB ${db.startedHere ? 'started' : 'already running'} on `
+    + `127.0.0.1:${dbPort} (data in data/mariadb-dev)`,
+  )
   if (db.startedHere) watchDatabase(target)
   await migrateDatabase(target.url)
   console.log('[tiltwright] migrations applied')
   const seeded = await seedDemo(target.url)
-  if (seeded.people) console.log('[tiltwright] demo school and accounts seeded (password for every demo account: tiltwright-demo)')
+  if (seeded.people)
+    console.log(
+      '[tiltwright] demo school and accounts seeded (password for every demo account: '
+      + 'tiltwright-demo)',
+    )
   if (seeded.catalog) console.log('[tiltwright] demo catalog seeded')
   if (dbOnly) {
-    console.log(`[tiltwright] database ready at ${target.url.replace(/:[^:@]*@/, ':***@')}; Ctrl-C stops it`)
+    console.log(
+      `[tiltwright] database ready at ${target.url.replace(/:[^:@]*@/, ':***@')}; Ctrl-C stops it`,
+    )
     setInterval(() => {}, 1 << 30)
     return
   }
-  if (await portInUse(smtpPort)) console.log(`[tiltwright] something already listens on ${smtpPort}; using it as the SMTP server`)
+  if (await portInUse(smtpPort))
+    console.log(
+      `[tiltwright] something already listens on ${smtpPort}; using it as the SMTP server`,
+    )
   else {
     catcher = await startMailCatcher({ smtpPort, httpPort: mailHttpPort, name: 'dev' })
-    console.log(`[tiltwright] fake SMTP on 127.0.0.1:${smtpPort}; caught mail at http://127.0.0.1:${mailHttpPort}/`)
+    console.log(
+      `[tiltwright] fake SMTP on 127.0.0.1:${smtpPort}; caught mail at `
+      + `http://127.0.0.1:${mailHttpPort}/`,
+    )
   }
   const env = {
     ...process.env,
@@ -128,7 +183,10 @@ async function main() {
     NUXT_MAIL_CATCHER_URL: `http://127.0.0.1:${mailHttpPort}`,
     NUXT_PUBLIC_URL: process.env.NUXT_PUBLIC_URL || `http://localhost:${port}`,
     // Per-install secrets (data/secrets.json, made on first start); the environment wins.
-    ...secretsEnv(installSecrets(resolve(projectRoot, 'data', 'secrets.json')), process.env.TILTWRIGHT_FAKE_PAYMENTS !== '0'),
+    ...secretsEnv(
+      installSecrets(resolve(projectRoot, 'data', 'secrets.json')),
+      process.env.TILTWRIGHT_FAKE_PAYMENTS !== '0',
+    ),
     // A Secure session cookie only where the app is served over HTTPS.
     NUXT_SESSION_COOKIE_SECURE: String((process.env.NUXT_PUBLIC_URL ?? '').startsWith('https://')),
   }
@@ -139,10 +197,25 @@ async function main() {
     console.log('[tiltwright] building the app (about 30 s)…')
     const build = spawnSync(nuxt, ['build'], { stdio: 'inherit', env, cwd: projectRoot })
     if (build.status !== 0) throw new Error('nuxt build failed')
-    app = spawn(process.execPath, ['.output/server/index.mjs'], { stdio: 'inherit', env, cwd: projectRoot })
-    console.log(`[tiltwright] Tiltwright is at http://localhost:${port} — sign in as teacher@tiltwright.test (or builder@, support@, admin@) with tiltwright-demo`)
+    app = spawn(process.execPath, ['.output/server/index.mjs'], {
+      stdio: 'inherit',
+      env,
+      cwd: projectRoot,
+    })
+    console.log(
+      `[tiltwright] Tiltwright is at http://localhost:${port} — sign in as `
+      + `teacher@tiltwright.test (or builder@, support@, admin@) with tiltwright-demo`,
+    )
   }
-  app.once('exit', (code) => { if (!stopping) { console.log(`[tiltwright] the app exited (${code})`); void stop(code ?? 1) } })
+  app.once('exit', (code) => {
+    if (!stopping) {
+      console.log(`[tiltwright] the app exited (${code})`)
+      void stop(code ?? 1)
+    }
+  })
 }
 
-main().catch((e) => { console.error(`[tiltwright] ${e instanceof Error ? e.message : e}`); void stop(1) })
+main().catch((e) => {
+  console.error(`[tiltwright] ${e instanceof Error ? e.message : e}`)
+  void stop(1)
+})

@@ -17,32 +17,53 @@ export const useCartStore = defineStore('cart', () => {
     try {
       const raw = JSON.parse(localStorage.getItem(KEY) ?? '[]') as unknown
       if (Array.isArray(raw)) {
-        lines.value = raw.filter((l): l is CartLine => Number.isInteger(l?.productId) && typeof l?.quantity === 'number')
-          .map((l) => ({ productId: l.productId, quantity: l.quantity }))
+        lines.value = raw
+          .filter(
+            (l): l is CartLine => Number.isInteger(l?.productId) && typeof l?.quantity === 'number',
+          )
+          .map(l => ({ productId: l.productId, quantity: l.quantity }))
       }
-    } catch { /* a damaged entry starts an empty cart */ }
+    } catch {
+      /* a damaged entry starts an empty cart */
+    }
     restored.value = true
   }
 
-  watch(lines, (v) => { if (import.meta.client && restored.value) localStorage.setItem(KEY, JSON.stringify(v)) }, { deep: true })
+  watch(
+    lines,
+    (v) => {
+      if (import.meta.client && restored.value) localStorage.setItem(KEY, JSON.stringify(v))
+    },
+    { deep: true },
+  )
 
   function add(productId: number, quantity: number) {
-    const line = lines.value.find((l) => l.productId === productId)
+    const line = lines.value.find(l => l.productId === productId)
     if (line) line.quantity += quantity
     else lines.value.push({ productId, quantity })
   }
   function setQuantity(productId: number, quantity: number) {
-    const line = lines.value.find((l) => l.productId === productId)
+    const line = lines.value.find(l => l.productId === productId)
     if (line) line.quantity = quantity
   }
-  function remove(productId: number) { lines.value = lines.value.filter((l) => l.productId !== productId) }
-  function clear() { lines.value = [] }
-  const count = computed(() => lines.value.reduce((s, l) => s + (lineQuantityProblem(l.quantity) ? 0 : l.quantity), 0))
+  function remove(productId: number) {
+    lines.value = lines.value.filter(l => l.productId !== productId)
+  }
+  function clear() {
+    lines.value = []
+  }
+  const count = computed(() =>
+    lines.value.reduce((s, l) => s + (lineQuantityProblem(l.quantity) ? 0 : l.quantity), 0),
+  )
   /** The lines whose quantity can be priced and ordered at all (stock aside). */
-  const validLines = computed(() => lines.value.filter((l) => !lineQuantityProblem(l.quantity)))
+  const validLines = computed(() => lines.value.filter(l => !lineQuantityProblem(l.quantity)))
   /** True when the cart holds exactly these lines (same products, same quantities). */
   function holds(other: readonly CartLine[]) {
-    const key = (ls: readonly CartLine[]) => ls.map((l) => `${l.productId}:${l.quantity}`).sort().join(',')
+    const key = (ls: readonly CartLine[]) =>
+      ls
+        .map(l => `${l.productId}:${l.quantity}`)
+        .sort()
+        .join(',')
     return lines.value.length > 0 && key(lines.value) === key(other)
   }
 

@@ -7,7 +7,10 @@ import type { Gains } from '~~/shared/utils/planner/schema'
 
 const firstPreset = KIT_PRESETS[0]!
 
-export interface CalibrationRow { reading: number | null; positionMm: number | null }
+export interface CalibrationRow {
+  reading: number | null
+  positionMm: number | null
+}
 
 export const usePlannerStore = defineStore('planner', () => {
   const form = ref<PlannerForm>(formFrom(firstPreset.rig, DEFAULT_TARGETS))
@@ -15,17 +18,28 @@ export const usePlannerStore = defineStore('planner', () => {
   const gainSource = ref<'suggested' | 'own'>('suggested')
   const ownGains = ref<Pick<Gains, 'kp' | 'kd' | 'ki'>>({ kp: 0, kd: 0, ki: 0 })
   const calibration = ref<CalibrationRow[]>([
-    { reading: 102, positionMm: 40 }, { reading: 310, positionMm: 120 }, { reading: 512, positionMm: 200 },
-    { reading: 716, positionMm: 280 }, { reading: 921, positionMm: 360 },
+    { reading: 102, positionMm: 40 },
+    { reading: 310, positionMm: 120 },
+    { reading: 512, positionMm: 200 },
+    { reading: 716, positionMm: 280 },
+    { reading: 921, positionMm: 360 },
   ])
   /** The sheet the draft was opened from, if any. */
-  const sheet = ref<{ id: number; title: string; note?: string | null } | null>(null)
+  const sheet = ref<{ id: number, title: string, note?: string | null } | null>(null)
 
   function applyPreset(id: string) {
-    const preset = KIT_PRESETS.find((p) => p.id === id)
+    const preset = KIT_PRESETS.find(p => p.id === id)
     if (!preset) return
     const targets = { ...form.value }
-    form.value = { ...formFrom(preset.rig, DEFAULT_TARGETS), overshootPct: targets.overshootPct, settlingTime: targets.settlingTime, form: targets.form, method: targets.method, derivativeOn: targets.derivativeOn, derivativeFilterN: targets.derivativeFilterN }
+    form.value = {
+      ...formFrom(preset.rig, DEFAULT_TARGETS),
+      overshootPct: targets.overshootPct,
+      settlingTime: targets.settlingTime,
+      form: targets.form,
+      method: targets.method,
+      derivativeOn: targets.derivativeOn,
+      derivativeFilterN: targets.derivativeFilterN,
+    }
     presetId.value = id
   }
 

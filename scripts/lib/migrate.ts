@@ -9,7 +9,9 @@ import { projectRoot } from './mariadb'
 export async function migrateDatabase(url: string) {
   const conn = await mysql.createConnection({ uri: url, multipleStatements: true })
   try {
-    await migrate(drizzle(conn), { migrationsFolder: resolve(projectRoot, 'server/database/migrations') })
+    await migrate(drizzle(conn), {
+      migrationsFolder: resolve(projectRoot, 'server/database/migrations'),
+    })
   } finally {
     await conn.end()
   }

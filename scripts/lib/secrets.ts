@@ -24,9 +24,14 @@ export function newSecrets(): InstallSecrets {
 
 /** The install's secrets, made and saved on first use; a file missing a field gets it added. */
 export function installSecrets(file: string): InstallSecrets {
-  const saved = existsSync(file) ? JSON.parse(readFileSync(file, 'utf8')) as Partial<InstallSecrets> : {}
+  const saved = existsSync(file)
+    ? (JSON.parse(readFileSync(file, 'utf8')) as Partial<InstallSecrets>)
+    : {}
   const fresh = newSecrets()
-  const all = { ...fresh, ...Object.fromEntries(Object.entries(saved).filter(([, v]) => typeof v === 'string' && v)) }
+  const all = {
+    ...fresh,
+    ...Object.fromEntries(Object.entries(saved).filter(([, v]) => typeof v === 'string' && v)),
+  }
   if (JSON.stringify(all) !== JSON.stringify(saved)) {
     mkdirSync(dirname(file), { recursive: true })
     writeFileSync(file, `${JSON.stringify(all, null, 2)}\n`, { mode: 0o600 })
@@ -36,12 +41,18 @@ export function installSecrets(file: string): InstallSecrets {
 }
 
 /** The environment variables the app reads them from (Nuxt's runtime config). */
-export function secretsEnv(s: InstallSecrets, fakePayments: boolean, env: NodeJS.ProcessEnv = process.env) {
+export function secretsEnv(
+  s: InstallSecrets,
+  fakePayments: boolean,
+  env: NodeJS.ProcessEnv = process.env,
+) {
   return {
     NUXT_SESSION_PASSWORD: env.NUXT_SESSION_PASSWORD || s.sessionPassword,
     NUXT_CSURF_ENCRYPT_SECRET: env.NUXT_CSURF_ENCRYPT_SECRET || s.csrfSecret,
     // Real payment credentials are never made up: outside fake mode only the environment's count.
-    NUXT_PAYMENTS_SECRET_KEY: env.NUXT_PAYMENTS_SECRET_KEY || (fakePayments ? s.paymentsSecretKey : ''),
-    NUXT_PAYMENTS_WEBHOOK_SECRET: env.NUXT_PAYMENTS_WEBHOOK_SECRET || (fakePayments ? s.paymentsWebhookSecret : ''),
+    NUXT_PAYMENTS_SECRET_KEY:
+      env.NUXT_PAYMENTS_SECRET_KEY || (fakePayments ? s.paymentsSecretKey : ''),
+    NUXT_PAYMENTS_WEBHOOK_SECRET:
+      env.NUXT_PAYMENTS_WEBHOOK_SECRET || (fakePayments ? s.paymentsWebhookSecret : ''),
   }
 }

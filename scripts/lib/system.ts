@@ -3,7 +3,10 @@
 import { execFileSync, spawnSync } from 'node:child_process'
 import { existsSync } from 'node:fs'
 
-export function which(binary: string, extraDirs: string[] = ['/usr/sbin', '/usr/bin', '/usr/local/bin']): string | null {
+export function which(
+  binary: string,
+  extraDirs: string[] = ['/usr/sbin', '/usr/bin', '/usr/local/bin'],
+): string | null {
   const r = spawnSync('sh', ['-c', `command -v ${binary}`], { encoding: 'utf8' })
   if (r.status === 0 && r.stdout.trim()) return r.stdout.trim()
   for (const dir of extraDirs) {
@@ -21,7 +24,10 @@ export function ensureDebianPackage(binary: string, pkg: string, why: string): s
   if (found) return found
   const isRoot = typeof process.getuid === 'function' && process.getuid() === 0
   if (!isRoot || !which('apt-get')) {
-    throw new Error(`${binary} is missing (${why}). Install Debian's package "${pkg}" (apt-get install ${pkg}) and run this again.`)
+    throw new Error(
+      `${binary} is missing (${why}). Install Debian's package "${pkg}" (apt-get install `
+      + `${pkg}) and run this again.`,
+    )
   }
   console.log(`[setup] ${binary} is missing; installing Debian's ${pkg} (${why})…`)
   const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' }
@@ -29,7 +35,10 @@ export function ensureDebianPackage(binary: string, pkg: string, why: string): s
     execFileSync('apt-get', ['update', '-qq'], { stdio: 'inherit', env })
     aptUpdated = true
   }
-  execFileSync('apt-get', ['install', '-y', '-qq', '--no-install-recommends', pkg], { stdio: 'inherit', env })
+  execFileSync('apt-get', ['install', '-y', '-qq', '--no-install-recommends', pkg], {
+    stdio: 'inherit',
+    env,
+  })
   const after = which(binary)
   if (!after) throw new Error(`installed ${pkg} but ${binary} is still not found`)
   return after

@@ -10,9 +10,17 @@ import { simulatorSettings } from './simulator'
 
 export async function emitEvent(type: string, object: FakeObject): Promise<FakeObject> {
   const evt: FakeObject = {
-    id: newId('evt'), object: 'event', api_version: '2026-10-28.endive', created: nowSeconds(), livemode: false,
-    type, pending_webhooks: 1, request: { id: null, idempotency_key: null }, data: { object: publicView(object) },
-    _delivered: false, _attempts: 0,
+    id: newId('evt'),
+    object: 'event',
+    api_version: '2026-10-28.endive',
+    created: nowSeconds(),
+    livemode: false,
+    type,
+    pending_webhooks: 1,
+    request: { id: null, idempotency_key: null },
+    data: { object: publicView(object) },
+    _delivered: false,
+    _attempts: 0,
   }
   await putObject(evt)
   await enqueueJob(useDb(), 'fake-webhook', { eventId: evt.id })
@@ -28,12 +36,19 @@ export const fakeWebhookJob: JobDefinition<{ eventId: string }> = {
     let ok = false
     let why = ''
     try {
-      if ((await simulatorSettings()).webhooks === 'fail') throw new Error('the simulator is set to fail webhook deliveries')
+      if ((await simulatorSettings()).webhooks === 'fail')
+        throw new Error('the simulator is set to fail webhook deliveries')
       const payload = JSON.stringify(publicView(evt), null, 2)
       const target = new URL('/api/webhooks/payments', useRuntimeConfig().publicUrl).toString()
       const res = await fetch(target, {
-        method: 'POST', body: payload, signal: AbortSignal.timeout(8000),
-        headers: { 'content-type': 'application/json', 'stripe-signature': signWebhookPayload(payload), 'user-agent': 'Tiltwright-PaymentSimulator/1.0' },
+        method: 'POST',
+        body: payload,
+        signal: AbortSignal.timeout(8000),
+        headers: {
+          'content-type': 'application/json',
+          'stripe-signature': signWebhookPayload(payload),
+          'user-agent': 'Tiltwright-PaymentSimulator/1.0',
+        },
       })
       ok = res.ok
       if (!ok) why = `the webhook answered ${res.status}`

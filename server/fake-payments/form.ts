@@ -22,12 +22,22 @@ function arrayify(node: unknown): unknown {
   const keys = Object.keys(obj)
   const out: Record<string, unknown> = {}
   for (const k of keys) out[k] = arrayify(obj[k])
-  if (keys.length && keys.every((k) => /^\d+$/.test(k))) return keys.map(Number).sort((a, b) => a - b).map((k) => out[String(k)])
+  if (keys.length && keys.every(k => /^\d+$/.test(k)))
+    return keys
+      .map(Number)
+      .sort((a, b) => a - b)
+      .map(k => out[String(k)])
   return out
 }
 
-export const asInt = (v: FormValue | undefined, fallback = 0) => (typeof v === 'string' && /^-?\d+$/.test(v) ? Number(v) : fallback)
+export const asInt = (v: FormValue | undefined, fallback = 0) =>
+  typeof v === 'string' && /^-?\d+$/.test(v) ? Number(v) : fallback
 export const asString = (v: FormValue | undefined) => (typeof v === 'string' ? v : undefined)
 export const asRecord = (v: FormValue | undefined): Record<string, string> =>
-  v && typeof v === 'object' && !Array.isArray(v) ? Object.fromEntries(Object.entries(v).filter(([, x]) => typeof x === 'string')) as Record<string, string> : {}
+  v && typeof v === 'object' && !Array.isArray(v)
+    ? (Object.fromEntries(Object.entries(v).filter(([, x]) => typeof x === 'string')) as Record<
+        string,
+        string
+      >)
+    : {}
 export const asList = (v: FormValue | undefined): FormValue[] => (Array.isArray(v) ? v : [])

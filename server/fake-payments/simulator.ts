@@ -4,7 +4,11 @@
 // POST /v1/simulator/settings (with the secret key), which tests use to rehearse outages.
 import { getObject, putObject } from './store'
 
-export interface SimulatorSettings { api: 'normal' | 'fail' | 'slow'; webhooks: 'deliver' | 'fail'; slowMs: number }
+export interface SimulatorSettings {
+  api: 'normal' | 'fail' | 'slow'
+  webhooks: 'deliver' | 'fail'
+  slowMs: number
+}
 
 const DEFAULTS: SimulatorSettings = { api: 'normal', webhooks: 'deliver', slowMs: 1500 }
 const ID = 'simulator_settings'
@@ -17,8 +21,8 @@ export async function simulatorSettings(): Promise<SimulatorSettings> {
 export async function updateSimulator(change: Partial<Record<keyof SimulatorSettings, string>>) {
   const now = await simulatorSettings()
   const next: SimulatorSettings = {
-    api: (['normal', 'fail', 'slow'] as const).find((v) => v === change.api) ?? now.api,
-    webhooks: (['deliver', 'fail'] as const).find((v) => v === change.webhooks) ?? now.webhooks,
+    api: (['normal', 'fail', 'slow'] as const).find(v => v === change.api) ?? now.api,
+    webhooks: (['deliver', 'fail'] as const).find(v => v === change.webhooks) ?? now.webhooks,
     slowMs: Math.min(30_000, Math.max(0, Number(change.slowMs ?? now.slowMs) || 0)),
   }
   await putObject({ id: ID, object: 'simulator', settings: next })

@@ -1,7 +1,13 @@
 // Every kind of durable job and what runs it (server/utils/jobs.ts claims and retries them).
 import { mailJob } from './mail'
 import {
-  expireCheckoutJob, issueInvoiceJob, openCheckoutJob, refundPaymentJob, settleInvoiceJob, sweepCardHoldsJob, voidInvoiceJob,
+  expireCheckoutJob,
+  issueInvoiceJob,
+  openCheckoutJob,
+  refundPaymentJob,
+  settleInvoiceJob,
+  sweepCardHoldsJob,
+  voidInvoiceJob,
 } from './payments'
 import { fakeWebhookJob } from '../fake-payments/events'
 

@@ -7,10 +7,10 @@ import type { RenderedMail } from '../emails/layout'
 import { useMailTransport } from '../services/mail'
 import type { JobDefinition } from '../utils/jobs'
 
-export type MailAttachment =
-  | { filename: string; contentType: string; contentBase64: string }
-  | { document: 'quote'; quoteId: number }
-  | { document: OrderDocumentKind; orderId: number }
+export type MailAttachment
+  = | { filename: string, contentType: string, contentBase64: string }
+    | { document: 'quote', quoteId: number }
+    | { document: OrderDocumentKind, orderId: number }
 
 export interface MailPayload {
   kind: string
@@ -23,13 +23,21 @@ export interface MailPayload {
 
 async function renderAttachment(a: MailAttachment) {
   if ('contentBase64' in a) {
-    return { filename: a.filename, contentType: a.contentType, content: Buffer.from(a.contentBase64, 'base64') }
+    return {
+      filename: a.filename,
+      contentType: a.contentType,
+      content: Buffer.from(a.contentBase64, 'base64'),
+    }
   }
   const db = useDb()
   if (a.document === 'quote') {
     const [q] = await db.select().from(quotes).where(eq(quotes.id, a.quoteId)).limit(1)
     if (!q) throw new Error(`quote ${a.quoteId} is gone`)
-    return { filename: `Tiltwright-quote-${q.number}.pdf`, contentType: 'application/pdf', content: await renderQuotePdf(db, q) }
+    return {
+      filename: `Tiltwright-quote-${q.number}.pdf`,
+      contentType: 'application/pdf',
+      content: await renderQuotePdf(db, q),
+    }
   }
   const order = await loadOrder(db, a.orderId)
   const doc = order ? await renderOrderDocument(db, order, a.document) : null
@@ -40,17 +48,41 @@ async function renderAttachment(a: MailAttachment) {
 export const mailJob: JobDefinition<MailPayload> = {
   async run(p) {
     const attachments = await Promise.all((p.attachments ?? []).map(renderAttachment))
-    await useMailTransport().send({ to: p.to, subject: p.subject, text: p.text, html: p.html, attachments })
+    await useMailTransport().send({
+      to: p.to,
+      subject: p.subject,
+      text: p.text,
+      html: p.html,
+      attachments,
+    })
   },
 }
 
 /** Queues an e-mail inside the transaction of the change that causes it. Attachments are
  *  bytes, or documents named to be rendered when the mail is sent. */
-export async function queueMail(tx: DbOrTx, kind: string, to: string, mail: RenderedMail,
-  attachments: ({ filename: string; contentType: string; content: Buffer } | MailAttachment)[] = []) {
-  const stored: MailAttachment[] = attachments.map((a) => 'content' in a
-    ? { filename: a.filename, contentType: a.contentType, contentBase64: a.content.toString('base64') }
-    : a)
-  const payload: MailPayload = { kind, to, subject: mail.subject, text: mail.text, html: mail.html, attachments: stored }
+export async function queueMail(
+  tx: DbOrTx,
+  kind: string,
+  to: string,
+  mail: RenderedMail,
+  attachments: ({ filename: string, contentType: string, content: Buffer } | MailAttachment)[] = [],
+) {
+  const stored: MailAttachment[] = attachments.map(a =>
+    'content' in a
+      ? {
+          filename: a.filename,
+          contentType: a.contentType,
+          contentBase64: a.content.toString('base64'),
+        }
+      : a,
+  )
+  const payload: MailPayload = {
+    kind,
+    to,
+    subject: mail.subject,
+    text: mail.text,
+    html: mail.html,
+    attachments: stored,
+  }
   return enqueueJob(tx, 'mail', payload as unknown as Record<string, unknown>)
 }

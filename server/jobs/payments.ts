@@ -4,7 +4,12 @@
 import { and, asc, eq, inArray, isNull, lt } from 'drizzle-orm'
 import { jobs, orders } from '../database/schema'
 import {
-  checkoutStatus, createCardCheckout, createNetInvoice, expireCheckout, markInvoicePaidOutOfBand, refundPayment,
+  checkoutStatus,
+  createCardCheckout,
+  createNetInvoice,
+  expireCheckout,
+  markInvoicePaidOutOfBand,
+  refundPayment,
   voidInvoice,
 } from '../services/payments'
 import type { JobDefinition } from '../utils/jobs'
@@ -22,9 +27,14 @@ export const openCheckoutJob: JobDefinition<OrderJob> = {
     const { school, buyer } = await orderPeople(useDb(), order)
     const lines = await linesOf(useDb(), orderId)
     const checkout = await createCardCheckout({
-      orderId, orderNumber: order.number!, email: buyer.email, name: buyer.name, schoolName: school.name,
+      orderId,
+      orderNumber: order.number!,
+      email: buyer.email,
+      name: buyer.name,
+      schoolName: school.name,
       lines: chargeLinesFor(lines, order),
-      successUrl: appUrl(`/orders/${orderId}?paid=1`), cancelUrl: appUrl(`/orders/${orderId}?card=cancelled`),
+      successUrl: appUrl(`/orders/${orderId}?paid=1`),
+      cancelUrl: appUrl(`/orders/${orderId}?card=cancelled`),
     })
     await recordCheckoutOpened(orderId, checkout)
   },
@@ -41,14 +51,25 @@ export const issueInvoiceJob: JobDefinition<OrderJob> = {
     const { school, po } = await orderPeople(useDb(), order)
     const lines = await linesOf(useDb(), orderId)
     const invoice = await createNetInvoice({
-      orderId, orderNumber: order.number!, email: po!.apEmail, name: `${school.name} accounts payable`, schoolName: school.name,
-      poNumber: po!.poNumber, netDays: INVOICE_NET_DAYS, lines: chargeLinesFor(lines, order),
+      orderId,
+      orderNumber: order.number!,
+      email: po!.apEmail,
+      name: `${school.name} accounts payable`,
+      schoolName: school.name,
+      poNumber: po!.poNumber,
+      netDays: INVOICE_NET_DAYS,
+      lines: chargeLinesFor(lines, order),
     })
     await recordInvoiceIssued(orderId, invoice)
   },
   async giveUp({ orderId }, _job, error) {
-    await addOrderEvent(useDb(), orderId, 'invoice-failed',
-      `The invoice could not be issued at the payment service (${error}). An admin can try again from the order page.`)
+    await addOrderEvent(
+      useDb(),
+      orderId,
+      'invoice-failed',
+      `The invoice could not be issued at the payment service (${error}). An admin can try `
+      + `again from the order page.`,
+    )
   },
 }
 
@@ -80,13 +101,20 @@ export const expireCheckoutJob: JobDefinition<OrderJob> = {
   },
 }
 
-export const refundPaymentJob: JobDefinition<OrderJob & { paymentIntent: string; amountCents: number }> = {
+export const refundPaymentJob: JobDefinition<
+  OrderJob & { paymentIntent: string, amountCents: number }
+> = {
   async run({ orderId, paymentIntent, amountCents }) {
     const r = await refundPayment(paymentIntent, amountCents)
     await recordRefund(orderId, { refundId: r.refundId, amountCents })
   },
   async giveUp({ orderId }, _job, error) {
-    await addOrderEvent(useDb(), orderId, 'refund-failed', `The automatic refund failed (${error}); refund the payment by hand.`)
+    await addOrderEvent(
+      useDb(),
+      orderId,
+      'refund-failed',
+      `The automatic refund failed (${error}); refund the payment by hand.`,
+    )
   },
 }
 
@@ -99,14 +127,30 @@ export const sweepCardHoldsJob: JobDefinition<Record<string, never>> = {
     const cfg = useRuntimeConfig()
     const hours = Number(cfg.cardHoldHours) || 48
     const cutoff = new Date(Date.now() - hours * 3600_000)
-    const stale = await useDb().select({ id: orders.id }).from(orders)
-      .where(and(eq(orders.paymentMethod, 'card'), eq(orders.status, 'awaiting payment'), isNull(orders.paidAt), lt(orders.createdAt, cutoff)))
-      .orderBy(asc(orders.id)).limit(100)
+    const stale = await useDb()
+      .select({ id: orders.id })
+      .from(orders)
+      .where(
+        and(
+          eq(orders.paymentMethod, 'card'),
+          eq(orders.status, 'awaiting payment'),
+          isNull(orders.paidAt),
+          lt(orders.createdAt, cutoff),
+        ),
+      )
+      .orderBy(asc(orders.id))
+      .limit(100)
     for (const { id } of stale) {
       try {
         await expireCardOrder(id, hours, async (sessionId) => {
           const s = await checkoutStatus(sessionId)
-          return { ...s, objectId: sessionId, via: 'checkout', amountCents: s.amountCents, reference: s.paymentIntent ?? sessionId }
+          return {
+            ...s,
+            objectId: sessionId,
+            via: 'checkout',
+            amountCents: s.amountCents,
+            reference: s.paymentIntent ?? sessionId,
+          }
         })
       } catch (e) {
         // The provider did not answer: the order waits for the next sweep rather than being
@@ -116,9 +160,20 @@ export const sweepCardHoldsJob: JobDefinition<Record<string, never>> = {
     }
     // Finished jobs are kept a month for looking back, then cleared. Deleted by id after a plain
     // read: a locking scan of the table would wait on this job's own row, held by its runner.
-    const old = await useDb().select({ id: jobs.id }).from(jobs)
-      .where(and(eq(jobs.state, 'done'), lt(jobs.doneAt, new Date(Date.now() - 30 * 86_400_000)))).limit(500)
-    if (old.length) await useDb().delete(jobs).where(inArray(jobs.id, old.map((j) => j.id)))
+    const old = await useDb()
+      .select({ id: jobs.id })
+      .from(jobs)
+      .where(and(eq(jobs.state, 'done'), lt(jobs.doneAt, new Date(Date.now() - 30 * 86_400_000))))
+      .limit(500)
+    if (old.length)
+      await useDb()
+        .delete(jobs)
+        .where(
+          inArray(
+            jobs.id,
+            old.map(j => j.id),
+          ),
+        )
     return { again: Number(cfg.cardHoldSweepMs) || 600_000 }
   },
 }

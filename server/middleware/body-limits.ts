@@ -7,10 +7,18 @@ export default defineEventHandler(async (event) => {
   if (!WITH_BODY.has(event.method)) return
   // A request made inside the server (Nitro's local fetch) carries its body already and never
   // streams it; a stream that has ended has nothing left to read.
-  const req = event.node.req as typeof event.node.req & { body?: unknown; rawBody?: unknown }
-  if (event._requestBody || req.body !== undefined || req.rawBody !== undefined || req.readableEnded) return
+  const req = event.node.req as typeof event.node.req & { body?: unknown, rawBody?: unknown }
+  if (
+    event._requestBody
+    || req.body !== undefined
+    || req.rawBody !== undefined
+    || req.readableEnded
+  )
+    return
   const type = getRequestHeader(event, 'content-type') ?? ''
-  const boundary = type.startsWith('multipart/form-data') ? (type.match(/boundary="?([^";]+)"?/i)?.[1] ?? null) : null
+  const boundary = type.startsWith('multipart/form-data')
+    ? (type.match(/boundary="?([^";]+)"?/i)?.[1] ?? null)
+    : null
   const limit = boundary ? BODY_LIMITS.multipartBytes : BODY_LIMITS.bodyBytes
   const declared = Number(getRequestHeader(event, 'content-length') || 0)
   if (declared > limit) throw tooLarge(event, limit)

@@ -20,20 +20,23 @@ function hostOf(value: string): string | null {
 
 export default defineEventHandler((event) => {
   const path = event.path
-  if (path.startsWith('/api/') && path.split('?')[0]!.split('/').some(isDisguisedNumber)) throw notFound()
+  if (path.startsWith('/api/') && path.split('?')[0]!.split('/').some(isDisguisedNumber))
+    throw notFound()
   const cookie = getRequestHeader(event, 'cookie') ?? ''
   if (path.startsWith('/api/') || /(^|;\s*)nuxt-session=/.test(cookie)) {
     setResponseHeader(event, 'Cache-Control', 'no-store')
   }
 
-  if (!STATE_CHANGING.has(event.method) || NO_BROWSER_ORIGIN.some((p) => path.startsWith(p))) return
+  if (!STATE_CHANGING.has(event.method) || NO_BROWSER_ORIGIN.some(p => path.startsWith(p))) return
   const claimed = getRequestHeader(event, 'origin') ?? getRequestHeader(event, 'referer')
   if (claimed === undefined) return
   const allowed = [getRequestHost(event), hostOf(useRuntimeConfig(event).publicUrl)]
   const host = hostOf(claimed)
   if (!host || !allowed.includes(host)) {
     throw createError({
-      statusCode: 403, statusMessage: 'Forbidden', message: 'This request did not come from a Tiltwright page.',
+      statusCode: 403,
+      statusMessage: 'Forbidden',
+      message: 'This request did not come from a Tiltwright page.',
       data: { code: 'bad-origin' },
     })
   }

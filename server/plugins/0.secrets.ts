@@ -13,7 +13,8 @@ export default defineNitroPlugin(() => {
   })
   if (!missing.length) return
   const how = cfg.fakePayments
-    ? 'Start Tiltwright with `npm start`, which makes per-install secrets under data/, or set them yourself.'
+    ? 'Start Tiltwright with `npm start`, which makes per-install secrets under data/, or set '
+    + 'them yourself.'
     : 'Outside fake-payment mode, set the payment provider\'s real key and webhook signing secret.'
   console.error(`[tiltwright] refusing to start: missing ${missing.join(', ')}. ${how}`)
   process.exit(1)

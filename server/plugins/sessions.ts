@@ -5,8 +5,8 @@ export default defineNitroPlugin(() => {
   sessionHooks.hook('fetch', async (session, event) => {
     const live = await liveSession(event)
     if (!live) {
-      for (const key of Object.keys(session)) delete (session as Record<string, unknown>)[key]
-      await getUserSession(event).then((s) => s.user && clearUserSession(event))
+      for (const key of Object.keys(session)) Reflect.deleteProperty(session, key)
+      await getUserSession(event).then(s => s.user && clearUserSession(event))
       return
     }
     const user = toSessionUser(live.row)

@@ -5,7 +5,11 @@ import { randomBytes } from 'node:crypto'
 import { fileTypeFromBuffer } from 'file-type'
 import { UPLOAD_LIMIT_BYTES, UPLOAD_TYPES } from '../../shared/schemas/shop'
 
-export interface IncomingFile { filename?: string; type?: string; data: Buffer }
+export interface IncomingFile {
+  filename?: string
+  type?: string
+  data: Buffer
+}
 
 const EXTENSIONS: Record<(typeof UPLOAD_TYPES)[number], string> = {
   'application/pdf': 'pdf',
@@ -15,20 +19,40 @@ const EXTENSIONS: Record<(typeof UPLOAD_TYPES)[number], string> = {
 }
 
 /** A field error for an upload that is empty, too large or not a PDF or image; null when fine. */
-export async function uploadProblem(file: IncomingFile | undefined, label: string): Promise<{ problem: string } | { mime: (typeof UPLOAD_TYPES)[number] }> {
-  if (!file || !file.data.length) return { problem: `Attach the ${label} (PDF, PNG, JPEG or WebP).` }
-  if (file.data.length > UPLOAD_LIMIT_BYTES) return { problem: `The ${label} is larger than ${UPLOAD_LIMIT_BYTES / 1024 / 1024} MB.` }
+export async function uploadProblem(
+  file: IncomingFile | undefined,
+  label: string,
+): Promise<{ problem: string } | { mime: (typeof UPLOAD_TYPES)[number] }> {
+  if (!file || !file.data.length)
+    return { problem: `Attach the ${label} (PDF, PNG, JPEG or WebP).` }
+  if (file.data.length > UPLOAD_LIMIT_BYTES)
+    return { problem: `The ${label} is larger than ${UPLOAD_LIMIT_BYTES / 1024 / 1024} MB.` }
   const sniffed = await fileTypeFromBuffer(file.data)
   const mime = sniffed?.mime as (typeof UPLOAD_TYPES)[number] | undefined
-  if (!mime || !UPLOAD_TYPES.includes(mime)) return { problem: `The ${label} must be a PDF, PNG, JPEG or WebP file; this one is not, whatever its name says.` }
+  if (!mime || !UPLOAD_TYPES.includes(mime))
+    return {
+      problem:
+        `The ${label} must be a PDF, PNG, JPEG or WebP file; this one is not, whatever its `
+        + `name says.`,
+    }
   return { mime }
 }
 
 /** A safe display name: the original's base name keeping letters, digits and ordinary punctuation
  *  (`PO=1234 (final), v2&3.pdf` stays readable) but no quotes, slashes, semicolons or control
  *  characters, which could break the download's Content-Disposition header; the real extension. */
-export function safeFilename(original: string | undefined, mime: (typeof UPLOAD_TYPES)[number], fallback: string) {
-  const base = (original ?? '').split(/[\\/]/).pop()!.replace(/\.[^.]*$/, '').replace(/[^\w .,()=+&#@!~-]+/g, '').trim().slice(0, 80)
+export function safeFilename(
+  original: string | undefined,
+  mime: (typeof UPLOAD_TYPES)[number],
+  fallback: string,
+) {
+  const base = (original ?? '')
+    .split(/[\\/]/)
+    .pop()!
+    .replace(/\.[^.]*$/, '')
+    .replace(/[^\w .,()=+&#@!~-]+/g, '')
+    .trim()
+    .slice(0, 80)
   return `${base || fallback}.${EXTENSIONS[mime]}`
 }
 

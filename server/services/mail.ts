@@ -8,10 +8,13 @@ export interface OutgoingMail {
   subject: string
   text: string
   html?: string | null
-  attachments?: { filename: string; contentType: string; content: Buffer }[]
+  attachments?: { filename: string, contentType: string, content: Buffer }[]
 }
 
-export interface MailTransport { send(mail: OutgoingMail): Promise<void>; close(): void }
+export interface MailTransport {
+  send(mail: OutgoingMail): Promise<void>
+  close(): void
+}
 
 let transport: (MailTransport & { key: string }) | undefined
 
@@ -20,14 +23,26 @@ export function useMailTransport(): MailTransport {
   const key = `${cfg.smtpHost}:${cfg.smtpPort}`
   if (!transport || transport.key !== key) {
     const t: Transporter = nodemailer.createTransport({
-      host: cfg.smtpHost, port: Number(cfg.smtpPort), secure: false, ignoreTLS: cfg.smtpHost === '127.0.0.1',
-      connectionTimeout: 5000, greetingTimeout: 5000, socketTimeout: 10_000,
+      host: cfg.smtpHost,
+      port: Number(cfg.smtpPort),
+      secure: false,
+      ignoreTLS: cfg.smtpHost === '127.0.0.1',
+      connectionTimeout: 5000,
+      greetingTimeout: 5000,
+      socketTimeout: 10_000,
       auth: cfg.smtpUser ? { user: cfg.smtpUser, pass: cfg.smtpPassword } : undefined,
     })
     transport = {
       key,
       async send(mail) {
-        await t.sendMail({ from: cfg.mailFrom, to: mail.to, subject: mail.subject, text: mail.text, html: mail.html ?? undefined, attachments: mail.attachments })
+        await t.sendMail({
+          from: cfg.mailFrom,
+          to: mail.to,
+          subject: mail.subject,
+          text: mail.text,
+          html: mail.html ?? undefined,
+          attachments: mail.attachments,
+        })
       },
       close: () => t.close(),
     }

@@ -3,19 +3,35 @@
 // real key and no host it talks to the provider. Routes never see the SDK.
 import Stripe from 'stripe'
 
-export interface ChargeLine { description: string; quantity: number; unitAmountCents: number }
+export interface ChargeLine {
+  description: string
+  quantity: number
+  unitAmountCents: number
+}
 
 export interface CheckoutRequest {
-  orderId: number; orderNumber: string; email: string; name: string; schoolName: string
-  lines: ChargeLine[]; successUrl: string; cancelUrl: string
+  orderId: number
+  orderNumber: string
+  email: string
+  name: string
+  schoolName: string
+  lines: ChargeLine[]
+  successUrl: string
+  cancelUrl: string
 }
 
 export interface InvoiceRequest {
-  orderId: number; orderNumber: string; email: string; name: string; schoolName: string; poNumber: string
-  lines: ChargeLine[]; netDays: number
+  orderId: number
+  orderNumber: string
+  email: string
+  name: string
+  schoolName: string
+  poNumber: string
+  lines: ChargeLine[]
+  netDays: number
 }
 
-let cached: { key: string; stripe: Stripe } | undefined
+let cached: { key: string, stripe: Stripe } | undefined
 
 function client(): Stripe {
   const cfg = useRuntimeConfig()
@@ -29,7 +45,13 @@ function client(): Stripe {
         telemetry: false,
         maxNetworkRetries: 1,
         timeout: 15_000,
-        ...(target ? { host: target.hostname, port: target.port || (target.protocol === 'https:' ? 443 : 80), protocol: target.protocol.replace(':', '') as 'http' | 'https' } : {}),
+        ...(target
+          ? {
+              host: target.hostname,
+              port: target.port || (target.protocol === 'https:' ? 443 : 80),
+              protocol: target.protocol.replace(':', '') as 'http' | 'https',
+            }
+          : {}),
       }),
     }
   }
@@ -40,25 +62,44 @@ function client(): Stripe {
  *  a retried job gets the provider's first answer instead of a second object. */
 const once = (key: string) => ({ idempotencyKey: `tiltwright-${key}` })
 
-async function customerFor(r: { email: string; name: string; schoolName: string; orderId: number }, purpose: string) {
-  const c = await client().customers.create({
-    email: r.email, name: r.name, description: r.schoolName, metadata: { orderId: String(r.orderId) },
-  }, once(`customer-${purpose}-${r.orderId}`))
+async function customerFor(
+  r: { email: string, name: string, schoolName: string, orderId: number },
+  purpose: string,
+) {
+  const c = await client().customers.create(
+    {
+      email: r.email,
+      name: r.name,
+      description: r.schoolName,
+      metadata: { orderId: String(r.orderId) },
+    },
+    once(`customer-${purpose}-${r.orderId}`),
+  )
   return c.id
 }
 
 /** A hosted checkout page for a card payment of the order. */
 export async function createCardCheckout(r: CheckoutRequest) {
   const customer = await customerFor(r, 'checkout')
-  const session = await client().checkout.sessions.create({
-    mode: 'payment',
-    customer,
-    client_reference_id: String(r.orderId),
-    metadata: { orderId: String(r.orderId), orderNumber: r.orderNumber },
-    line_items: r.lines.map((l) => ({ quantity: l.quantity, price_data: { currency: 'usd', unit_amount: l.unitAmountCents, product_data: { name: l.description } } })),
-    success_url: r.successUrl,
-    cancel_url: r.cancelUrl,
-  }, once(`checkout-${r.orderId}`))
+  const session = await client().checkout.sessions.create(
+    {
+      mode: 'payment',
+      customer,
+      client_reference_id: String(r.orderId),
+      metadata: { orderId: String(r.orderId), orderNumber: r.orderNumber },
+      line_items: r.lines.map(l => ({
+        quantity: l.quantity,
+        price_data: {
+          currency: 'usd',
+          unit_amount: l.unitAmountCents,
+          product_data: { name: l.description },
+        },
+      })),
+      success_url: r.successUrl,
+      cancel_url: r.cancelUrl,
+    },
+    once(`checkout-${r.orderId}`),
+  )
   if (!session.url) throw new Error('the payment provider gave no checkout page')
   return { customerId: customer, sessionId: session.id, url: session.url }
 }
@@ -67,17 +108,24 @@ export async function createCardCheckout(r: CheckoutRequest) {
 export async function createNetInvoice(r: InvoiceRequest) {
   const stripe = client()
   const customer = await customerFor(r, 'invoice')
-  const draft = await stripe.invoices.create({
-    customer, collection_method: 'send_invoice', days_until_due: r.netDays, auto_advance: false, currency: 'usd',
-    metadata: { orderId: String(r.orderId), orderNumber: r.orderNumber, poNumber: r.poNumber },
-    description: `Tiltwright order ${r.orderNumber}, purchase order ${r.poNumber}`,
-  }, once(`invoice-${r.orderId}`))
+  const draft = await stripe.invoices.create(
+    {
+      customer,
+      collection_method: 'send_invoice',
+      days_until_due: r.netDays,
+      auto_advance: false,
+      currency: 'usd',
+      metadata: { orderId: String(r.orderId), orderNumber: r.orderNumber, poNumber: r.poNumber },
+      description: `Tiltwright order ${r.orderNumber}, purchase order ${r.poNumber}`,
+    },
+    once(`invoice-${r.orderId}`),
+  )
   // A retried job gets the same draft back: look at it as it is now before adding anything.
   const current = await stripe.invoices.retrieve(draft.id!)
   if (current.status !== 'draft') return invoiceReply(customer, current)
   if (!current.lines?.data?.length) {
     await stripe.invoices.addLines(draft.id!, {
-      lines: r.lines.map((l) => ({
+      lines: r.lines.map(l => ({
         amount: l.unitAmountCents * l.quantity,
         description: l.quantity > 1 ? `${l.description} × ${l.quantity}` : l.description,
       })),
@@ -89,8 +137,12 @@ export async function createNetInvoice(r: InvoiceRequest) {
 
 function invoiceReply(customer: string, inv: Stripe.Invoice) {
   return {
-    customerId: customer, invoiceId: inv.id!, number: inv.number ?? inv.id!, url: inv.hosted_invoice_url ?? null,
-    dueAt: inv.due_date ? new Date(inv.due_date * 1000) : null, amountDueCents: inv.amount_due,
+    customerId: customer,
+    invoiceId: inv.id!,
+    number: inv.number ?? inv.id!,
+    url: inv.hosted_invoice_url ?? null,
+    dueAt: inv.due_date ? new Date(inv.due_date * 1000) : null,
+    amountDueCents: inv.amount_due,
   }
 }
 
@@ -98,8 +150,11 @@ function invoiceReply(customer: string, inv: Stripe.Invoice) {
 export async function checkoutStatus(sessionId: string) {
   const s = await client().checkout.sessions.retrieve(sessionId)
   return {
-    paid: s.payment_status === 'paid', open: s.status === 'open', amountCents: s.amount_total ?? 0,
-    currency: s.currency ?? '', paymentIntent: typeof s.payment_intent === 'string' ? s.payment_intent : null,
+    paid: s.payment_status === 'paid',
+    open: s.status === 'open',
+    amountCents: s.amount_total ?? 0,
+    currency: s.currency ?? '',
+    paymentIntent: typeof s.payment_intent === 'string' ? s.payment_intent : null,
   }
 }
 
@@ -119,7 +174,10 @@ export async function voidInvoice(invoiceId: string) {
 
 /** Refunds a payment in full; one refund per payment, however often it is asked for. */
 export async function refundPayment(paymentIntent: string, amountCents: number) {
-  const r = await client().refunds.create({ payment_intent: paymentIntent, amount: amountCents }, once(`refund-${paymentIntent}`))
+  const r = await client().refunds.create(
+    { payment_intent: paymentIntent, amount: amountCents },
+    once(`refund-${paymentIntent}`),
+  )
   return { refundId: r.id, status: r.status }
 }
 
@@ -132,12 +190,19 @@ export async function markInvoicePaidOutOfBand(invoiceId: string) {
 
 /** Verifies a webhook's signature and returns the event; throws when it does not verify. */
 export function verifyWebhook(rawBody: string, signature: string): Stripe.Event {
-  return client().webhooks.constructEvent(rawBody, signature, useRuntimeConfig().paymentsWebhookSecret)
+  return client().webhooks.constructEvent(
+    rawBody,
+    signature,
+    useRuntimeConfig().paymentsWebhookSecret,
+  )
 }
 
 /** Signs a payload the way the provider does (the fake uses it to deliver its events). */
 export function signWebhookPayload(payload: string): string {
-  return client().webhooks.generateTestHeaderString({ payload, secret: useRuntimeConfig().paymentsWebhookSecret })
+  return client().webhooks.generateTestHeaderString({
+    payload,
+    secret: useRuntimeConfig().paymentsWebhookSecret,
+  })
 }
 
 export type PaymentEvent = Stripe.Event

@@ -15,19 +15,26 @@ export function appUrl(path: string) {
   return new URL(path, useRuntimeConfig().publicUrl).toString()
 }
 
-type MailUser = { id: number; name: string; email: string }
+type MailUser = { id: number, name: string, email: string }
 
 /** Locks the user's row for the rest of the transaction: one account mail at a time per person. */
 export async function lockUser(tx: DbOrTx, userId: number) {
   await tx.select({ id: users.id }).from(users).where(eq(users.id, userId)).for('update')
 }
 
-/** Sends a confirmation link unless the hour's cap for this address is reached; says whether it did. */
+/**
+ * Sends a confirmation link unless the hour's cap for this address is reached; says whether it did.
+ */
 export async function sendVerification(tx: DbOrTx, user: MailUser): Promise<boolean> {
   await lockUser(tx, user.id)
   if (!(await takeMailQuota(tx, 'verify-email', user.email))) return false
   const token = await issueToken(tx, user.id, 'verify-email')
-  await enqueueMail(tx, 'verify-email', user.email, verificationMail(user.name, appUrl(`/verify-email?token=${token}`)))
+  await enqueueMail(
+    tx,
+    'verify-email',
+    user.email,
+    verificationMail(user.name, appUrl(`/verify-email?token=${token}`)),
+  )
   return true
 }
 
@@ -35,27 +42,54 @@ export async function sendVerification(tx: DbOrTx, user: MailUser): Promise<bool
  *  user's row first, so two requests at once cannot both pass the one-minute check. */
 export async function sendPasswordReset(tx: DbOrTx, user: MailUser): Promise<boolean> {
   await lockUser(tx, user.id)
-  const [recent] = await tx.select({ id: authTokens.id }).from(authTokens).where(and(
-    eq(authTokens.userId, user.id), eq(authTokens.purpose, 'reset-password'),
-    gt(authTokens.createdAt, new Date(Date.now() - RESET_RESEND_GAP_MS)),
-  )).limit(1)
+  const [recent] = await tx
+    .select({ id: authTokens.id })
+    .from(authTokens)
+    .where(
+      and(
+        eq(authTokens.userId, user.id),
+        eq(authTokens.purpose, 'reset-password'),
+        gt(authTokens.createdAt, new Date(Date.now() - RESET_RESEND_GAP_MS)),
+      ),
+    )
+    .limit(1)
   if (recent || !(await takeMailQuota(tx, 'reset-password', user.email))) return false
   const token = await issueToken(tx, user.id, 'reset-password')
-  await enqueueMail(tx, 'reset-password', user.email, passwordResetMail(user.name, appUrl(`/reset-password/${token}`)))
+  await enqueueMail(
+    tx,
+    'reset-password',
+    user.email,
+    passwordResetMail(user.name, appUrl(`/reset-password/${token}`)),
+  )
   return true
 }
 
-/** Someone tried to register an address that already has an account: tell its owner, not the form. */
+/**
+ * Someone tried to register an address that already has an account: tell its owner, not the form.
+ */
 export async function sendAccountExists(tx: DbOrTx, user: MailUser) {
   await lockUser(tx, user.id)
   if (!(await takeMailQuota(tx, 'account-exists', user.email))) return
-  await enqueueMail(tx, 'account-exists', user.email, accountExistsMail(user.name, appUrl('/login'), appUrl('/forgot-password')))
+  await enqueueMail(
+    tx,
+    'account-exists',
+    user.email,
+    accountExistsMail(user.name, appUrl('/login'), appUrl('/forgot-password')),
+  )
 }
 
 /** Using one reset link spends every other unused one of the account. */
 export async function spendResetLinks(tx: DbOrTx, userId: number) {
-  await tx.update(authTokens).set({ usedAt: new Date() })
-    .where(and(eq(authTokens.userId, userId), eq(authTokens.purpose, 'reset-password'), isNull(authTokens.usedAt)))
+  await tx
+    .update(authTokens)
+    .set({ usedAt: new Date() })
+    .where(
+      and(
+        eq(authTokens.userId, userId),
+        eq(authTokens.purpose, 'reset-password'),
+        isNull(authTokens.usedAt),
+      ),
+    )
 }
 
 let dummy: Promise<string> | undefined
@@ -73,6 +107,6 @@ export async function withTimingFloor<T>(floorMs: number, work: () => Promise<T>
     return await work()
   } finally {
     const left = floorMs - (Date.now() - started)
-    if (left > 0) await new Promise((r) => setTimeout(r, left))
+    if (left > 0) await new Promise(r => setTimeout(r, left))
   }
 }

@@ -7,13 +7,22 @@ import type { users } from '../database/schema'
 
 export function toSessionUser(row: typeof users.$inferSelect): SessionUser {
   return {
-    id: row.id, email: row.email, name: row.name, role: row.role, schoolId: row.schoolId ?? null, verified: !!row.verifiedAt,
+    id: row.id,
+    email: row.email,
+    name: row.name,
+    role: row.role,
+    schoolId: row.schoolId ?? null,
+    verified: !!row.verifiedAt,
   }
 }
 
-export const signedOut = () => createError({
-  statusCode: 401, statusMessage: 'Unauthorized', message: 'Please sign in again.', data: { code: 'signed-out' },
-})
+export const signedOut = () =>
+  createError({
+    statusCode: 401,
+    statusMessage: 'Unauthorized',
+    message: 'Please sign in again.',
+    data: { code: 'signed-out' },
+  })
 
 /** 401 when nobody is signed in, or the session was ended, or the account has gone. */
 export async function requireUser(event: H3Event): Promise<SessionUser> {

@@ -23,16 +23,22 @@ export function tooLarge(event: H3Event, limit: number) {
   req.removeAllListeners('data')
   req.resume()
   res.once('finish', () => {
-    setTimeout(() => { if (!req.complete) req.socket.destroy() }, DRAIN_AFTER_REFUSAL_MS).unref()
+    setTimeout(() => {
+      if (!req.complete) req.socket.destroy()
+    }, DRAIN_AFTER_REFUSAL_MS).unref()
   })
   const mb = Math.round((limit / 1_000_000) * 10) / 10
   return createError({
-    statusCode: 413, statusMessage: 'Payload Too Large', message: `That is more than this form accepts (${mb} MB).`,
+    statusCode: 413,
+    statusMessage: 'Payload Too Large',
+    message: `That is more than this form accepts (${mb} MB).`,
     data: { code: 'too-large', limitBytes: limit },
   })
 }
 
-/** Counts the bytes between multipart boundaries as they pass; calls `over` when a part is too big. */
+/**
+ * Counts the bytes between multipart boundaries as they pass; calls `over` when a part is too big.
+ */
 function partWatcher(boundary: string, maxPart: number) {
   const delimiter = Buffer.from(`--${boundary}`)
   let carry = Buffer.alloc(0)
@@ -51,7 +57,11 @@ function partWatcher(boundary: string, maxPart: number) {
 }
 
 /** Reads the body with the limits above; rejects with 413 as soon as one is passed. */
-export function readBodyWithin(event: H3Event, limit: number, boundary: string | null): Promise<Buffer> {
+export function readBodyWithin(
+  event: H3Event,
+  limit: number,
+  boundary: string | null,
+): Promise<Buffer> {
   const req = event.node.req
   const partOk = boundary ? partWatcher(boundary, BODY_LIMITS.partBytes) : () => true
   return new Promise((resolve, reject) => {

@@ -11,8 +11,14 @@ type SchoolRow = typeof schools.$inferSelect
 /** The school's own address as a postal address, for prefilling and for older orders. */
 export function schoolPostalAddress(s: SchoolRow): PostalAddress {
   return {
-    name: s.name, attention: null, line1: s.addressLine1, line2: s.addressLine2 ?? null, city: s.city,
-    region: s.region, postalCode: s.postalCode, country: s.country,
+    name: s.name,
+    attention: null,
+    line1: s.addressLine1,
+    line2: s.addressLine2 ?? null,
+    city: s.city,
+    region: s.region,
+    postalCode: s.postalCode,
+    country: s.country,
   }
 }
 
@@ -23,7 +29,10 @@ export async function loadSchool(db: DbOrTx, schoolId: number): Promise<SchoolRo
 }
 
 /** The addresses an order is placed with: those given at checkout, else the school's. */
-export function checkoutAddressesFor(school: SchoolRow, given?: CheckoutAddresses | null): CheckoutAddresses {
+export function checkoutAddressesFor(
+  school: SchoolRow,
+  given?: CheckoutAddresses | null,
+): CheckoutAddresses {
   const own = schoolPostalAddress(school)
   return given ?? { shipTo: own, billTo: own, deliveryNote: null }
 }
@@ -36,9 +45,17 @@ export function schoolTaxBasis(school: SchoolRow | null, shipToState?: string | 
 
 /** The addresses an order shows: its own, or (placed before checkout asked) the school's. */
 export function addressesOfOrder(
-  order: { shipTo: PostalAddress | null; billTo: PostalAddress | null; deliveryNote: string | null },
+  order: {
+    shipTo: PostalAddress | null
+    billTo: PostalAddress | null
+    deliveryNote: string | null
+  },
   school: SchoolRow,
 ): CheckoutAddresses {
   const own = schoolPostalAddress(school)
-  return { shipTo: order.shipTo ?? own, billTo: order.billTo ?? own, deliveryNote: order.deliveryNote }
+  return {
+    shipTo: order.shipTo ?? own,
+    billTo: order.billTo ?? own,
+    deliveryNote: order.deliveryNote,
+  }
 }

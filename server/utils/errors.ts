@@ -3,7 +3,12 @@ import type { z } from 'zod'
 import { fieldErrorsOf, type FieldErrors } from '../../shared/utils/field-errors'
 
 export const notFound = (what = 'That') =>
-  createError({ statusCode: 404, statusMessage: 'Not Found', message: `${what} was not found.`, data: { code: 'not-found' } })
+  createError({
+    statusCode: 404,
+    statusMessage: 'Not Found',
+    message: `${what} was not found.`,
+    data: { code: 'not-found' },
+  })
 
 export const forbidden = (message = 'Your role cannot do that.') =>
   createError({ statusCode: 403, statusMessage: 'Forbidden', message, data: { code: 'forbidden' } })
@@ -12,13 +17,23 @@ export const conflict = (message: string, code = 'conflict', fields?: FieldError
   createError({ statusCode: 409, statusMessage: 'Conflict', message, data: { code, fields } })
 
 export const invalid = (fields: FieldErrors, message = 'Some fields need attention.') =>
-  createError({ statusCode: 422, statusMessage: 'Unprocessable Entity', message, data: { code: 'invalid', fields } })
+  createError({
+    statusCode: 422,
+    statusMessage: 'Unprocessable Entity',
+    message,
+    data: { code: 'invalid', fields },
+  })
 
 export const badRequest = (message: string, code = 'bad-request') =>
   createError({ statusCode: 400, statusMessage: 'Bad Request', message, data: { code } })
 
 export const tooManyRequests = (message: string, retryAfterSeconds: number) =>
-  createError({ statusCode: 429, statusMessage: 'Too Many Requests', message, data: { code: 'rate-limited', retryAfterSeconds } })
+  createError({
+    statusCode: 429,
+    statusMessage: 'Too Many Requests',
+    message,
+    data: { code: 'rate-limited', retryAfterSeconds },
+  })
 
 /** Parse with a shared zod schema, answering 422 with one message per field. */
 export function parseOrThrow<S extends z.ZodType>(schema: S, value: unknown): z.output<S> {
@@ -27,7 +42,10 @@ export function parseOrThrow<S extends z.ZodType>(schema: S, value: unknown): z.
   return result.data
 }
 
-export async function readBodyAs<S extends z.ZodType>(event: Parameters<typeof readBody>[0], schema: S): Promise<z.output<S>> {
+export async function readBodyAs<S extends z.ZodType>(
+  event: Parameters<typeof readBody>[0],
+  schema: S,
+): Promise<z.output<S>> {
   let body: unknown
   try {
     body = await readBody(event)
@@ -37,22 +55,43 @@ export async function readBodyAs<S extends z.ZodType>(event: Parameters<typeof r
   return parseOrThrow(schema, body ?? {})
 }
 
-export function queryAs<S extends z.ZodType>(event: Parameters<typeof getQuery>[0], schema: S): z.output<S> {
+export function queryAs<S extends z.ZodType>(
+  event: Parameters<typeof getQuery>[0],
+  schema: S,
+): z.output<S> {
   return parseOrThrow(schema, getQuery(event))
 }
 
-export function paramsAs<S extends z.ZodType>(event: Parameters<typeof getRouterParams>[0], schema: S): z.output<S> {
+export function paramsAs<S extends z.ZodType>(
+  event: Parameters<typeof getRouterParams>[0],
+  schema: S,
+): z.output<S> {
   const r = schema.safeParse(getRouterParams(event))
   if (!r.success) throw notFound()
   return r.data
 }
 
-/** MariaDB's duplicate-key error, wherever drizzle wraps it. */
-export function isDuplicateKey(e: unknown): boolean {
-  let cur: any = e
-  for (let i = 0; i < 4 && cur; i++) {
-    if (cur.code === 'ER_DUP_ENTRY' || cur.errno === 1062) return true
-    cur = cur.cause
+/** The fields of a driver error that the checks below read. */
+interface DriverError {
+  code?: string
+  errno?: number
+  fatal?: boolean
+  sqlState?: string
+  cause?: unknown
+}
+
+/** True when the error, or one of the errors it wraps (drizzle wraps the driver's), matches. */
+export function someCause(error: unknown, match: (e: DriverError) => boolean, depth = 6): boolean {
+  let cur = error
+  for (let i = 0; i < depth && cur && typeof cur === 'object'; i++) {
+    const e = cur as DriverError
+    if (match(e)) return true
+    cur = e.cause
   }
   return false
+}
+
+/** MariaDB's duplicate-key error, wherever drizzle wraps it. */
+export function isDuplicateKey(e: unknown): boolean {
+  return someCause(e, c => c.code === 'ER_DUP_ENTRY' || c.errno === 1062)
 }

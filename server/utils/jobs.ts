@@ -15,6 +15,8 @@ export type JobRow = typeof jobs.$inferSelect
 
 /** What a kind of job does. run() throws to be retried; it may ask to run again later. */
 export interface JobDefinition<P> {
+  // A job with nothing to ask returns nothing (void).
+  // eslint-disable-next-line @typescript-eslint/no-invalid-void-type
   run: (payload: P, job: JobRow) => Promise<void | { again: number }>
   /** Attempts before the job is given up (default JOBS.maxAttempts). */
   maxAttempts?: number
@@ -29,16 +31,29 @@ export const JOBS = {
   batch: 20,
 }
 
-export async function enqueueJob(tx: DbOrTx, kind: JobKind, payload: Record<string, unknown>,
-  opts: { uniqueKey?: string; delayMs?: number; runHere?: boolean } = {}): Promise<number | null> {
+export async function enqueueJob(
+  tx: DbOrTx,
+  kind: JobKind,
+  payload: Record<string, unknown>,
+  opts: { uniqueKey?: string, delayMs?: number, runHere?: boolean } = {},
+): Promise<number | null> {
   const values = {
-    kind, payload, uniqueKey: opts.uniqueKey ?? null,
+    kind,
+    payload,
+    uniqueKey: opts.uniqueKey ?? null,
     nextAttemptAt: new Date(Date.now() + (opts.delayMs ?? 0)),
   }
   if (opts.uniqueKey) {
     // A job that must exist once: a second enqueue of the same key changes nothing.
-    await tx.insert(jobs).values(values).onDuplicateKeyUpdate({ set: { uniqueKey: sql`unique_key` } })
-    const [row] = await tx.select({ id: jobs.id }).from(jobs).where(eq(jobs.uniqueKey, opts.uniqueKey)).limit(1)
+    await tx
+      .insert(jobs)
+      .values(values)
+      .onDuplicateKeyUpdate({ set: { uniqueKey: sql`unique_key` } })
+    const [row] = await tx
+      .select({ id: jobs.id })
+      .from(jobs)
+      .where(eq(jobs.uniqueKey, opts.uniqueKey))
+      .limit(1)
     if (!opts.runHere) kickJobs()
     return row?.id ?? null
   }
@@ -66,7 +81,7 @@ export function kickJobs(delayMs = 50) {
   timerAt = at
   timer = setTimeout(() => {
     timer = null
-    void runDueJobs().catch((e) => console.error('[jobs]', e))
+    void runDueJobs().catch(e => console.error('[jobs]', e))
   }, delayMs)
   timer.unref?.()
 }
@@ -109,56 +124,81 @@ type Outcome = 'none' | 'done' | 'retry' | 'failed'
  *  with it and the job is due again at once. Read-committed, so the claim locks that row only
  *  and the job may queue new jobs meanwhile. */
 async function runOne(onlyId?: number): Promise<Outcome> {
-  let givenUp: { def: JobDefinition<unknown>; job: JobRow; error: string } | null = null
-  const outcome = await useDb().transaction(async (tx) => {
-    const due = and(eq(jobs.state, 'pending'), lte(jobs.nextAttemptAt, new Date()))
-    const [job] = await tx.select().from(jobs).where(onlyId ? and(due, eq(jobs.id, onlyId)) : due)
-      .orderBy(asc(jobs.nextAttemptAt), asc(jobs.id)).limit(1).for('update', { skipLocked: true })
-    if (!job) return 'none' as const
-    const def = (await kinds())[job.kind as JobKind] as JobDefinition<unknown> | undefined
-    const attempts = job.attempts + 1
-    try {
-      if (!def) throw new Error(`no handler for jobs of kind ${job.kind}`)
-      const out = await def.run(job.payload, job)
-      if (out && 'again' in out) {
-        await tx.update(jobs).set({ attempts: 0, lastError: null, nextAttemptAt: new Date(Date.now() + out.again) })
+  let givenUp: { def: JobDefinition<unknown>, job: JobRow, error: string } | null = null
+  const outcome = await useDb().transaction(
+    async (tx) => {
+      const due = and(eq(jobs.state, 'pending'), lte(jobs.nextAttemptAt, new Date()))
+      const [job] = await tx
+        .select()
+        .from(jobs)
+        .where(onlyId ? and(due, eq(jobs.id, onlyId)) : due)
+        .orderBy(asc(jobs.nextAttemptAt), asc(jobs.id))
+        .limit(1)
+        .for('update', { skipLocked: true })
+      if (!job) return 'none' as const
+      const def = (await kinds())[job.kind as JobKind] as JobDefinition<unknown> | undefined
+      const attempts = job.attempts + 1
+      try {
+        if (!def) throw new Error(`no handler for jobs of kind ${job.kind}`)
+        const out = await def.run(job.payload, job)
+        if (out && 'again' in out) {
+          await tx
+            .update(jobs)
+            .set({ attempts: 0, lastError: null, nextAttemptAt: new Date(Date.now() + out.again) })
+            .where(eq(jobs.id, job.id))
+        } else {
+          await tx
+            .update(jobs)
+            .set({ state: 'done', attempts, lastError: null, doneAt: new Date() })
+            .where(eq(jobs.id, job.id))
+        }
+        return 'done' as const
+      } catch (e) {
+        const message = (e instanceof Error ? e.message : String(e)).slice(0, 500)
+        const failed = attempts >= (def?.maxAttempts ?? JOBS.maxAttempts)
+        await tx
+          .update(jobs)
+          .set({
+            attempts,
+            lastError: message,
+            state: failed ? 'failed' : 'pending',
+            nextAttemptAt: new Date(Date.now() + retryDelayMs(attempts)),
+          })
           .where(eq(jobs.id, job.id))
-      } else {
-        await tx.update(jobs).set({ state: 'done', attempts, lastError: null, doneAt: new Date() })
-          .where(eq(jobs.id, job.id))
+        if (failed && def?.giveUp) givenUp = { def, job, error: message }
+        return failed ? ('failed' as const) : ('retry' as const)
       }
-      return 'done' as const
-    } catch (e) {
-      const message = (e instanceof Error ? e.message : String(e)).slice(0, 500)
-      const failed = attempts >= (def?.maxAttempts ?? JOBS.maxAttempts)
-      await tx.update(jobs).set({
-        attempts, lastError: message, state: failed ? 'failed' : 'pending',
-        nextAttemptAt: new Date(Date.now() + retryDelayMs(attempts)),
-      }).where(eq(jobs.id, job.id))
-      if (failed && def?.giveUp) givenUp = { def, job, error: message }
-      return failed ? 'failed' as const : 'retry' as const
-    }
-  }, { isolationLevel: 'read committed' })
-  const g = givenUp as { def: JobDefinition<unknown>; job: JobRow; error: string } | null
+    },
+    { isolationLevel: 'read committed' },
+  )
+  const g = givenUp as { def: JobDefinition<unknown>, job: JobRow, error: string } | null
   if (g) await g.def.giveUp!(g.job.payload, g.job, g.error)
   return outcome
 }
 
 /** Runs one job now, in the caller's request (a checkout waits for its payment page), and
  *  gives its outcome: done, or the error it failed with this time. */
-export async function runJobNow(id: number): Promise<{ done: boolean; error: string | null }> {
+export async function runJobNow(id: number): Promise<{ done: boolean, error: string | null }> {
   const outcome = await runOne(id)
   if (outcome === 'done') return { done: true, error: null }
   // Not claimed: another runner holds it. Wait for its lock, then read how it ended.
-  const [row] = await useDb().transaction(async (tx) => tx.select({ state: jobs.state, lastError: jobs.lastError })
-    .from(jobs).where(eq(jobs.id, id)).limit(1).for('update'))
+  const [row] = await useDb().transaction(async tx =>
+    tx
+      .select({ state: jobs.state, lastError: jobs.lastError })
+      .from(jobs)
+      .where(eq(jobs.id, id))
+      .limit(1)
+      .for('update'),
+  )
   if (row?.state === 'done') return { done: true, error: null }
   return { done: false, error: row?.lastError ?? 'failed' }
 }
 
 /** Gives a pending job up now (its giveUp runs), for a caller that cannot wait for retries. */
 export async function giveUpJob(id: number, why: string) {
-  const [res] = await useDb().update(jobs).set({ state: 'failed', lastError: why.slice(0, 500) })
+  const [res] = await useDb()
+    .update(jobs)
+    .set({ state: 'failed', lastError: why.slice(0, 500) })
     .where(and(eq(jobs.id, id), eq(jobs.state, 'pending')))
   if (res.affectedRows !== 1) return false
   const [job] = await useDb().select().from(jobs).where(eq(jobs.id, id)).limit(1)
@@ -170,8 +210,13 @@ export async function giveUpJob(id: number, why: string) {
 /** A retry due before the next scheduled run gets a timer of its own. */
 async function nudgeForNextDue() {
   try {
-    const [row] = await useDb().select({ next: min(jobs.nextAttemptAt) }).from(jobs).where(eq(jobs.state, 'pending'))
+    const [row] = await useDb()
+      .select({ next: min(jobs.nextAttemptAt) })
+      .from(jobs)
+      .where(eq(jobs.state, 'pending'))
     const next = row?.next ? new Date(row.next).getTime() : null
     if (next !== null && next - Date.now() < 5000) kickJobs(Math.max(50, next - Date.now()))
-  } catch { /* the scheduled run tries again */ }
+  } catch {
+    /* the scheduled run tries again */
+  }
 }

@@ -29,8 +29,14 @@ export function parseMultipart(body: Buffer, boundary: string): MultiPartData[] 
     const split = part.indexOf('\r\n\r\n')
     if (split !== -1) {
       const headers = part.subarray(0, split).toString('utf8').split('\r\n')
-      const header = (name: string) => headers.find((h) => h.toLowerCase().startsWith(`${name}:`))?.slice(name.length + 1).trim()
-      const params = dispositionParams(`;${(header('content-disposition') ?? '').replace(/^[^;]*/, '')}`)
+      const header = (name: string) =>
+        headers
+          .find(h => h.toLowerCase().startsWith(`${name}:`))
+          ?.slice(name.length + 1)
+          .trim()
+      const params = dispositionParams(
+        `;${(header('content-disposition') ?? '').replace(/^[^;]*/, '')}`,
+      )
       const type = header('content-type')
       parts.push({
         data: Buffer.from(part.subarray(split + 4)),
@@ -46,7 +52,9 @@ export function parseMultipart(body: Buffer, boundary: string): MultiPartData[] 
 
 /** The parts of a multipart/form-data request, or undefined when it is not one. */
 export async function readMultipartParts(event: H3Event): Promise<MultiPartData[] | undefined> {
-  const boundary = (getRequestHeader(event, 'content-type') ?? '').match(/^multipart\/form-data;.*boundary="?([^";]+)"?/i)?.[1]
+  const boundary = (getRequestHeader(event, 'content-type') ?? '').match(
+    /^multipart\/form-data;.*boundary="?([^";]+)"?/i,
+  )?.[1]
   if (!boundary) return undefined
   const body = await readRawBody(event, false)
   return body ? parseMultipart(Buffer.from(body), boundary) : []

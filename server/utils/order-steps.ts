@@ -4,10 +4,27 @@
 // the payment provider). Routes authenticate, validate, call a step and reply.
 import { and, count, eq, inArray, isNull } from 'drizzle-orm'
 import {
-  batches, jobs, orderEvents, orderLines, orders, purchaseOrders, quotes, schools, shipments, stockReservations, storedFiles, users,
+  batches,
+  jobs,
+  orderEvents,
+  orderLines,
+  orders,
+  purchaseOrders,
+  quotes,
+  schools,
+  shipments,
+  stockReservations,
+  storedFiles,
+  users,
 } from '../database/schema'
 import {
-  ACTION_EVENT, ORDER_STATUS_LABELS, findTransition, flowWording, type Actor, type OrderAction, type PaymentMethod,
+  ACTION_EVENT,
+  ORDER_STATUS_LABELS,
+  findTransition,
+  flowWording,
+  type Actor,
+  type OrderAction,
+  type PaymentMethod,
 } from '../../shared/utils/order-flow'
 import { releasedWords } from '../../shared/utils/shop-rules'
 import { formatCents, INVOICE_NET_DAYS } from '../../shared/utils/pricing'
@@ -16,11 +33,23 @@ import type { SessionUser } from '../../shared/utils/roles'
 import type { CartLine } from '../../shared/schemas/shop'
 import type { CheckoutAddresses } from '../../shared/schemas/address'
 import {
-  invoiceIssuedMail, invoiceVoidedMail, orderCancelledMail, orderPlacedMail, paymentReceivedMail, paymentRefundedMail, poApprovedMail,
-  poRejectedMail, poReviewMail, shippedMail,
+  invoiceIssuedMail,
+  invoiceVoidedMail,
+  orderCancelledMail,
+  orderPlacedMail,
+  paymentReceivedMail,
+  paymentRefundedMail,
+  poApprovedMail,
+  poRejectedMail,
+  poReviewMail,
+  shippedMail,
 } from '../emails/shop'
 
-export interface StepActor { kind: Actor; id: number | null; name: string }
+export interface StepActor {
+  kind: Actor
+  id: number | null
+  name: string
+}
 
 export const SYSTEM: StepActor = { kind: 'system', id: null, name: 'Tiltwright' }
 
@@ -32,29 +61,45 @@ export function actorOf(user: SessionUser): StepActor {
 }
 
 async function isAllocated(tx: DbOrTx, orderId: number) {
-  const held = await tx.select({ status: stockReservations.status }).from(stockReservations)
+  const held = await tx
+    .select({ status: stockReservations.status })
+    .from(stockReservations)
     .where(eq(stockReservations.orderId, orderId))
-  return held.some((h) => h.status === 'allocated') && !held.some((h) => h.status === 'reserved')
+  return held.some(h => h.status === 'allocated') && !held.some(h => h.status === 'reserved')
 }
 
 /** The facts the flow's rows test, read under the caller's lock. */
 export async function orderFacts(tx: DbOrTx, order: OrderRow) {
-  return { status: order.status, paymentMethod: order.paymentMethod, allocated: await isAllocated(tx, order.id), paid: !!order.paidAt }
+  return {
+    status: order.status,
+    paymentMethod: order.paymentMethod,
+    allocated: await isAllocated(tx, order.id),
+    paid: !!order.paidAt,
+  }
 }
 
-type Fill = { reason?: string; reference?: string; amount?: string }
+type Fill = { reason?: string, reference?: string, amount?: string }
 
 /** Applies one row of the flow to the locked order; 409 when it is not open now. `then` runs
  *  after the state changes and may add words to the timeline entry. */
-export async function applyStep(tx: Tx, order: OrderRow, action: OrderAction, actor: StepActor, fill: Fill = {},
-  then?: () => Promise<string>) {
+export async function applyStep(
+  tx: Tx,
+  order: OrderRow,
+  action: OrderAction,
+  actor: StepActor,
+  fill: Fill = {},
+  then?: () => Promise<string>,
+) {
   const row = findTransition(await orderFacts(tx, order), action, actor.kind)
   if (!row) {
     const state = ORDER_STATUS_LABELS[order.status].toLowerCase()
     throw conflict(`That step is not open for an order that is ${state}.`, 'wrong-status')
   }
   if (row.to !== order.status) {
-    await tx.update(orders).set({ status: row.to, updatedAt: new Date() }).where(eq(orders.id, order.id))
+    await tx
+      .update(orders)
+      .set({ status: row.to, updatedAt: new Date() })
+      .where(eq(orders.id, order.id))
   }
   const more = then ? await then() : ''
   const words = [flowWording(row, { actor: actor.name, ...fill }), more].filter(Boolean).join(' ')
@@ -72,7 +117,11 @@ export async function lockOrder(tx: Tx, orderId: number) {
 const orderUrl = (id: number) => appUrl(`/orders/${id}`)
 
 /** What a checkout names: a quote or the cart's lines, and where to ship and bill. */
-export type CheckoutInput = { quoteId?: number; lines?: CartLine[]; addresses?: CheckoutAddresses | null }
+export type CheckoutInput = {
+  quoteId?: number
+  lines?: CartLine[]
+  addresses?: CheckoutAddresses | null
+}
 
 // ── Placing ────────────────────────────────────────────────────────────────────────────────
 
@@ -81,8 +130,12 @@ export function assertMayOrder(user: SessionUser) {
   if (!user.schoolId) throw forbidden('Your account has no school to order for.')
   if (!user.verified) {
     throw createError({
-      statusCode: 403, statusMessage: 'Forbidden', data: { code: 'unverified' },
-      message: 'Confirm your e-mail address before placing an order: use the link in the mail we sent you, '
+      statusCode: 403,
+      statusMessage: 'Forbidden',
+      data: { code: 'unverified' },
+      message:
+        'Confirm your e-mail address before placing an order: use the link in the mail we sent '
+        + 'you, '
         + 'or send it again from your account page. Quotes do not need it.',
     })
   }
@@ -93,35 +146,77 @@ export function assertMayOrder(user: SessionUser) {
 async function assertHoldRoom(tx: Tx, schoolId: number) {
   await tx.select({ id: schools.id }).from(schools).where(eq(schools.id, schoolId)).for('update')
   const cap = Number(useRuntimeConfig().maxUnpaidCardOrders) || 3
-  const [row] = await tx.select({ n: count() }).from(orders).where(and(eq(orders.schoolId, schoolId),
-    eq(orders.paymentMethod, 'card'), eq(orders.status, 'awaiting payment'), isNull(orders.paidAt)))
+  const [row] = await tx
+    .select({ n: count() })
+    .from(orders)
+    .where(
+      and(
+        eq(orders.schoolId, schoolId),
+        eq(orders.paymentMethod, 'card'),
+        eq(orders.status, 'awaiting payment'),
+        isNull(orders.paidAt),
+      ),
+    )
   if ((row?.n ?? 0) >= cap) {
-    throw conflict(`Your school already has ${cap} card orders waiting for payment. Pay or cancel one of them before placing another.`, 'too-many-holds')
+    throw conflict(
+      `Your school already has ${cap} card orders waiting for payment. Pay or cancel one of `
+      + `them before placing another.`,
+      'too-many-holds',
+    )
   }
 }
 
 /** Creates the order with its lines and reserved stock, and starts its timeline. */
 async function insertOrder(tx: Tx, user: SessionUser, method: PaymentMethod, src: OrderSource) {
   const action: OrderAction = method === 'card' ? 'placeCard' : 'placePurchaseOrder'
-  const row = findTransition({ status: null, paymentMethod: method, allocated: false, paid: false }, action, 'teacher')!
-  const [ins] = await tx.insert(orders).values({
-    schoolId: user.schoolId!, placedById: user.id, quoteId: src.quoteId, paymentMethod: method, status: row.to,
-    subtotalCents: src.totals.subtotalCents, shippingCents: src.totals.shippingCents, taxCents: src.totals.taxCents,
-    totalCents: src.totals.totalCents, taxExempt: src.totals.taxExempt,
-    taxRateBasisPoints: src.totals.taxRateBasisPoints, taxState: src.totals.taxState,
-    shipTo: src.addresses.shipTo, billTo: src.addresses.billTo, deliveryNote: src.addresses.deliveryNote,
-  }).$returningId()
+  const row = findTransition(
+    { status: null, paymentMethod: method, allocated: false, paid: false },
+    action,
+    'teacher',
+  )!
+  const [ins] = await tx
+    .insert(orders)
+    .values({
+      schoolId: user.schoolId!,
+      placedById: user.id,
+      quoteId: src.quoteId,
+      paymentMethod: method,
+      status: row.to,
+      subtotalCents: src.totals.subtotalCents,
+      shippingCents: src.totals.shippingCents,
+      taxCents: src.totals.taxCents,
+      totalCents: src.totals.totalCents,
+      taxExempt: src.totals.taxExempt,
+      taxRateBasisPoints: src.totals.taxRateBasisPoints,
+      taxState: src.totals.taxState,
+      shipTo: src.addresses.shipTo,
+      billTo: src.addresses.billTo,
+      deliveryNote: src.addresses.deliveryNote,
+    })
+    .$returningId()
   const id = ins!.id
   const number = orderNumberFor(id)
   await tx.update(orders).set({ number }).where(eq(orders.id, id))
-  await tx.insert(orderLines).values(src.lines.map((l) => ({ orderId: id, ...l })))
+  await tx.insert(orderLines).values(src.lines.map(l => ({ orderId: id, ...l })))
   await reserveStock(tx, id, src.lines)
   if (src.quoteId) {
-    const [res] = await tx.update(quotes).set({ orderId: id }).where(and(eq(quotes.id, src.quoteId), isNull(quotes.orderId)))
-    if (res.affectedRows !== 1) throw conflict('This quote has already been turned into an order.', 'quote-used')
+    const [res] = await tx
+      .update(quotes)
+      .set({ orderId: id })
+      .where(and(eq(quotes.id, src.quoteId), isNull(quotes.orderId)))
+    if (res.affectedRows !== 1)
+      throw conflict('This quote has already been turned into an order.', 'quote-used')
   }
-  const notes = [src.quoteId && 'From a quote, at the quoted prices.', src.taxNote].filter(Boolean).join(' ')
-  await addOrderEvent(tx, id, ACTION_EVENT[action], [flowWording(row, { actor: user.name }), notes].filter(Boolean).join(' '), user.id)
+  const notes = [src.quoteId && 'From a quote, at the quoted prices.', src.taxNote]
+    .filter(Boolean)
+    .join(' ')
+  await addOrderEvent(
+    tx,
+    id,
+    ACTION_EVENT[action],
+    [flowWording(row, { actor: user.name }), notes].filter(Boolean).join(' '),
+    user.id,
+  )
   return { id, number }
 }
 
@@ -134,22 +229,45 @@ export async function placeCardOrder(user: SessionUser, input: CheckoutInput) {
     await assertHoldRoom(tx, user.schoolId!)
     const src = await resolveCheckout(tx, user, input)
     const order = await insertOrder(tx, user, 'card', src)
-    const jobId = await enqueueJob(tx, 'open-checkout', { orderId: order.id }, { uniqueKey: `checkout-${order.id}`, runHere: true })
+    const jobId = await enqueueJob(
+      tx,
+      'open-checkout',
+      { orderId: order.id },
+      { uniqueKey: `checkout-${order.id}`, runHere: true },
+    )
     return { ...order, jobId: jobId!, totalCents: src.totals.totalCents }
   })
 }
 
 /** Stores the provider's checkout session on the order and tells the teacher how to pay. */
-export async function recordCheckoutOpened(orderId: number, checkout: { customerId: string; sessionId: string; url: string }) {
+export async function recordCheckoutOpened(
+  orderId: number,
+  checkout: { customerId: string, sessionId: string, url: string },
+) {
   await transactionWithRetry(async (tx) => {
     const order = await lockOrder(tx, orderId)
     if (order.checkoutSessionId) return
-    await tx.update(orders).set({
-      providerCustomerId: checkout.customerId, checkoutSessionId: checkout.sessionId, checkoutUrl: checkout.url,
-    }).where(eq(orders.id, orderId))
-    await addOrderEvent(tx, orderId, 'checkout-opened', 'Card checkout opened on the payment page.', order.placedById)
+    await tx
+      .update(orders)
+      .set({
+        providerCustomerId: checkout.customerId,
+        checkoutSessionId: checkout.sessionId,
+        checkoutUrl: checkout.url,
+      })
+      .where(eq(orders.id, orderId))
+    await addOrderEvent(
+      tx,
+      orderId,
+      'checkout-opened',
+      'Card checkout opened on the payment page.',
+      order.placedById,
+    )
     const { buyer } = await orderPeople(tx, order)
-    const mail = orderPlacedMail(buyer.name, { number: order.number!, totalCents: order.totalCents, method: 'card' }, orderUrl(orderId))
+    const mail = orderPlacedMail(
+      buyer.name,
+      { number: order.number!, totalCents: order.totalCents, method: 'card' },
+      orderUrl(orderId),
+    )
     await enqueueMail(tx, 'order-placed', buyer.email, mail)
   })
 }
@@ -161,7 +279,10 @@ export async function discardUnopenedOrder(orderId: number) {
     if (!order || order.checkoutSessionId || order.paidAt) return false
     await releaseStock(tx, orderId)
     if (order.quoteId) {
-      await tx.update(quotes).set({ orderId: null }).where(and(eq(quotes.id, order.quoteId), eq(quotes.orderId, orderId)))
+      await tx
+        .update(quotes)
+        .set({ orderId: null })
+        .where(and(eq(quotes.id, order.quoteId), eq(quotes.orderId, orderId)))
     }
     await tx.delete(stockReservations).where(eq(stockReservations.orderId, orderId))
     await tx.delete(orderEvents).where(eq(orderEvents.orderId, orderId))
@@ -171,39 +292,95 @@ export async function discardUnopenedOrder(orderId: number) {
   })
 }
 
-export interface StoredUpload { kind: 'purchase-order' | 'tax-certificate'; key: string; filename: string; mime: string; size: number }
+export interface StoredUpload {
+  kind: 'purchase-order' | 'tax-certificate'
+  key: string
+  filename: string
+  mime: string
+  size: number
+}
 
 /** A purchase order: the order, its reserved stock, the PO and its files, and mail to the
  *  teacher and to every admin who reviews it. */
-export async function placePurchaseOrder(user: SessionUser, input: CheckoutInput,
-  po: { poNumber: string; apEmail: string }, files: StoredUpload[]) {
+export async function placePurchaseOrder(
+  user: SessionUser,
+  input: CheckoutInput,
+  po: { poNumber: string, apEmail: string },
+  files: StoredUpload[],
+) {
   assertMayOrder(user)
   return transactionWithRetry(async (tx) => {
     const src = await resolveCheckout(tx, user, input)
     const order = await insertOrder(tx, user, 'purchase-order', src)
-    await tx.insert(purchaseOrders).values({ orderId: order.id, poNumber: po.poNumber, apEmail: po.apEmail })
+    await tx
+      .insert(purchaseOrders)
+      .values({ orderId: order.id, poNumber: po.poNumber, apEmail: po.apEmail })
     for (const s of files) {
       await tx.insert(storedFiles).values({
-        kind: s.kind, schoolId: user.schoolId!, orderId: order.id, storageKey: s.key, filename: s.filename,
-        contentType: s.mime, size: s.size, uploadedById: user.id,
+        kind: s.kind,
+        schoolId: user.schoolId!,
+        orderId: order.id,
+        storageKey: s.key,
+        filename: s.filename,
+        contentType: s.mime,
+        size: s.size,
+        uploadedById: user.id,
       })
     }
-    const [school] = await tx.select().from(schools).where(eq(schools.id, user.schoolId!)).limit(1).for('update')
-    const withCert = files.some((s) => s.kind === 'tax-certificate')
+    const [school] = await tx
+      .select()
+      .from(schools)
+      .where(eq(schools.id, user.schoolId!))
+      .limit(1)
+      .for('update')
+    const withCert = files.some(s => s.kind === 'tax-certificate')
     if (withCert && school && school.taxExemption !== 'accepted') {
       await tx.update(schools).set({ taxExemption: 'pending' }).where(eq(schools.id, school.id))
     }
     const cert = withCert ? ' with a tax-exemption certificate' : ''
-    await addOrderEvent(tx, order.id, 'po-received', `Purchase order ${po.poNumber} received${cert}; waiting for review.`, user.id)
-    const placed = { number: order.number, totalCents: src.totals.totalCents, method: 'purchase-order' as const }
-    await enqueueMail(tx, 'order-placed', user.email, orderPlacedMail(user.name, placed, orderUrl(order.id)))
-    const admins = await tx.select({ email: users.email, name: users.name }).from(users)
-      .where(and(eq(users.role, 'admin'), isNull(users.disabledAt)))
-    const review = { number: order.number, poNumber: po.poNumber, schoolName: school?.name ?? 'A school', totalCents: src.totals.totalCents }
-    for (const a of admins) {
-      await enqueueMail(tx, 'po-review', a.email, poReviewMail(a.name, review, appUrl(`/admin/orders/${order.id}`)))
+    await addOrderEvent(
+      tx,
+      order.id,
+      'po-received',
+      `Purchase order ${po.poNumber} received${cert}; waiting for review.`,
+      user.id,
+    )
+    const placed = {
+      number: order.number,
+      totalCents: src.totals.totalCents,
+      method: 'purchase-order' as const,
     }
-    await audit(tx, { actorId: user.id, action: 'order.placed', subjectType: 'order', subjectId: order.id, detail: { method: 'purchase-order' } })
+    await enqueueMail(
+      tx,
+      'order-placed',
+      user.email,
+      orderPlacedMail(user.name, placed, orderUrl(order.id)),
+    )
+    const admins = await tx
+      .select({ email: users.email, name: users.name })
+      .from(users)
+      .where(and(eq(users.role, 'admin'), isNull(users.disabledAt)))
+    const review = {
+      number: order.number,
+      poNumber: po.poNumber,
+      schoolName: school?.name ?? 'A school',
+      totalCents: src.totals.totalCents,
+    }
+    for (const a of admins) {
+      await enqueueMail(
+        tx,
+        'po-review',
+        a.email,
+        poReviewMail(a.name, review, appUrl(`/admin/orders/${order.id}`)),
+      )
+    }
+    await audit(tx, {
+      actorId: user.id,
+      action: 'order.placed',
+      subjectType: 'order',
+      subjectId: order.id,
+      detail: { method: 'purchase-order' },
+    })
     return order
   })
 }
@@ -213,30 +390,78 @@ export async function placePurchaseOrder(user: SessionUser, input: CheckoutInput
 /** Approves a purchase order (optionally accepting the tax certificate) and queues its
  *  invoice. The invoice job carries a key derived from the order, so however often it is
  *  retried the provider issues one invoice; nothing needs undoing when the provider is down. */
-export async function approvePurchaseOrder(admin: SessionUser, orderId: number, acceptTaxCertificate: boolean) {
+export async function approvePurchaseOrder(
+  admin: SessionUser,
+  orderId: number,
+  acceptTaxCertificate: boolean,
+) {
   return transactionWithRetry(async (tx) => {
     const order = await lockOrder(tx, orderId)
     const actor = actorOf(admin)
     if (acceptTaxCertificate) {
-      const [cert] = await tx.select({ id: storedFiles.id }).from(storedFiles)
-        .where(and(eq(storedFiles.orderId, orderId), eq(storedFiles.kind, 'tax-certificate'))).limit(1)
-      if (!cert) throw invalid({ acceptTaxCertificate: 'This order came with no tax-exemption certificate.' })
-      await tx.update(schools).set({ taxExemption: 'accepted' }).where(eq(schools.id, order.schoolId))
+      const [cert] = await tx
+        .select({ id: storedFiles.id })
+        .from(storedFiles)
+        .where(and(eq(storedFiles.orderId, orderId), eq(storedFiles.kind, 'tax-certificate')))
+        .limit(1)
+      if (!cert)
+        throw invalid({
+          acceptTaxCertificate: 'This order came with no tax-exemption certificate.',
+        })
+      await tx
+        .update(schools)
+        .set({ taxExemption: 'accepted' })
+        .where(eq(schools.id, order.schoolId))
       if (order.taxCents) {
-        await tx.update(orders).set({ taxCents: 0, taxExempt: true, totalCents: order.totalCents - order.taxCents })
+        await tx
+          .update(orders)
+          .set({ taxCents: 0, taxExempt: true, totalCents: order.totalCents - order.taxCents })
           .where(eq(orders.id, orderId))
       }
-      await addOrderEvent(tx, orderId, 'tax-exempt', 'Tax-exemption certificate accepted; no sales tax is charged.', admin.id)
+      await addOrderEvent(
+        tx,
+        orderId,
+        'tax-exempt',
+        'Tax-exemption certificate accepted; no sales tax is charged.',
+        admin.id,
+      )
     }
     await applyStep(tx, order, 'approve', actor)
-    await tx.update(purchaseOrders).set({ status: 'approved', reviewedById: admin.id, reviewedAt: new Date() })
+    await tx
+      .update(purchaseOrders)
+      .set({ status: 'approved', reviewedById: admin.id, reviewedAt: new Date() })
       .where(eq(purchaseOrders.orderId, orderId))
     const { buyer, po } = await orderPeople(tx, order)
-    const [now] = await tx.select({ totalCents: orders.totalCents }).from(orders).where(eq(orders.id, orderId))
-    const approval = { number: order.number!, poNumber: po!.poNumber, totalCents: now!.totalCents, exemptionAccepted: acceptTaxCertificate }
-    await enqueueMail(tx, 'po-approved', buyer.email, poApprovedMail(buyer.name, approval, orderUrl(orderId)))
-    await audit(tx, { actorId: admin.id, action: 'order.po-approved', subjectType: 'order', subjectId: orderId })
-    return { jobId: (await enqueueJob(tx, 'issue-invoice', { orderId }, { uniqueKey: `invoice-${orderId}`, runHere: true }))! }
+    const [now] = await tx
+      .select({ totalCents: orders.totalCents })
+      .from(orders)
+      .where(eq(orders.id, orderId))
+    const approval = {
+      number: order.number!,
+      poNumber: po!.poNumber,
+      totalCents: now!.totalCents,
+      exemptionAccepted: acceptTaxCertificate,
+    }
+    await enqueueMail(
+      tx,
+      'po-approved',
+      buyer.email,
+      poApprovedMail(buyer.name, approval, orderUrl(orderId)),
+    )
+    await audit(tx, {
+      actorId: admin.id,
+      action: 'order.po-approved',
+      subjectType: 'order',
+      subjectId: orderId,
+    })
+    return {
+      jobId: (await enqueueJob(
+        tx,
+        'issue-invoice',
+        { orderId },
+        { uniqueKey: `invoice-${orderId}`, runHere: true },
+      ))!,
+    }
   })
 }
 
@@ -246,32 +471,81 @@ export async function retryInvoice(admin: SessionUser, orderId: number) {
   actorOf(admin)
   return transactionWithRetry(async (tx) => {
     const order = await lockOrder(tx, orderId)
-    if (order.paymentMethod !== 'purchase-order' || order.status !== 'awaiting payment' || order.invoiceId) {
+    if (
+      order.paymentMethod !== 'purchase-order'
+      || order.status !== 'awaiting payment'
+      || order.invoiceId
+    ) {
       throw conflict('This order is not waiting for an invoice.', 'wrong-status')
     }
     const key = `invoice-${orderId}`
-    await tx.update(jobs).set({ state: 'pending', attempts: 0, nextAttemptAt: new Date() }).where(eq(jobs.uniqueKey, key))
-    return { jobId: (await enqueueJob(tx, 'issue-invoice', { orderId }, { uniqueKey: key, runHere: true }))! }
+    await tx
+      .update(jobs)
+      .set({ state: 'pending', attempts: 0, nextAttemptAt: new Date() })
+      .where(eq(jobs.uniqueKey, key))
+    return {
+      jobId: (await enqueueJob(
+        tx,
+        'issue-invoice',
+        { orderId },
+        { uniqueKey: key, runHere: true },
+      ))!,
+    }
   })
 }
 
 /** Stores the provider's invoice on the order and sends it to accounts payable and the teacher. */
-export async function recordInvoiceIssued(orderId: number,
-  invoice: { customerId: string; invoiceId: string; number: string; url: string | null; dueAt: Date | null }) {
+export async function recordInvoiceIssued(
+  orderId: number,
+  invoice: {
+    customerId: string
+    invoiceId: string
+    number: string
+    url: string | null
+    dueAt: Date | null
+  },
+) {
   await transactionWithRetry(async (tx) => {
     const order = await lockOrder(tx, orderId)
     if (order.invoiceId) return
-    await tx.update(orders).set({
-      providerCustomerId: invoice.customerId, invoiceId: invoice.invoiceId, invoiceNumber: invoice.number,
-      invoiceUrl: invoice.url, invoiceDueAt: invoice.dueAt,
-    }).where(eq(orders.id, orderId))
-    const due = invoice.dueAt ? formatDay(invoice.dueAt, 'long') : `${INVOICE_NET_DAYS} days from today`
-    await addOrderEvent(tx, orderId, 'invoice-issued', `Invoice ${invoice.number} issued: net ${INVOICE_NET_DAYS}, due ${due}.`)
+    await tx
+      .update(orders)
+      .set({
+        providerCustomerId: invoice.customerId,
+        invoiceId: invoice.invoiceId,
+        invoiceNumber: invoice.number,
+        invoiceUrl: invoice.url,
+        invoiceDueAt: invoice.dueAt,
+      })
+      .where(eq(orders.id, orderId))
+    const due = invoice.dueAt
+      ? formatDay(invoice.dueAt, 'long')
+      : `${INVOICE_NET_DAYS} days from today`
+    await addOrderEvent(
+      tx,
+      orderId,
+      'invoice-issued',
+      `Invoice ${invoice.number} issued: net ${INVOICE_NET_DAYS}, due ${due}.`,
+    )
     const { buyer, po } = await orderPeople(tx, order)
-    const what = { number: order.number!, invoiceNumber: invoice.number, totalCents: order.totalCents, dueAt: due, poNumber: po!.poNumber }
-    await enqueueMail(tx, 'invoice-issued', po!.apEmail, invoiceIssuedMail(what, invoice.url), [{ document: 'invoice', orderId }])
+    const what = {
+      number: order.number!,
+      invoiceNumber: invoice.number,
+      totalCents: order.totalCents,
+      dueAt: due,
+      poNumber: po!.poNumber,
+    }
+    await enqueueMail(tx, 'invoice-issued', po!.apEmail, invoiceIssuedMail(what, invoice.url), [
+      { document: 'invoice', orderId },
+    ])
     if (buyer.email !== po!.apEmail) {
-      await enqueueMail(tx, 'invoice-issued', buyer.email, invoiceIssuedMail(what, invoice.url, buyer.name), [{ document: 'invoice', orderId }])
+      await enqueueMail(
+        tx,
+        'invoice-issued',
+        buyer.email,
+        invoiceIssuedMail(what, invoice.url, buyer.name),
+        [{ document: 'invoice', orderId }],
+      )
     }
   })
 }
@@ -280,14 +554,29 @@ export async function rejectPurchaseOrder(admin: SessionUser, orderId: number, r
   return transactionWithRetry(async (tx) => {
     const order = await lockOrder(tx, orderId)
     await applyStep(tx, order, 'reject', actorOf(admin), { reason }, () => endOrder(tx, order))
-    await tx.update(purchaseOrders).set({ status: 'rejected', rejectReason: reason, reviewedById: admin.id, reviewedAt: new Date() })
+    await tx
+      .update(purchaseOrders)
+      .set({
+        status: 'rejected',
+        rejectReason: reason,
+        reviewedById: admin.id,
+        reviewedAt: new Date(),
+      })
       .where(eq(purchaseOrders.orderId, orderId))
     const { buyer, po } = await orderPeople(tx, order)
     const back = (await wayBackForOrder(tx, order, { status: 'rejected' }))!
     const what = { number: order.number!, poNumber: po!.poNumber, reason }
-    const mail = poRejectedMail(buyer.name, what, orderUrl(orderId), { label: back.label, url: appUrl(back.url) })
+    const mail = poRejectedMail(buyer.name, what, orderUrl(orderId), {
+      label: back.label,
+      url: appUrl(back.url),
+    })
     await enqueueMail(tx, 'po-rejected', buyer.email, mail)
-    await audit(tx, { actorId: admin.id, action: 'order.po-rejected', subjectType: 'order', subjectId: orderId })
+    await audit(tx, {
+      actorId: admin.id,
+      action: 'order.po-rejected',
+      subjectType: 'order',
+      subjectId: orderId,
+    })
   })
 }
 
@@ -295,7 +584,10 @@ export async function rejectPurchaseOrder(admin: SessionUser, orderId: number, r
 async function endOrder(tx: Tx, order: OrderRow) {
   const released = await releaseStock(tx, order.id)
   if (order.quoteId) {
-    await tx.update(quotes).set({ orderId: null }).where(and(eq(quotes.id, order.quoteId), eq(quotes.orderId, order.id)))
+    await tx
+      .update(quotes)
+      .set({ orderId: null })
+      .where(and(eq(quotes.id, order.quoteId), eq(quotes.orderId, order.id)))
   }
   return releasedWords(released)
 }
@@ -305,50 +597,94 @@ async function endOrder(tx: Tx, order: OrderRow) {
 export async function allocateOrder(admin: SessionUser, orderId: number) {
   await transactionWithRetry(async (tx) => {
     const order = await lockOrder(tx, orderId)
-    const held = await tx.select({ quantity: stockReservations.quantity, batchId: stockReservations.batchId })
-      .from(stockReservations).where(and(eq(stockReservations.orderId, orderId), eq(stockReservations.status, 'reserved')))
-    const codes = await batchCodes(tx, held.map((h) => h.batchId))
+    const held = await tx
+      .select({ quantity: stockReservations.quantity, batchId: stockReservations.batchId })
+      .from(stockReservations)
+      .where(and(eq(stockReservations.orderId, orderId), eq(stockReservations.status, 'reserved')))
+    const codes = await batchCodes(
+      tx,
+      held.map(h => h.batchId),
+    )
     const perBatch = new Map<string, number>()
-    for (const h of held) perBatch.set(codes.get(h.batchId)!, (perBatch.get(codes.get(h.batchId)!) ?? 0) + h.quantity)
+    for (const h of held)
+      perBatch.set(codes.get(h.batchId)!, (perBatch.get(codes.get(h.batchId)!) ?? 0) + h.quantity)
     const reference = [...perBatch].map(([c, n]) => `batch ${c} × ${n}`).join(', ')
     await applyStep(tx, order, 'allocate', actorOf(admin), { reference })
-    await tx.update(stockReservations).set({ status: 'allocated' })
+    await tx
+      .update(stockReservations)
+      .set({ status: 'allocated' })
       .where(and(eq(stockReservations.orderId, orderId), eq(stockReservations.status, 'reserved')))
   })
 }
 
-export async function shipOrder(admin: SessionUser, orderId: number, input: { carrier: string; tracking: string }) {
+export async function shipOrder(
+  admin: SessionUser,
+  orderId: number,
+  input: { carrier: string, tracking: string },
+) {
   return transactionWithRetry(async (tx) => {
     const order = await lockOrder(tx, orderId)
-    await applyStep(tx, order, 'ship', actorOf(admin), { reference: `${input.carrier}, tracking ${input.tracking}` })
-    const [row] = await tx.insert(shipments).values({ orderId, carrier: input.carrier, tracking: input.tracking, createdById: admin.id })
+    await applyStep(tx, order, 'ship', actorOf(admin), {
+      reference: `${input.carrier}, tracking ${input.tracking}`,
+    })
+    const [row] = await tx
+      .insert(shipments)
+      .values({ orderId, carrier: input.carrier, tracking: input.tracking, createdById: admin.id })
       .$returningId()
     const { buyer } = await orderPeople(tx, order)
-    await enqueueMail(tx, 'shipped', buyer.email, shippedMail(buyer.name, { number: order.number!, ...input }, orderUrl(orderId)),
-      [{ document: 'packing-list', orderId }])
+    await enqueueMail(
+      tx,
+      'shipped',
+      buyer.email,
+      shippedMail(buyer.name, { number: order.number!, ...input }, orderUrl(orderId)),
+      [{ document: 'packing-list', orderId }],
+    )
     return row!.id
   })
 }
 
 export async function markDelivered(admin: SessionUser, orderId: number) {
-  await transactionWithRetry(async (tx) => applyStep(tx, await lockOrder(tx, orderId), 'markDelivered', actorOf(admin)))
+  await transactionWithRetry(async tx =>
+    applyStep(tx, await lockOrder(tx, orderId), 'markDelivered', actorOf(admin)),
+  )
 }
 
 // ── Money ──────────────────────────────────────────────────────────────────────────────────
 
 /** Records a payment once, with its receipt mailed: a replay, a late admin entry or a second
  *  event finds it paid and changes nothing (false). */
-async function settle(tx: Tx, order: OrderRow, action: 'markPaid' | 'recordPayment', actor: StepActor,
-  how: { reference: string | null; paymentIntentId?: string | null }) {
+async function settle(
+  tx: Tx,
+  order: OrderRow,
+  action: 'markPaid' | 'recordPayment',
+  actor: StepActor,
+  how: { reference: string | null, paymentIntentId?: string | null },
+) {
   // The provider repeating itself is no error; an admin recording twice is (409 below).
   if (action === 'markPaid' && order.paidAt) return false
-  await applyStep(tx, order, action, actor, { amount: formatCents(order.totalCents), reference: how.reference ?? 'no reference' })
+  await applyStep(tx, order, action, actor, {
+    amount: formatCents(order.totalCents),
+    reference: how.reference ?? 'no reference',
+  })
   const paidAt = new Date()
-  await tx.update(orders).set({ paidAt, paymentReference: how.reference, paymentIntentId: how.paymentIntentId ?? null, updatedAt: paidAt })
+  await tx
+    .update(orders)
+    .set({
+      paidAt,
+      paymentReference: how.reference,
+      paymentIntentId: how.paymentIntentId ?? null,
+      updatedAt: paidAt,
+    })
     .where(eq(orders.id, order.id))
   const { buyer } = await orderPeople(tx, order)
-  const mail = paymentReceivedMail(buyer.name, { number: order.number!, totalCents: order.totalCents }, orderUrl(order.id))
-  await enqueueMail(tx, 'payment-received', buyer.email, mail, [{ document: 'receipt', orderId: order.id }])
+  const mail = paymentReceivedMail(
+    buyer.name,
+    { number: order.number!, totalCents: order.totalCents },
+    orderUrl(order.id),
+  )
+  await enqueueMail(tx, 'payment-received', buyer.email, mail, [
+    { document: 'receipt', orderId: order.id },
+  ])
   return true
 }
 
@@ -357,7 +693,8 @@ export async function recordPayment(admin: SessionUser, orderId: number, referen
   await transactionWithRetry(async (tx) => {
     const order = await lockOrder(tx, orderId)
     await settle(tx, order, 'recordPayment', actorOf(admin), { reference })
-    if (order.invoiceId) await enqueueJob(tx, 'settle-invoice', { orderId }, { uniqueKey: `settle-${orderId}` })
+    if (order.invoiceId)
+      await enqueueJob(tx, 'settle-invoice', { orderId }, { uniqueKey: `settle-${orderId}` })
   })
 }
 
@@ -374,43 +711,82 @@ export interface ProviderPayment {
 /** Money the provider reports for an order, checked against what the order recorded (its own
  *  session or invoice, its total, its currency). A mismatch changes nothing and is written
  *  on the timeline; money for an order that has ended is refunded. */
-export async function receivePayment(tx: Tx, orderId: number, pay: ProviderPayment): Promise<'paid' | 'duplicate' | 'mismatch' | 'refunding'> {
+export async function receivePayment(
+  tx: Tx,
+  orderId: number,
+  pay: ProviderPayment,
+): Promise<'paid' | 'duplicate' | 'mismatch' | 'refunding'> {
   const order = await lockOrder(tx, orderId)
   const expected = pay.via === 'checkout' ? order.checkoutSessionId : order.invoiceId
   const problems = [
-    expected !== pay.objectId && `it came from ${pay.via === 'checkout' ? 'checkout session' : 'invoice'} ${pay.objectId}, not the one this order opened`,
-    pay.amountCents !== order.totalCents && `its amount ${formatCents(pay.amountCents)} is not the order's total ${formatCents(order.totalCents)}`,
-    pay.currency.toLowerCase() !== 'usd' && `its currency ${pay.currency.toUpperCase() || 'unknown'} is not US dollars`,
+    expected !== pay.objectId
+    && `it came from ${pay.via === 'checkout' ? 'checkout session' : 'invoice'} `
+    + `${pay.objectId}, not the one this order opened`,
+    pay.amountCents !== order.totalCents
+    && `its amount ${formatCents(pay.amountCents)} is not the order's total `
+    + `${formatCents(order.totalCents)}`,
+    pay.currency.toLowerCase() !== 'usd'
+    && `its currency ${pay.currency.toUpperCase() || 'unknown'} is not US dollars`,
   ].filter((x): x is string => !!x)
   if (problems.length) {
-    await addOrderEvent(tx, orderId, 'payment-mismatch',
-      `A payment event was ignored because ${problems.join('; ')}. Nothing changed; an admin should check the payment service.`)
+    await addOrderEvent(
+      tx,
+      orderId,
+      'payment-mismatch',
+      `A payment event was ignored because ${problems.join('; ')}. Nothing changed; an admin `
+      + `should check the payment service.`,
+    )
     return 'mismatch'
   }
   if (order.status === 'cancelled' || order.status === 'rejected') {
     if (!pay.paymentIntent) {
-      await addOrderEvent(tx, orderId, 'payment-after-end', `A payment of ${formatCents(pay.amountCents)} arrived after `
-        + 'the order ended and could not be refunded automatically; refund it by hand.')
+      await addOrderEvent(
+        tx,
+        orderId,
+        'payment-after-end',
+        `A payment of ${formatCents(pay.amountCents)} arrived after `
+        + 'the order ended and could not be refunded automatically; refund it by hand.',
+      )
       return 'mismatch'
     }
-    await enqueueJob(tx, 'refund-payment', { orderId, paymentIntent: pay.paymentIntent, amountCents: pay.amountCents },
-      { uniqueKey: `refund-${pay.paymentIntent}` })
+    await enqueueJob(
+      tx,
+      'refund-payment',
+      { orderId, paymentIntent: pay.paymentIntent, amountCents: pay.amountCents },
+      { uniqueKey: `refund-${pay.paymentIntent}` },
+    )
     return 'refunding'
   }
-  const done = await settle(tx, order, 'markPaid', SYSTEM, { reference: pay.reference, paymentIntentId: pay.paymentIntent })
+  const done = await settle(tx, order, 'markPaid', SYSTEM, {
+    reference: pay.reference,
+    paymentIntentId: pay.paymentIntent,
+  })
   return done ? 'paid' : 'duplicate'
 }
 
 /** The refund went through: on the timeline, and the payer is told. */
-export async function recordRefund(orderId: number, refund: { refundId: string; amountCents: number }) {
+export async function recordRefund(
+  orderId: number,
+  refund: { refundId: string, amountCents: number },
+) {
   await transactionWithRetry(async (tx) => {
     const order = await lockOrder(tx, orderId)
     if (order.refundedAt) return
-    await applyStep(tx, order, 'refund', SYSTEM, { amount: formatCents(refund.amountCents), reference: refund.refundId })
-    await tx.update(orders).set({ refundedAt: new Date(), refundReference: refund.refundId }).where(eq(orders.id, orderId))
+    await applyStep(tx, order, 'refund', SYSTEM, {
+      amount: formatCents(refund.amountCents),
+      reference: refund.refundId,
+    })
+    await tx
+      .update(orders)
+      .set({ refundedAt: new Date(), refundReference: refund.refundId })
+      .where(eq(orders.id, orderId))
     const { buyer, po } = await orderPeople(tx, order)
     const status = ORDER_STATUS_LABELS[order.status].toLowerCase()
-    const mail = paymentRefundedMail(buyer.name, { number: order.number!, amountCents: refund.amountCents, status }, orderUrl(orderId))
+    const mail = paymentRefundedMail(
+      buyer.name,
+      { number: order.number!, amountCents: refund.amountCents, status },
+      orderUrl(orderId),
+    )
     for (const to of new Set([buyer.email, ...(po && order.invoiceId ? [po.apEmail] : [])])) {
       await enqueueMail(tx, 'payment-refunded', to, mail)
     }
@@ -426,7 +802,13 @@ export async function cancelOrder(user: SessionUser, orderId: number, reason: st
     const order = await lockOrder(tx, orderId)
     await applyStep(tx, order, 'cancel', actorOf(user), { reason }, () => endOrder(tx, order))
     await afterCancel(tx, order, reason)
-    await audit(tx, { actorId: user.id, action: 'order.cancelled', subjectType: 'order', subjectId: orderId, detail: { reason } })
+    await audit(tx, {
+      actorId: user.id,
+      action: 'order.cancelled',
+      subjectType: 'order',
+      subjectId: orderId,
+      detail: { reason },
+    })
   })
 }
 
@@ -435,13 +817,30 @@ async function afterCancel(tx: Tx, order: OrderRow, reason: string) {
   if (order.invoiceId && po) {
     // One mail each: the void notice says the order is cancelled, and why.
     await enqueueJob(tx, 'void-invoice', { orderId: order.id }, { uniqueKey: `void-${order.id}` })
-    const what = { number: order.number!, invoiceNumber: order.invoiceNumber ?? order.invoiceId, poNumber: po.poNumber, reason }
+    const what = {
+      number: order.number!,
+      invoiceNumber: order.invoiceNumber ?? order.invoiceId,
+      poNumber: po.poNumber,
+      reason,
+    }
     await enqueueMail(tx, 'invoice-voided', po.apEmail, invoiceVoidedMail(what))
-    if (buyer.email !== po.apEmail) await enqueueMail(tx, 'invoice-voided', buyer.email, invoiceVoidedMail(what, buyer.name))
+    if (buyer.email !== po.apEmail)
+      await enqueueMail(tx, 'invoice-voided', buyer.email, invoiceVoidedMail(what, buyer.name))
   } else {
-    await enqueueMail(tx, 'order-cancelled', buyer.email, orderCancelledMail(buyer.name, { number: order.number!, reason }, orderUrl(order.id)))
+    await enqueueMail(
+      tx,
+      'order-cancelled',
+      buyer.email,
+      orderCancelledMail(buyer.name, { number: order.number!, reason }, orderUrl(order.id)),
+    )
   }
-  if (order.checkoutSessionId) await enqueueJob(tx, 'expire-checkout', { orderId: order.id }, { uniqueKey: `expire-${order.id}` })
+  if (order.checkoutSessionId)
+    await enqueueJob(
+      tx,
+      'expire-checkout',
+      { orderId: order.id },
+      { uniqueKey: `expire-${order.id}` },
+    )
 }
 
 /** The provider voided the invoice: on the timeline, and its pay link is withdrawn. */
@@ -451,13 +850,22 @@ export async function recordInvoiceVoided(orderId: number) {
     if (order.invoiceVoidedAt) return
     await tx.update(orders).set({ invoiceVoidedAt: new Date() }).where(eq(orders.id, orderId))
     const invoice = order.invoiceNumber ? `Invoice ${order.invoiceNumber}` : 'The invoice'
-    await addOrderEvent(tx, orderId, 'invoice-voided', `${invoice} voided at the payment service; it can no longer be paid.`)
+    await addOrderEvent(
+      tx,
+      orderId,
+      'invoice-voided',
+      `${invoice} voided at the payment service; it can no longer be paid.`,
+    )
   })
 }
 
 /** The sweep: a card order unpaid after the hold is cancelled, but only once the provider
  *  confirms its session was not paid (a payment whose webhook was lost is recorded instead). */
-export async function expireCardOrder(orderId: number, hours: number, lookup: (sessionId: string) => Promise<ProviderPayment & { paid: boolean }>) {
+export async function expireCardOrder(
+  orderId: number,
+  hours: number,
+  lookup: (sessionId: string) => Promise<ProviderPayment & { paid: boolean }>,
+) {
   const order = await loadOrder(useDb(), orderId)
   if (!order || order.status !== 'awaiting payment' || order.paidAt) return 'skipped' as const
   const at = order.checkoutSessionId ? await lookup(order.checkoutSessionId) : null
@@ -465,11 +873,19 @@ export async function expireCardOrder(orderId: number, hours: number, lookup: (s
     const locked = await lockOrder(tx, orderId)
     if (locked.status !== 'awaiting payment' || locked.paidAt) return 'skipped' as const
     if (at?.paid) {
-      await addOrderEvent(tx, orderId, 'payment-found', 'The payment service shows this order paid although its notice never arrived; recorded now.')
+      await addOrderEvent(
+        tx,
+        orderId,
+        'payment-found',
+        'The payment service shows this order paid although its notice never arrived; '
+        + 'recorded now.',
+      )
       await receivePayment(tx, orderId, at)
       return 'paid' as const
     }
-    await applyStep(tx, locked, 'expire', SYSTEM, { reference: String(hours) }, () => endOrder(tx, locked))
+    await applyStep(tx, locked, 'expire', SYSTEM, { reference: String(hours) }, () =>
+      endOrder(tx, locked),
+    )
     await afterCancel(tx, locked, `the card payment was not completed within ${hours} hours`)
     return 'cancelled' as const
   })
@@ -477,6 +893,9 @@ export async function expireCardOrder(orderId: number, hours: number, lookup: (s
 
 async function batchCodes(tx: DbOrTx, ids: number[]) {
   if (!ids.length) return new Map<number, string>()
-  const rows = await tx.select({ id: batches.id, code: batches.code }).from(batches).where(inArray(batches.id, [...new Set(ids)]))
-  return new Map(rows.map((r) => [r.id, r.code]))
+  const rows = await tx
+    .select({ id: batches.id, code: batches.code })
+    .from(batches)
+    .where(inArray(batches.id, [...new Set(ids)]))
+  return new Map(rows.map(r => [r.id, r.code]))
 }

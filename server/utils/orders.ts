@@ -1,15 +1,37 @@
 // Order queries that the order engine (order-steps.ts) and the routes share: stock
 // reservation under row locks, the checkout's lines and money, the timeline, the order's view.
-import { and, asc, eq, inArray, isNull } from 'drizzle-orm'
+import { and, asc, eq, inArray } from 'drizzle-orm'
 import type { H3Event } from 'h3'
 import {
-  batches, orderEvents, orderLines, orders, purchaseOrders, quoteLines, quotes, schools, shipments, stockReservations, storedFiles, users,
+  batches,
+  orderEvents,
+  orderLines,
+  orders,
+  purchaseOrders,
+  quoteLines,
+  quotes,
+  schools,
+  shipments,
+  stockReservations,
+  storedFiles,
+  users,
 } from '../database/schema'
 import type { OrderView, OrderDocument } from '../../shared/types/shop'
-import { canCancelOrder, canSeeOrder, canSeeOrderDocuments, isQuoteValid, unitsLeft } from '../../shared/utils/shop-rules'
+import {
+  canCancelOrder,
+  canSeeOrder,
+  canSeeOrderDocuments,
+  isQuoteValid,
+  unitsLeft,
+} from '../../shared/utils/shop-rules'
 import { CLOSED_STATUSES, openActions } from '../../shared/utils/order-flow'
 import type { SessionUser } from '../../shared/utils/roles'
-import { lineTierWording, orderSizeProblem, type PricedLine, type Totals } from '../../shared/utils/pricing'
+import {
+  lineTierWording,
+  orderSizeProblem,
+  type PricedLine,
+  type Totals,
+} from '../../shared/utils/pricing'
 import { quoteTaxNote, retax, taxLineLabel } from '../../shared/utils/tax'
 import type { CartLine } from '../../shared/schemas/shop'
 import type { CheckoutAddresses } from '../../shared/schemas/address'
@@ -17,47 +39,73 @@ import type { CheckoutAddresses } from '../../shared/schemas/address'
 export type OrderRow = typeof orders.$inferSelect
 
 export const orderNumberFor = (id: number) => `TW-${10000 + id}`
-export const quoteNumberFor = (id: number, at: Date) => `Q-${at.getUTCFullYear()}-${String(id).padStart(5, '0')}`
+export const quoteNumberFor = (id: number, at: Date) =>
+  `Q-${at.getUTCFullYear()}-${String(id).padStart(5, '0')}`
 
 /** InnoDB may pick a waiting transaction as a deadlock victim; the work is safe to redo. */
-export async function transactionWithRetry<T>(fn: (tx: Tx) => Promise<T>, attempts = 4): Promise<T> {
+export async function transactionWithRetry<T>(
+  fn: (tx: Tx) => Promise<T>,
+  attempts = 4,
+): Promise<T> {
   for (let i = 1; ; i++) {
     try {
       return await useDb().transaction(fn)
     } catch (e) {
       if (i >= attempts || !isLockFailure(e)) throw e
-      await new Promise((r) => setTimeout(r, 20 * i + Math.random() * 30))
+      await new Promise(r => setTimeout(r, 20 * i + Math.random() * 30))
     }
   }
 }
 
+/** A deadlock (1213) or a lock wait timeout (1205): worth another try. */
 function isLockFailure(e: unknown): boolean {
-  let cur: any = e
-  for (let i = 0; i < 4 && cur; i++) {
-    if (cur.errno === 1213 || cur.errno === 1205) return true
-    cur = cur.cause
-  }
-  return false
+  return someCause(e, c => c.errno === 1213 || c.errno === 1205)
 }
 
-export async function addOrderEvent(tx: DbOrTx, orderId: number, kind: string, message: string, actorId: number | null = null) {
+export async function addOrderEvent(
+  tx: DbOrTx,
+  orderId: number,
+  kind: string,
+  message: string,
+  actorId: number | null = null,
+) {
   await tx.insert(orderEvents).values({ orderId, kind, message: message.slice(0, 500), actorId })
 }
 
 /** Reserves every line's units from the product's batches, oldest first. The batch rows are
  *  locked (SELECT … FOR UPDATE, in id order) so concurrent checkouts queue rather than both
  *  seeing the same last units. Short stock throws 409 naming each short line. */
-export async function reserveStock(tx: Tx, orderId: number, lines: { productId: number; quantity: number; name: string }[]) {
-  const locked = await tx.select().from(batches)
-    .where(inArray(batches.productId, lines.map((l) => l.productId)))
-    .orderBy(asc(batches.id)).for('update')
+export async function reserveStock(
+  tx: Tx,
+  orderId: number,
+  lines: { productId: number, quantity: number, name: string }[],
+) {
+  const locked = await tx
+    .select()
+    .from(batches)
+    .where(
+      inArray(
+        batches.productId,
+        lines.map(l => l.productId),
+      ),
+    )
+    .orderBy(asc(batches.id))
+    .for('update')
   const fifo = [...locked].sort((a, b) => a.builtOn.getTime() - b.builtOn.getTime() || a.id - b.id)
   const fields: Record<string, string> = {}
   lines.forEach((l, i) => {
-    const left = fifo.filter((b) => b.productId === l.productId).reduce((s, b) => s + unitsLeft(b), 0)
-    if (left < l.quantity) fields[`lines.${i}.quantity`] = left ? `Only ${left} of ${l.name} left.` : `${l.name} is out of stock.`
+    const left = fifo.filter(b => b.productId === l.productId).reduce((s, b) => s + unitsLeft(b), 0)
+    if (left < l.quantity)
+      fields[`lines.${i}.quantity`] = left
+        ? `Only ${left} of ${l.name} left.`
+        : `${l.name} is out of stock.`
   })
-  if (Object.keys(fields).length) throw conflict('Some items no longer have enough stock. Lower the quantities and try again.', 'out-of-stock', fields)
+  if (Object.keys(fields).length)
+    throw conflict(
+      'Some items no longer have enough stock. Lower the quantities and try again.',
+      'out-of-stock',
+      fields,
+    )
   for (const l of lines) {
     let need = l.quantity
     for (const b of fifo) {
@@ -65,38 +113,72 @@ export async function reserveStock(tx: Tx, orderId: number, lines: { productId: 
       if (b.productId !== l.productId) continue
       const take = Math.min(need, unitsLeft(b))
       if (!take) continue
-      const [res] = await tx.update(batches).set({ reserved: b.reserved + take })
+      const [res] = await tx
+        .update(batches)
+        .set({ reserved: b.reserved + take })
         .where(and(eq(batches.id, b.id), eq(batches.reserved, b.reserved)))
       if (res.affectedRows !== 1) throw new Error(`batch ${b.id} changed under its row lock`)
       b.reserved += take
       need -= take
-      await tx.insert(stockReservations).values({ orderId, productId: l.productId, batchId: b.id, quantity: take })
+      await tx
+        .insert(stockReservations)
+        .values({ orderId, productId: l.productId, batchId: b.id, quantity: take })
     }
   }
 }
 
 /** Gives an order's reserved or allocated units back to their batches. */
 export async function releaseStock(tx: Tx, orderId: number) {
-  const held = await tx.select().from(stockReservations)
-    .where(and(eq(stockReservations.orderId, orderId), inArray(stockReservations.status, ['reserved', 'allocated'])))
+  const held = await tx
+    .select()
+    .from(stockReservations)
+    .where(
+      and(
+        eq(stockReservations.orderId, orderId),
+        inArray(stockReservations.status, ['reserved', 'allocated']),
+      ),
+    )
   if (!held.length) return 0
-  const locked = await tx.select().from(batches).where(inArray(batches.id, [...new Set(held.map((h) => h.batchId))])).orderBy(asc(batches.id)).for('update')
+  const locked = await tx
+    .select()
+    .from(batches)
+    .where(inArray(batches.id, [...new Set(held.map(h => h.batchId))]))
+    .orderBy(asc(batches.id))
+    .for('update')
   for (const b of locked) {
-    const give = held.filter((h) => h.batchId === b.id).reduce((s, h) => s + h.quantity, 0)
-    await tx.update(batches).set({ reserved: Math.max(0, b.reserved - give) }).where(eq(batches.id, b.id))
+    const give = held.filter(h => h.batchId === b.id).reduce((s, h) => s + h.quantity, 0)
+    await tx
+      .update(batches)
+      .set({ reserved: Math.max(0, b.reserved - give) })
+      .where(eq(batches.id, b.id))
   }
-  await tx.update(stockReservations).set({ status: 'released' }).where(inArray(stockReservations.id, held.map((h) => h.id)))
+  await tx
+    .update(stockReservations)
+    .set({ status: 'released' })
+    .where(
+      inArray(
+        stockReservations.id,
+        held.map(h => h.id),
+      ),
+    )
   return held.reduce((s, h) => s + h.quantity, 0)
 }
 
 /** A stored quote or order line as a priced line (its tier range as it was kept). */
 export const pricedLineOf = (l: PricedLine): PricedLine => ({
-  productId: l.productId, name: l.name, quantity: l.quantity, tierMinQuantity: l.tierMinQuantity,
-  unitPriceCents: l.unitPriceCents, lineTotalCents: l.lineTotalCents, tierLabel: l.tierLabel,
+  productId: l.productId,
+  name: l.name,
+  quantity: l.quantity,
+  tierMinQuantity: l.tierMinQuantity,
+  unitPriceCents: l.unitPriceCents,
+  lineTotalCents: l.lineTotalCents,
+  tierLabel: l.tierLabel,
 })
 
 export interface OrderSource {
-  lines: PricedLine[]; totals: Totals; quoteId: number | null
+  lines: PricedLine[]
+  totals: Totals
+  quoteId: number | null
   /** Where it ships and whom it bills (the school's address unless checkout gave others). */
   addresses: CheckoutAddresses
   /** Said on the timeline when a quote's tax changed for the order (exemption, destination). */
@@ -107,22 +189,50 @@ export interface OrderSource {
  *  or the cart's priced from the catalog now. Tax follows the ship-to state and the school's
  *  exemption as they are now, also for a quote (its lines and shipping stay as quoted). */
 export async function resolveCheckout(
-  tx: Tx, user: SessionUser, input: { quoteId?: number; lines?: CartLine[]; addresses?: CheckoutAddresses | null },
+  tx: Tx,
+  user: SessionUser,
+  input: { quoteId?: number, lines?: CartLine[], addresses?: CheckoutAddresses | null },
 ): Promise<OrderSource> {
   const school = await loadSchool(tx, user.schoolId!)
   const addresses = checkoutAddressesFor(school, input.addresses)
   const basis = schoolTaxBasis(school, addresses.shipTo.region)
   if (input.quoteId) {
-    const [q] = await tx.select().from(quotes).where(eq(quotes.id, input.quoteId)).limit(1).for('update')
+    const [q] = await tx
+      .select()
+      .from(quotes)
+      .where(eq(quotes.id, input.quoteId))
+      .limit(1)
+      .for('update')
     if (!q || q.schoolId !== user.schoolId) throw notFound('That quote')
-    if (!isQuoteValid(q)) throw conflict(q.orderId ? 'This quote has already been turned into an order.' : 'This quote has expired. Save the cart as a new quote.', q.orderId ? 'quote-used' : 'quote-expired')
-    const lines = await tx.select().from(quoteLines).where(eq(quoteLines.quoteId, q.id)).orderBy(asc(quoteLines.id))
+    if (!isQuoteValid(q))
+      throw conflict(
+        q.orderId
+          ? 'This quote has already been turned into an order.'
+          : 'This quote has expired. Save the cart as a new quote.',
+        q.orderId ? 'quote-used' : 'quote-expired',
+      )
+    const lines = await tx
+      .select()
+      .from(quoteLines)
+      .where(eq(quoteLines.quoteId, q.id))
+      .orderBy(asc(quoteLines.id))
     const totals = retax(q, basis)
-    return { quoteId: q.id, addresses, taxNote: quoteTaxNote(q, totals), lines: lines.map(pricedLineOf), totals }
+    return {
+      quoteId: q.id,
+      addresses,
+      taxNote: quoteTaxNote(q, totals),
+      lines: lines.map(pricedLineOf),
+      totals,
+    }
   }
   const priced = await priceLines(tx, input.lines ?? [], basis)
   if (priced.missing.length) {
-    const fields = Object.fromEntries((input.lines ?? []).map((l, i) => [l, i] as const).filter(([l]) => priced.missing.includes(l.productId)).map(([, i]) => [`lines.${i}.productId`, 'This product is no longer sold.']))
+    const fields = Object.fromEntries(
+      (input.lines ?? [])
+        .map((l, i) => [l, i] as const)
+        .filter(([l]) => priced.missing.includes(l.productId))
+        .map(([, i]) => [`lines.${i}.productId`, 'This product is no longer sold.']),
+    )
     throw invalid(fields, 'Some items in the cart are no longer sold.')
   }
   const { lines, missing: _m, byId: _b, ...totals } = priced
@@ -131,14 +241,22 @@ export async function resolveCheckout(
   return { lines, totals, quoteId: null, addresses, taxNote: null }
 }
 
-export async function loadOrder(db: DbOrTx, id: number, lock = false): Promise<OrderRow | undefined> {
+export async function loadOrder(
+  db: DbOrTx,
+  id: number,
+  lock = false,
+): Promise<OrderRow | undefined> {
   const q = db.select().from(orders).where(eq(orders.id, id)).limit(1)
   const [row] = lock ? await q.for('update') : await q
   return row
 }
 
 /** The order if the caller may see it; 404 otherwise (its existence does not leak). */
-export async function requireVisibleOrder(event: H3Event, user: SessionUser, lock?: Tx): Promise<OrderRow> {
+export async function requireVisibleOrder(
+  event: H3Event,
+  user: SessionUser,
+  lock?: Tx,
+): Promise<OrderRow> {
   const id = Number(getRouterParam(event, 'id'))
   if (!Number.isSafeInteger(id) || id < 1) throw notFound('That order')
   const order = await loadOrder(lock ?? useDb(), id, !!lock)
@@ -147,54 +265,149 @@ export async function requireVisibleOrder(event: H3Event, user: SessionUser, loc
 }
 
 export async function orderPeople(db: DbOrTx, order: OrderRow) {
-  const [row] = await db.select({ school: schools, buyer: { name: users.name, email: users.email } })
-    .from(schools).innerJoin(users, eq(users.id, order.placedById)).where(eq(schools.id, order.schoolId)).limit(1)
-  const [po] = await db.select().from(purchaseOrders).where(eq(purchaseOrders.orderId, order.id)).limit(1)
+  const [row] = await db
+    .select({ school: schools, buyer: { name: users.name, email: users.email } })
+    .from(schools)
+    .innerJoin(users, eq(users.id, order.placedById))
+    .where(eq(schools.id, order.schoolId))
+    .limit(1)
+  const [po] = await db
+    .select()
+    .from(purchaseOrders)
+    .where(eq(purchaseOrders.orderId, order.id))
+    .limit(1)
   return { school: row!.school, buyer: row!.buyer, po }
 }
 
-export const linesOf = (db: DbOrTx, orderId: number) => db.select().from(orderLines).where(eq(orderLines.orderId, orderId)).orderBy(asc(orderLines.id))
+export const linesOf = (db: DbOrTx, orderId: number) =>
+  db.select().from(orderLines).where(eq(orderLines.orderId, orderId)).orderBy(asc(orderLines.id))
 
-export async function orderView(db: DbOrTx, order: OrderRow, user: SessionUser): Promise<OrderView> {
+export async function orderView(
+  db: DbOrTx,
+  order: OrderRow,
+  user: SessionUser,
+): Promise<OrderView> {
   const [lines, events, ships, held, files, people] = await Promise.all([
     linesOf(db, order.id),
-    db.select().from(orderEvents).where(eq(orderEvents.orderId, order.id)).orderBy(asc(orderEvents.createdAt), asc(orderEvents.id)),
-    db.select().from(shipments).where(eq(shipments.orderId, order.id)).orderBy(asc(shipments.shippedAt)),
-    db.select({ r: stockReservations, code: batches.code }).from(stockReservations).innerJoin(batches, eq(batches.id, stockReservations.batchId))
-      .where(eq(stockReservations.orderId, order.id)).orderBy(asc(stockReservations.id)),
-    db.select().from(storedFiles).where(eq(storedFiles.orderId, order.id)).orderBy(asc(storedFiles.id)),
+    db
+      .select()
+      .from(orderEvents)
+      .where(eq(orderEvents.orderId, order.id))
+      .orderBy(asc(orderEvents.createdAt), asc(orderEvents.id)),
+    db
+      .select()
+      .from(shipments)
+      .where(eq(shipments.orderId, order.id))
+      .orderBy(asc(shipments.shippedAt)),
+    db
+      .select({ r: stockReservations, code: batches.code })
+      .from(stockReservations)
+      .innerJoin(batches, eq(batches.id, stockReservations.batchId))
+      .where(eq(stockReservations.orderId, order.id))
+      .orderBy(asc(stockReservations.id)),
+    db
+      .select()
+      .from(storedFiles)
+      .where(eq(storedFiles.orderId, order.id))
+      .orderBy(asc(storedFiles.id)),
     orderPeople(db, order),
   ])
-  const names = new Map(lines.map((l) => [l.productId, l.name]))
-  const allocated = held.some((h) => h.r.status === 'allocated') && !held.some((h) => h.r.status === 'reserved')
+  const names = new Map(lines.map(l => [l.productId, l.name]))
+  const allocated
+    = held.some(h => h.r.status === 'allocated') && !held.some(h => h.r.status === 'reserved')
   const docs: OrderDocument[] = []
   if (canSeeOrderDocuments(user, order)) {
     const base = `/api/orders/${order.id}/documents`
-    if (order.quoteId) docs.push({ kind: 'quote', label: 'Quote (PDF)', url: `/api/quotes/${order.quoteId}/pdf` })
-    for (const f of files) docs.push({ kind: f.kind, label: f.kind === 'purchase-order' ? `Purchase order: ${f.filename}` : `Tax-exemption certificate: ${f.filename}`, url: `/api/orders/${order.id}/files/${f.id}` })
-    if (order.invoiceId) docs.push({ kind: 'invoice', label: `Invoice ${order.invoiceNumber ?? ''} (PDF)`.replace('  ', ' '), url: `${base}/invoice` })
+    if (order.quoteId)
+      docs.push({ kind: 'quote', label: 'Quote (PDF)', url: `/api/quotes/${order.quoteId}/pdf` })
+    for (const f of files)
+      docs.push({
+        kind: f.kind,
+        label:
+          f.kind === 'purchase-order'
+            ? `Purchase order: ${f.filename}`
+            : `Tax-exemption certificate: ${f.filename}`,
+        url: `/api/orders/${order.id}/files/${f.id}`,
+      })
+    if (order.invoiceId)
+      docs.push({
+        kind: 'invoice',
+        label: `Invoice ${order.invoiceNumber ?? ''} (PDF)`.replace('  ', ' '),
+        url: `${base}/invoice`,
+      })
     if (order.paidAt) docs.push({ kind: 'receipt', label: 'Receipt (PDF)', url: `${base}/receipt` })
-    if (allocated) docs.push({ kind: 'packing-list', label: 'Packing list (PDF)', url: `${base}/packing-list` })
+    if (allocated)
+      docs.push({ kind: 'packing-list', label: 'Packing list (PDF)', url: `${base}/packing-list` })
   }
-  const payUrl = order.paidAt || CLOSED_STATUSES.includes(order.status) || order.invoiceVoidedAt ? null
-    : order.paymentMethod === 'card' ? (order.status === 'awaiting payment' ? order.checkoutUrl : null) : order.invoiceUrl
-  const facts = { status: order.status, paymentMethod: order.paymentMethod, allocated, paid: !!order.paidAt }
+  const payUrl
+    = order.paidAt || CLOSED_STATUSES.includes(order.status) || order.invoiceVoidedAt
+      ? null
+      : order.paymentMethod === 'card'
+        ? order.status === 'awaiting payment'
+          ? order.checkoutUrl
+          : null
+        : order.invoiceUrl
+  const facts = {
+    status: order.status,
+    paymentMethod: order.paymentMethod,
+    allocated,
+    paid: !!order.paidAt,
+  }
   return {
-    id: order.id, number: order.number!, status: order.status, paymentMethod: order.paymentMethod,
-    subtotalCents: order.subtotalCents, shippingCents: order.shippingCents, taxCents: order.taxCents, totalCents: order.totalCents, taxExempt: order.taxExempt,
-    taxRateBasisPoints: order.taxRateBasisPoints, taxState: order.taxState,
+    id: order.id,
+    number: order.number!,
+    status: order.status,
+    paymentMethod: order.paymentMethod,
+    subtotalCents: order.subtotalCents,
+    shippingCents: order.shippingCents,
+    taxCents: order.taxCents,
+    totalCents: order.totalCents,
+    taxExempt: order.taxExempt,
+    taxRateBasisPoints: order.taxRateBasisPoints,
+    taxState: order.taxState,
     addresses: addressesOfOrder(order, people.school),
-    createdAt: order.createdAt.toISOString(), paidAt: order.paidAt?.toISOString() ?? null,
-    school: { id: people.school.id, name: people.school.name, district: people.school.district, taxExemption: people.school.taxExemption },
-    placedBy: people.buyer, quoteId: order.quoteId,
+    createdAt: order.createdAt.toISOString(),
+    paidAt: order.paidAt?.toISOString() ?? null,
+    school: {
+      id: people.school.id,
+      name: people.school.name,
+      district: people.school.district,
+      taxExemption: people.school.taxExemption,
+    },
+    placedBy: people.buyer,
+    quoteId: order.quoteId,
     lines: await withTierLabels(db, lines.map(pricedLineOf)),
-    events: events.map((e) => ({ id: e.id, kind: e.kind, message: e.message, createdAt: e.createdAt.toISOString() })),
-    shipments: ships.map((s) => ({ id: s.id, carrier: s.carrier, tracking: s.tracking, shippedAt: s.shippedAt.toISOString() })),
+    events: events.map(e => ({
+      id: e.id,
+      kind: e.kind,
+      message: e.message,
+      createdAt: e.createdAt.toISOString(),
+    })),
+    shipments: ships.map(s => ({
+      id: s.id,
+      carrier: s.carrier,
+      tracking: s.tracking,
+      shippedAt: s.shippedAt.toISOString(),
+    })),
     documents: docs,
     payUrl: canSeeOrderDocuments(user, order) ? payUrl : null,
-    invoice: order.invoiceId ? { number: order.invoiceNumber, dueAt: order.invoiceDueAt?.toISOString() ?? null } : null,
-    purchaseOrder: people.po ? { poNumber: people.po.poNumber, apEmail: people.po.apEmail, status: people.po.status, rejectReason: people.po.rejectReason } : null,
-    reservations: held.map((h) => ({ batchCode: h.code, productName: names.get(h.r.productId) ?? '', quantity: h.r.quantity, status: h.r.status })),
+    invoice: order.invoiceId
+      ? { number: order.invoiceNumber, dueAt: order.invoiceDueAt?.toISOString() ?? null }
+      : null,
+    purchaseOrder: people.po
+      ? {
+          poNumber: people.po.poNumber,
+          apEmail: people.po.apEmail,
+          status: people.po.status,
+          rejectReason: people.po.rejectReason,
+        }
+      : null,
+    reservations: held.map(h => ({
+      batchCode: h.code,
+      productName: names.get(h.r.productId) ?? '',
+      quantity: h.r.quantity,
+      status: h.r.status,
+    })),
     allocated,
     canCancel: canCancelOrder(user, order),
     actions: user.role === 'admin' ? openActions(facts, 'admin') : [],
@@ -215,18 +428,42 @@ export async function replyWithOrder(orderId: number, user: SessionUser) {
  *  one tier wording), then shipping and tax. */
 export function chargeLinesFor(
   lines: Omit<PricedLine, 'productId'>[],
-  totals: Pick<Totals, 'shippingCents' | 'taxCents' | 'taxExempt' | 'taxRateBasisPoints' | 'taxState'>,
+  totals: Pick<
+    Totals,
+    'shippingCents' | 'taxCents' | 'taxExempt' | 'taxRateBasisPoints' | 'taxState'
+  >,
 ) {
   return [
-    ...lines.map((l) => ({ description: `${l.name} (${lineTierWording(l)})`, quantity: l.quantity, unitAmountCents: l.unitPriceCents })),
-    ...(totals.shippingCents ? [{ description: 'Shipping', quantity: 1, unitAmountCents: totals.shippingCents }] : []),
-    ...(totals.taxCents ? [{ description: taxLineLabel(totals, { charged: true }), quantity: 1, unitAmountCents: totals.taxCents }] : []),
+    ...lines.map(l => ({
+      description: `${l.name} (${lineTierWording(l)})`,
+      quantity: l.quantity,
+      unitAmountCents: l.unitPriceCents,
+    })),
+    ...(totals.shippingCents
+      ? [{ description: 'Shipping', quantity: 1, unitAmountCents: totals.shippingCents }]
+      : []),
+    ...(totals.taxCents
+      ? [
+          {
+            description: taxLineLabel(totals, { charged: true }),
+            quantity: 1,
+            unitAmountCents: totals.taxCents,
+          },
+        ]
+      : []),
   ]
 }
 
-export function orderRowOf(r: { o: OrderRow; school: string; poNumber: string | null }) {
+export function orderRowOf(r: { o: OrderRow, school: string, poNumber: string | null }) {
   return {
-    id: r.o.id, number: r.o.number!, status: r.o.status, paymentMethod: r.o.paymentMethod, totalCents: r.o.totalCents,
-    createdAt: r.o.createdAt.toISOString(), school: r.school, poNumber: r.poNumber, paid: !!r.o.paidAt,
+    id: r.o.id,
+    number: r.o.number!,
+    status: r.o.status,
+    paymentMethod: r.o.paymentMethod,
+    totalCents: r.o.totalCents,
+    createdAt: r.o.createdAt.toISOString(),
+    school: r.school,
+    poNumber: r.poNumber,
+    paid: !!r.o.paidAt,
   }
 }

@@ -1,4 +1,5 @@
-// Builders are students: the catalog they see carries no prices (shared/utils/roles.ts canSeePrices).
+// Builders are students: the catalog they see carries no prices (shared/utils/roles.ts
+// canSeePrices).
 import type { H3Event } from 'h3'
 import type { ProductView } from '../../shared/types/shop'
 import { canSeePrices } from '../../shared/utils/roles'

@@ -20,7 +20,12 @@ export async function requireVisibleQuote(event: H3Event, user: SessionUser): Pr
 export async function quoteDetails(db: DbOrTx, q: QuoteRow) {
   const [lines, [row]] = await Promise.all([
     db.select().from(quoteLines).where(eq(quoteLines.quoteId, q.id)).orderBy(asc(quoteLines.id)),
-    db.select({ school: schools, by: users.name }).from(schools).innerJoin(users, eq(users.id, q.createdById)).where(eq(schools.id, q.schoolId)).limit(1),
+    db
+      .select({ school: schools, by: users.name })
+      .from(schools)
+      .innerJoin(users, eq(users.id, q.createdById))
+      .where(eq(schools.id, q.schoolId))
+      .limit(1),
   ])
   return { lines, school: row!.school, preparedFor: row!.by }
 }
@@ -31,14 +36,26 @@ export async function renderQuotePdf(db: DbOrTx, q: QuoteRow) {
 }
 
 export function quoteView(
-  q: QuoteRow, lines: (typeof quoteLines.$inferSelect)[], school: { name: string; taxExemption: string },
+  q: QuoteRow,
+  lines: (typeof quoteLines.$inferSelect)[],
+  school: { name: string, taxExemption: string },
 ): QuoteView {
   return {
-    id: q.id, number: q.number!, createdAt: q.createdAt.toISOString(), validUntil: q.validUntil.toISOString(), valid: isQuoteValid(q), orderId: q.orderId,
+    id: q.id,
+    number: q.number!,
+    createdAt: q.createdAt.toISOString(),
+    validUntil: q.validUntil.toISOString(),
+    valid: isQuoteValid(q),
+    orderId: q.orderId,
     school: { name: school.name },
     exemptNow: school.taxExemption === 'accepted' && !q.taxExempt,
-    subtotalCents: q.subtotalCents, shippingCents: q.shippingCents, taxCents: q.taxCents, totalCents: q.totalCents,
-    taxExempt: q.taxExempt, taxRateBasisPoints: q.taxRateBasisPoints, taxState: q.taxState,
+    subtotalCents: q.subtotalCents,
+    shippingCents: q.shippingCents,
+    taxCents: q.taxCents,
+    totalCents: q.totalCents,
+    taxExempt: q.taxExempt,
+    taxRateBasisPoints: q.taxRateBasisPoints,
+    taxState: q.taxState,
     lines: lines.map(pricedLineOf),
   }
 }

@@ -16,10 +16,28 @@ const idleLimitMs = () => Number(useRuntimeConfig().session.maxAge ?? 14 * 86_40
 /** "Firefox on Windows": the browser family and system only, never the full user-agent string. */
 export function deviceLabel(userAgent: string | undefined): string {
   const ua = userAgent ?? ''
-  const browser = /Edg\//.test(ua) ? 'Edge' : /Firefox\//.test(ua) ? 'Firefox' : /Chrom(e|ium)\//.test(ua) ? 'Chrome'
-    : /Safari\//.test(ua) ? 'Safari' : 'A browser'
-  const system = /Android/.test(ua) ? 'Android' : /iPhone|iPad/.test(ua) ? 'iOS' : /Windows/.test(ua) ? 'Windows'
-    : /Mac OS X/.test(ua) ? 'macOS' : /CrOS/.test(ua) ? 'ChromeOS' : /Linux/.test(ua) ? 'Linux' : ''
+  const browser = /Edg\//.test(ua)
+    ? 'Edge'
+    : /Firefox\//.test(ua)
+      ? 'Firefox'
+      : /Chrom(e|ium)\//.test(ua)
+        ? 'Chrome'
+        : /Safari\//.test(ua)
+          ? 'Safari'
+          : 'A browser'
+  const system = /Android/.test(ua)
+    ? 'Android'
+    : /iPhone|iPad/.test(ua)
+      ? 'iOS'
+      : /Windows/.test(ua)
+        ? 'Windows'
+        : /Mac OS X/.test(ua)
+          ? 'macOS'
+          : /CrOS/.test(ua)
+            ? 'ChromeOS'
+            : /Linux/.test(ua)
+              ? 'Linux'
+              : ''
   return system ? `${browser} on ${system}` : browser
 }
 
@@ -28,11 +46,19 @@ export async function startSession(event: H3Event, tx: DbOrTx, user: SessionUser
   const sid = randomBytes(32).toString('base64url')
   const device = deviceLabel(getRequestHeader(event, 'user-agent'))
   await tx.insert(userSessions).values({ userId: user.id, tokenHash: hashOf(sid), device })
-  await forgetRowsBefore(userSessions, userSessions.lastSeenAt, new Date(Date.now() - idleLimitMs()), tx)
+  await forgetRowsBefore(
+    userSessions,
+    userSessions.lastSeenAt,
+    new Date(Date.now() - idleLimitMs()),
+    tx,
+  )
   await replaceUserSession(event, { user, loggedInAt: Date.now(), secure: { sid } })
 }
 
-export interface LiveSession { sessionId: number; row: typeof users.$inferSelect }
+export interface LiveSession {
+  sessionId: number
+  row: typeof users.$inferSelect
+}
 
 /** The unrevoked session named by this request's cookie and its (enabled) user, or null. */
 export async function liveSession(event: H3Event): Promise<LiveSession | null> {
@@ -42,13 +68,19 @@ export async function liveSession(event: H3Event): Promise<LiveSession | null> {
   const sid = session.secure?.sid
   let found: LiveSession | null = null
   if (sid) {
-    const [hit] = await useDb().select({ s: userSessions, u: users }).from(userSessions)
+    const [hit] = await useDb()
+      .select({ s: userSessions, u: users })
+      .from(userSessions)
       .innerJoin(users, eq(users.id, userSessions.userId))
-      .where(and(eq(userSessions.tokenHash, hashOf(sid)), isNull(userSessions.revokedAt))).limit(1)
+      .where(and(eq(userSessions.tokenHash, hashOf(sid)), isNull(userSessions.revokedAt)))
+      .limit(1)
     if (hit && !hit.u.disabledAt && Date.now() - hit.s.lastSeenAt.getTime() < idleLimitMs()) {
       found = { sessionId: hit.s.id, row: hit.u }
       if (Date.now() - hit.s.lastSeenAt.getTime() > TOUCH_EVERY_MS) {
-        await useDb().update(userSessions).set({ lastSeenAt: new Date() }).where(eq(userSessions.id, hit.s.id))
+        await useDb()
+          .update(userSessions)
+          .set({ lastSeenAt: new Date() })
+          .where(eq(userSessions.id, hit.s.id))
       }
     }
   }
@@ -59,13 +91,18 @@ export async function liveSession(event: H3Event): Promise<LiveSession | null> {
 /** Ends sessions of a user: all of them, or all but `exceptId` (the one making the change). */
 export async function revokeSessions(tx: DbOrTx, userId: number, exceptId?: number) {
   const open = and(eq(userSessions.userId, userId), isNull(userSessions.revokedAt))
-  await tx.update(userSessions).set({ revokedAt: new Date() })
+  await tx
+    .update(userSessions)
+    .set({ revokedAt: new Date() })
     .where(exceptId === undefined ? open : and(open, ne(userSessions.id, exceptId)))
 }
 
 /** Ends the session whose cookie carries `sid` (the 'clear' hook in server/plugins/sessions.ts). */
 export async function revokeSessionBySid(sid: string) {
-  await useDb().update(userSessions).set({ revokedAt: new Date() }).where(eq(userSessions.tokenHash, hashOf(sid)))
+  await useDb()
+    .update(userSessions)
+    .set({ revokedAt: new Date() })
+    .where(eq(userSessions.tokenHash, hashOf(sid)))
 }
 
 /** Ends this request's session (if any) and clears its cookie. */
@@ -75,8 +112,17 @@ export async function endSession(event: H3Event) {
 }
 
 export async function listSessions(userId: number, currentId: number) {
-  const rows = await useDb().select().from(userSessions)
+  const rows = await useDb()
+    .select()
+    .from(userSessions)
     .where(and(eq(userSessions.userId, userId), isNull(userSessions.revokedAt)))
-    .orderBy(desc(userSessions.lastSeenAt)).limit(50)
-  return rows.map((r) => ({ id: r.id, device: r.device, signedInAt: r.createdAt, lastSeenAt: r.lastSeenAt, current: r.id === currentId }))
+    .orderBy(desc(userSessions.lastSeenAt))
+    .limit(50)
+  return rows.map(r => ({
+    id: r.id,
+    device: r.device,
+    signedInAt: r.createdAt,
+    lastSeenAt: r.lastSeenAt,
+    current: r.id === currentId,
+  }))
 }

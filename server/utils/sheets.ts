@@ -6,15 +6,35 @@ import type { SessionUser } from '../../shared/utils/roles'
 import { tuningSheets } from '../database/schema'
 
 export async function loadVisibleSheet(user: SessionUser, id: number) {
-  const [row] = await useDb().select().from(tuningSheets).where(and(eq(tuningSheets.id, id), eq(tuningSheets.archived, false))).limit(1)
+  const [row] = await useDb()
+    .select()
+    .from(tuningSheets)
+    .where(and(eq(tuningSheets.id, id), eq(tuningSheets.archived, false)))
+    .limit(1)
   if (!row || !canSeeSheet(user, row)) throw notFound('That tuning sheet')
   return { ...row, inputs: row.inputs as unknown as SheetInputs }
 }
 
-export async function insertSheet(userId: number, sheet: { title: string; note: string | null; rigId?: number; inputs: SheetInputs; results: unknown }) {
-  const [row] = await useDb().insert(tuningSheets).values({
-    authorId: userId, title: sheet.title, note: sheet.note, rigId: sheet.rigId ?? null,
-    inputs: sheet.inputs as unknown as Record<string, unknown>, results: sheet.results as Record<string, unknown>,
-  }).$returningId()
+export async function insertSheet(
+  userId: number,
+  sheet: {
+    title: string
+    note: string | null
+    rigId?: number
+    inputs: SheetInputs
+    results: unknown
+  },
+) {
+  const [row] = await useDb()
+    .insert(tuningSheets)
+    .values({
+      authorId: userId,
+      title: sheet.title,
+      note: sheet.note,
+      rigId: sheet.rigId ?? null,
+      inputs: sheet.inputs as unknown as Record<string, unknown>,
+      results: sheet.results as Record<string, unknown>,
+    })
+    .$returningId()
   return row!.id
 }

@@ -9,18 +9,26 @@ import { clientAddress, parseTrustedProxies } from '../../shared/utils/client-ad
 import { delayAfter, THROTTLE } from '../../shared/utils/sign-in-rules'
 import { signInThrottles } from '../database/schema'
 
-/** The client's address: X-Forwarded-For only from a proxy named in runtimeConfig.trustedProxies. */
+/**
+ * The client's address: X-Forwarded-For only from a proxy named in runtimeConfig.trustedProxies.
+ */
 export function requestAddress(event: H3Event): string {
   const trusted = parseTrustedProxies(String(useRuntimeConfig(event).trustedProxies ?? ''))
-  return clientAddress(event.node.req.socket.remoteAddress, getRequestHeader(event, 'x-forwarded-for'), trusted)
+  return clientAddress(
+    event.node.req.socket.remoteAddress,
+    getRequestHeader(event, 'x-forwarded-for'),
+    trusted,
+  )
 }
 
-const pair = (email: string, address: string) => and(eq(signInThrottles.email, email), eq(signInThrottles.address, address))
+const pair = (email: string, address: string) =>
+  and(eq(signInThrottles.email, email), eq(signInThrottles.address, address))
 
 /** Counts one attempt for the pair, or answers 429 (with Retry-After) while it must wait. */
 export async function claimSignInAttempt(event: H3Event, email: string, address: string) {
   const db = useDb()
-  // The row exists before the locking read, so the lock is a plain row lock (no gap-lock deadlocks).
+  // The row exists before the locking read, so the lock is a plain row lock (no gap-lock
+  // deadlocks).
   await db.insert(signInThrottles).ignore().values({ email, address })
   const waitMs = await db.transaction(async (tx) => {
     const [row] = await tx.select().from(signInThrottles).where(pair(email, address)).for('update')
@@ -29,25 +37,34 @@ export async function claimSignInAttempt(event: H3Event, email: string, address:
     if (wait > 0) return wait
     const attempts = (row?.attempts ?? 0) + 1
     const nextAttemptAt = new Date(now + delayAfter(attempts))
-    await tx.update(signInThrottles).set({ attempts, nextAttemptAt, updatedAt: new Date(now) }).where(pair(email, address))
+    await tx
+      .update(signInThrottles)
+      .set({ attempts, nextAttemptAt, updatedAt: new Date(now) })
+      .where(pair(email, address))
     return 0
   })
   if (waitMs > 0) {
     const retry = Math.ceil(waitMs / 1000)
     setResponseHeader(event, 'Retry-After', retry)
     const when = retry < 90 ? `${retry} seconds` : `${Math.ceil(retry / 60)} minutes`
-    throw tooManyRequests(`Too many failed sign-ins from here. Try again in ${when}, or reset your password.`, retry)
+    throw tooManyRequests(
+      `Too many failed sign-ins from here. Try again in ${when}, or reset your password.`,
+      retry,
+    )
   }
 }
 
 /** The right password: the pair starts afresh. */
 export async function clearSignInAttempts(email: string, address: string) {
   await useDb().delete(signInThrottles).where(pair(email, address))
-  await forgetRowsBefore(signInThrottles, signInThrottles.updatedAt, new Date(Date.now() - THROTTLE.forgetAfterMs))
+  await forgetRowsBefore(
+    signInThrottles,
+    signInThrottles.updatedAt,
+    new Date(Date.now() - THROTTLE.forgetAfterMs),
+  )
 }
 
 /** A password reset lets the owner in from anywhere. */
 export async function clearSignInThrottles(tx: DbOrTx, email: string) {
   await tx.delete(signInThrottles).where(eq(signInThrottles.email, email))
 }
-

@@ -5,8 +5,17 @@ import { inArray, lt } from 'drizzle-orm'
 import type { MySqlColumn, MySqlTable } from 'drizzle-orm/mysql-core'
 
 export async function forgetRowsBefore(
-  table: MySqlTable & { id: MySqlColumn }, column: MySqlColumn, cutoff: Date, db: DbOrTx = useDb(),
+  table: MySqlTable & { id: MySqlColumn },
+  column: MySqlColumn,
+  cutoff: Date,
+  db: DbOrTx = useDb(),
 ) {
   const old = await db.select({ id: table.id }).from(table).where(lt(column, cutoff)).limit(200)
-  if (old.length) await db.delete(table).where(inArray(table.id, old.map((r) => r.id as number)))
+  if (old.length)
+    await db.delete(table).where(
+      inArray(
+        table.id,
+        old.map(r => r.id as number),
+      ),
+    )
 }

@@ -8,10 +8,15 @@
 // Where a state's published "state rate" includes a mandatory statewide local part (CA 7.25,
 // UT 6.10, VA 5.30), that combined statewide rate is used.
 
-export interface UsState { code: string; name: string; baseRateBasisPoints: number }
+export interface UsState {
+  code: string
+  name: string
+  baseRateBasisPoints: number
+}
 
-export const US_SALES_TAX_SOURCE = 'State base rates written from memory as of 2026-12-02, '
-  + 'to be checked against the state revenue departments; local add-on rates not included'
+export const US_SALES_TAX_SOURCE
+  = 'State base rates written from memory as of 2026-12-02, '
+    + 'to be checked against the state revenue departments; local add-on rates not included'
 
 export const US_STATES: readonly UsState[] = [
   { code: 'AL', name: 'Alabama', baseRateBasisPoints: 400 },

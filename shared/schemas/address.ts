@@ -5,20 +5,37 @@ import { z } from 'zod'
 import { US_STATE_CODES } from '../utils/tax'
 import { singleLine } from './text'
 
-const text = (label: string, max: number) => singleLine(z.string({ error: `Enter ${label}.` }).trim()
-  .min(1, `Enter ${label}.`).max(max, `Keep ${label} to ${max} characters or fewer.`))
-const optionalText = (label: string, max: number) => singleLine(z.string().trim()
-  .max(max, `Keep ${label} to ${max} characters or fewer.`)).nullish().transform((v) => v || null)
+const text = (label: string, max: number) =>
+  singleLine(
+    z
+      .string({ error: `Enter ${label}.` })
+      .trim()
+      .min(1, `Enter ${label}.`)
+      .max(max, `Keep ${label} to ${max} characters or fewer.`),
+  )
+const optionalText = (label: string, max: number) =>
+  singleLine(z.string().trim().max(max, `Keep ${label} to ${max} characters or fewer.`))
+    .nullish()
+    .transform(v => v || null)
 
 /** A US state's two-letter code, as typed or chosen ("wa" reads WA). */
-export const usStateField = z.string({ error: 'Choose the state.' }).trim().toUpperCase()
-  .refine((v) => US_STATE_CODES.includes(v), 'Choose a US state (we ship to US schools only).')
+export const usStateField = z
+  .string({ error: 'Choose the state.' })
+  .trim()
+  .toUpperCase()
+  .refine(v => US_STATE_CODES.includes(v), 'Choose a US state (we ship to US schools only).')
 
-export const usZipField = z.string({ error: 'Enter the ZIP code.' }).trim()
+export const usZipField = z
+  .string({ error: 'Enter the ZIP code.' })
+  .trim()
   .regex(/^\d{5}(-\d{4})?$/, 'Enter a US ZIP code, e.g. 98999 or 98999-1234.')
 
-export const usCountryField = z.string().trim().toUpperCase().default('US')
-  .refine((v) => v === 'US', 'We ship to US schools only: use US.')
+export const usCountryField = z
+  .string()
+  .trim()
+  .toUpperCase()
+  .default('US')
+  .refine(v => v === 'US', 'We ship to US schools only: use US.')
 
 export const postalAddressSchema = z.object({
   name: text('the name (school or department)', 160),
@@ -56,6 +73,12 @@ export const schoolAddressSchema = z.object({
 /** An address as the lines of a label or a document's address block. */
 export function addressLines(a: PostalAddress): string[] {
   const attention = a.attention ? `Attn: ${a.attention}` : null
-  return [a.name, attention, a.line1, a.line2, `${a.city}, ${a.region} ${a.postalCode}`, a.country === 'US' ? null : a.country]
-    .filter((x): x is string => !!x)
+  return [
+    a.name,
+    attention,
+    a.line1,
+    a.line2,
+    `${a.city}, ${a.region} ${a.postalCode}`,
+    a.country === 'US' ? null : a.country,
+  ].filter((x): x is string => !!x)
 }

@@ -3,17 +3,31 @@ import { z } from 'zod'
 import { schoolAddressSchema } from './address'
 import { singleLine } from './text'
 
-const email = z.string({ error: 'Enter your e-mail address.' }).trim().toLowerCase()
-  .min(1, 'Enter your e-mail address.').max(254, 'That e-mail address is too long.')
+const email = z
+  .string({ error: 'Enter your e-mail address.' })
+  .trim()
+  .toLowerCase()
+  .min(1, 'Enter your e-mail address.')
+  .max(254, 'That e-mail address is too long.')
   .pipe(z.email({ error: 'That does not look like an e-mail address.' }))
 
-export const passwordRule = z.string({ error: 'Enter a password.' })
-  .min(10, 'Use at least 10 characters.').max(200, 'Use at most 200 characters.')
+export const passwordRule = z
+  .string({ error: 'Enter a password.' })
+  .min(10, 'Use at least 10 characters.')
+  .max(200, 'Use at most 200 characters.')
 
-const text = (label: string, max: number) => singleLine(z.string({ error: `Enter ${label}.` }).trim()
-  .min(1, `Enter ${label}.`).max(max, `Keep ${label} to ${max} characters or fewer.`))
-const optionalText = (label: string, max: number) => singleLine(z.string().trim()
-  .max(max, `Keep ${label} to ${max} characters or fewer.`)).optional().transform((v) => v || undefined)
+const text = (label: string, max: number) =>
+  singleLine(
+    z
+      .string({ error: `Enter ${label}.` })
+      .trim()
+      .min(1, `Enter ${label}.`)
+      .max(max, `Keep ${label} to ${max} characters or fewer.`),
+  )
+const optionalText = (label: string, max: number) =>
+  singleLine(z.string().trim().max(max, `Keep ${label} to ${max} characters or fewer.`))
+    .optional()
+    .transform(v => v || undefined)
 
 export const schoolSchema = z.object({
   name: text('the school name', 160),
@@ -31,21 +45,34 @@ export const registerSchema = z.object({
 
 export const loginSchema = z.object({
   email,
-  password: z.string({ error: 'Enter your password.' }).min(1, 'Enter your password.').max(200, 'That password is too long.'),
+  password: z
+    .string({ error: 'Enter your password.' })
+    .min(1, 'Enter your password.')
+    .max(200, 'That password is too long.'),
 })
 
 export const forgotPasswordSchema = z.object({ email })
 
-export const tokenSchema = z.string({ error: 'The link is incomplete.' }).regex(/^[A-Za-z0-9_-]{20,100}$/, 'The link is incomplete or has been altered.')
+export const tokenSchema = z
+  .string({ error: 'The link is incomplete.' })
+  .regex(/^[A-Za-z0-9_-]{20,100}$/, 'The link is incomplete or has been altered.')
 
 export const verifyEmailSchema = z.object({ token: tokenSchema })
 
 export const resetPasswordSchema = z.object({ token: tokenSchema, password: passwordRule })
 
-export const changePasswordSchema = z.object({
-  currentPassword: z.string({ error: 'Enter your current password.' }).min(1, 'Enter your current password.').max(200, 'That password is too long.'),
-  newPassword: passwordRule,
-}).refine((v) => v.currentPassword !== v.newPassword, { path: ['newPassword'], message: 'Choose a password different from the current one.' })
+export const changePasswordSchema = z
+  .object({
+    currentPassword: z
+      .string({ error: 'Enter your current password.' })
+      .min(1, 'Enter your current password.')
+      .max(200, 'That password is too long.'),
+    newPassword: passwordRule,
+  })
+  .refine(v => v.currentPassword !== v.newPassword, {
+    path: ['newPassword'],
+    message: 'Choose a password different from the current one.',
+  })
 
 export const accountSchema = z.object({ name: text('your name', 120) })
 

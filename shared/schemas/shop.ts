@@ -12,35 +12,61 @@ export const MAX_LINE_QUANTITY = 500
 /** What is wrong with a cart line's quantity, in the words shown beside it; null when it can
  *  be ordered. `available` is the stock the server reported, when known. */
 export function lineQuantityProblem(quantity: number, available?: number): string | null {
-  if (!Number.isInteger(quantity) || quantity < 1 || quantity > MAX_LINE_QUANTITY) return `The quantity must be a whole number from 1 to ${MAX_LINE_QUANTITY}.`
-  if (available !== undefined && quantity > available) return available > 0 ? `Only ${available} left in stock: lower the quantity to ${available} or fewer.` : 'Out of stock: remove this line.'
+  if (!Number.isInteger(quantity) || quantity < 1 || quantity > MAX_LINE_QUANTITY)
+    return `The quantity must be a whole number from 1 to ${MAX_LINE_QUANTITY}.`
+  if (available !== undefined && quantity > available)
+    return available > 0
+      ? `Only ${available} left in stock: lower the quantity to ${available} or fewer.`
+      : 'Out of stock: remove this line.'
   return null
 }
 
 export const cartLineSchema = z.object({
   productId: id('a product'),
-  quantity: wholeNumber('Enter the quantity as a whole number.', 'Use a whole number.').pipe(z.number().min(1, 'At least 1.')
-    .max(MAX_LINE_QUANTITY, `At most ${MAX_LINE_QUANTITY} in one order.`)),
+  quantity: wholeNumber('Enter the quantity as a whole number.', 'Use a whole number.').pipe(
+    z
+      .number()
+      .min(1, 'At least 1.')
+      .max(MAX_LINE_QUANTITY, `At most ${MAX_LINE_QUANTITY} in one order.`),
+  ),
 })
 
-export const linesSchema = z.array(cartLineSchema, { error: 'The cart is missing.' })
-  .min(1, 'The cart is empty.').max(40, 'At most 40 different items in one order.')
-  .refine((lines) => new Set(lines.map((l) => l.productId)).size === lines.length, 'Each product may appear once; change its quantity instead.')
+export const linesSchema = z
+  .array(cartLineSchema, { error: 'The cart is missing.' })
+  .min(1, 'The cart is empty.')
+  .max(40, 'At most 40 different items in one order.')
+  .refine(
+    lines => new Set(lines.map(l => l.productId)).size === lines.length,
+    'Each product may appear once; change its quantity instead.',
+  )
 
 export const cartSchema = z.object({ lines: linesSchema })
 
 /** Checkout from the cart's lines or from a saved quote (at its quoted prices). */
-export const checkoutSourceSchema = z.union([
-  z.object({ quoteId: id('a quote'), lines: z.undefined().optional() }),
-  z.object({ lines: linesSchema, quoteId: z.undefined().optional() }),
-], { error: 'Send the cart lines or a quote.' })
+export const checkoutSourceSchema = z.union(
+  [
+    z.object({ quoteId: id('a quote'), lines: z.undefined().optional() }),
+    z.object({ lines: linesSchema, quoteId: z.undefined().optional() }),
+  ],
+  { error: 'Send the cart lines or a quote.' },
+)
 
-const email = (label: string) => z.string({ error: `Enter ${label}.` }).trim().toLowerCase().min(1, `Enter ${label}.`)
-  .max(254, 'That e-mail address is too long.').pipe(z.email({ error: 'That does not look like an e-mail address.' }))
+const email = (label: string) =>
+  z
+    .string({ error: `Enter ${label}.` })
+    .trim()
+    .toLowerCase()
+    .min(1, `Enter ${label}.`)
+    .max(254, 'That e-mail address is too long.')
+    .pipe(z.email({ error: 'That does not look like an e-mail address.' }))
 
 /** The text fields of the purchase-order form (the files are checked from their bytes). */
 export const purchaseOrderFieldsSchema = z.object({
-  poNumber: z.string({ error: 'Enter the purchase-order number.' }).trim().min(1, 'Enter the purchase-order number.').max(60, 'Keep the PO number to 60 characters or fewer.')
+  poNumber: z
+    .string({ error: 'Enter the purchase-order number.' })
+    .trim()
+    .min(1, 'Enter the purchase-order number.')
+    .max(60, 'Keep the PO number to 60 characters or fewer.')
     .regex(/^[A-Za-z0-9][A-Za-z0-9 ./_#-]*$/, 'Use letters, digits, spaces and . / _ # - only.'),
   apEmail: email('the accounts-payable e-mail address'),
 })
@@ -49,7 +75,13 @@ export const UPLOAD_LIMIT_BYTES = 5 * 1024 * 1024
 export const UPLOAD_TYPES = ['application/pdf', 'image/png', 'image/jpeg', 'image/webp'] as const
 
 export const rejectSchema = z.object({
-  reason: multiLine(z.string({ error: 'Say why the purchase order is rejected.' }).trim().min(5, 'Say why in a few words (the teacher reads this).').max(500, 'Keep the reason to 500 characters or fewer.')),
+  reason: multiLine(
+    z
+      .string({ error: 'Say why the purchase order is rejected.' })
+      .trim()
+      .min(5, 'Say why in a few words (the teacher reads this).')
+      .max(500, 'Keep the reason to 500 characters or fewer.'),
+  ),
 })
 
 export const approveSchema = z.object({
@@ -57,26 +89,59 @@ export const approveSchema = z.object({
 })
 
 export const shipmentSchema = z.object({
-  carrier: singleLine(z.string({ error: 'Enter the carrier.' }).trim().min(2, 'Enter the carrier.').max(60, 'Keep the carrier to 60 characters or fewer.')),
-  tracking: z.string({ error: 'Enter the tracking number.' }).trim().min(4, 'Enter the tracking number.').max(80, 'Keep the tracking number to 80 characters or fewer.')
+  carrier: singleLine(
+    z
+      .string({ error: 'Enter the carrier.' })
+      .trim()
+      .min(2, 'Enter the carrier.')
+      .max(60, 'Keep the carrier to 60 characters or fewer.'),
+  ),
+  tracking: z
+    .string({ error: 'Enter the tracking number.' })
+    .trim()
+    .min(4, 'Enter the tracking number.')
+    .max(80, 'Keep the tracking number to 80 characters or fewer.')
     .regex(/^[A-Za-z0-9 -]+$/, 'Use letters, digits, spaces and dashes only.'),
 })
 
 export const recordPaymentSchema = z.object({
-  reference: singleLine(z.string({ error: 'Enter the payment reference.' }).trim().min(2, 'Enter the payment reference (cheque or transfer number).').max(120, 'Keep the reference to 120 characters or fewer.')),
+  reference: singleLine(
+    z
+      .string({ error: 'Enter the payment reference.' })
+      .trim()
+      .min(2, 'Enter the payment reference (cheque or transfer number).')
+      .max(120, 'Keep the reference to 120 characters or fewer.'),
+  ),
 })
 
-export const adminOrderListQuery = listQuerySchema(['number', 'createdAt', 'status', 'totalCents', 'school'] as const, 'createdAt').extend({
+export const adminOrderListQuery = listQuerySchema(
+  ['number', 'createdAt', 'status', 'totalCents', 'school'] as const,
+  'createdAt',
+).extend({
   status: z.enum(ORDER_STATUSES, { error: 'Filter by a known status.' }).optional(),
-  method: z.enum(['card', 'purchase-order'], { error: 'Filter by card or purchase-order.' }).optional(),
+  method: z
+    .enum(['card', 'purchase-order'], { error: 'Filter by card or purchase-order.' })
+    .optional(),
 })
 
-const slug = z.string({ error: 'Enter a slug.' }).trim().toLowerCase().min(2, 'Enter a slug.').max(80, 'Keep the slug to 80 characters or fewer.')
-  .regex(/^[a-z0-9]+(-[a-z0-9]+)*$/, 'Use lowercase letters, digits and single dashes, e.g. long-beam-kit.')
+const slug = z
+  .string({ error: 'Enter a slug.' })
+  .trim()
+  .toLowerCase()
+  .min(2, 'Enter a slug.')
+  .max(80, 'Keep the slug to 80 characters or fewer.')
+  .regex(
+    /^[a-z0-9]+(-[a-z0-9]+)*$/,
+    'Use lowercase letters, digits and single dashes, e.g. long-beam-kit.',
+  )
 
 export const tierSchema = z.object({
-  minQuantity: wholeNumber('Enter the quantity as a whole number.').pipe(z.number().min(1, 'At least 1.').max(10_000, 'At most 10000.')),
-  unitPriceCents: wholeNumber('Enter the price in whole cents.').pipe(z.number().min(1, 'Above zero.').max(10_000_000, 'That price is too high.')),
+  minQuantity: wholeNumber('Enter the quantity as a whole number.').pipe(
+    z.number().min(1, 'At least 1.').max(10_000, 'At most 10000.'),
+  ),
+  unitPriceCents: wholeNumber('Enter the price in whole cents.').pipe(
+    z.number().min(1, 'Above zero.').max(10_000_000, 'That price is too high.'),
+  ),
 })
 
 export const tiersSchema = z.array(tierSchema).superRefine((tiers, ctx) => {
@@ -94,13 +159,36 @@ const specSchema = z.object({
 
 export const productSchema = z.object({
   slug,
-  name: singleLine(z.string({ error: 'Enter the name.' }).trim().min(2, 'Enter the name.').max(120, 'Keep the name to 120 characters or fewer.')),
+  name: singleLine(
+    z
+      .string({ error: 'Enter the name.' })
+      .trim()
+      .min(2, 'Enter the name.')
+      .max(120, 'Keep the name to 120 characters or fewer.'),
+  ),
   kind: z.enum(['kit', 'part'], { error: 'A product is a kit or a part.' }),
-  summary: singleLine(z.string({ error: 'Enter a one-line summary.' }).trim().min(5, 'Enter a one-line summary.').max(300, 'Keep the summary to 300 characters or fewer.')),
-  description: multiLine(z.string().trim().max(4000, 'Keep the description to 4000 characters or fewer.')).default(''),
+  summary: singleLine(
+    z
+      .string({ error: 'Enter a one-line summary.' })
+      .trim()
+      .min(5, 'Enter a one-line summary.')
+      .max(300, 'Keep the summary to 300 characters or fewer.'),
+  ),
+  description: multiLine(
+    z.string().trim().max(4000, 'Keep the description to 4000 characters or fewer.'),
+  ).default(''),
   specs: z.array(specSchema).max(20, 'At most 20 specs.').default([]),
-  image: z.string().trim().regex(/^\/catalog\/[a-z0-9-]+\.svg$/, 'Use a drawing from /catalog/, e.g. /catalog/rig-kit.svg.').default('/catalog/part.svg'),
-  weightGrams: wholeNumber('Enter the packed weight in whole grams.').pipe(z.number().min(1, 'At least 1 g.').max(50_000, 'At most 50 kg.')),
+  image: z
+    .string()
+    .trim()
+    .regex(
+      /^\/catalog\/[a-z0-9-]+\.svg$/,
+      'Use a drawing from /catalog/, e.g. /catalog/rig-kit.svg.',
+    )
+    .default('/catalog/part.svg'),
+  weightGrams: wholeNumber('Enter the packed weight in whole grams.').pipe(
+    z.number().min(1, 'At least 1 g.').max(50_000, 'At most 50 kg.'),
+  ),
   active: z.boolean().default(true),
   tiers: tiersSchema,
 })
@@ -109,9 +197,15 @@ export const productPatchSchema = productSchema.partial()
 
 export const batchSchema = z.object({
   productId: id('a product'),
-  code: z.string({ error: 'Enter the batch code.' }).trim().min(1, 'Enter the batch code.').max(40, 'Keep the code to 40 characters or fewer.')
+  code: z
+    .string({ error: 'Enter the batch code.' })
+    .trim()
+    .min(1, 'Enter the batch code.')
+    .max(40, 'Keep the code to 40 characters or fewer.')
     .regex(/^[A-Za-z0-9-]+$/, 'Use letters, digits and dashes only.'),
-  quantity: wholeNumber('Enter how many were built, as a whole number.').pipe(z.number().min(1, 'At least 1.').max(100_000, 'At most 100000.')),
+  quantity: wholeNumber('Enter how many were built, as a whole number.').pipe(
+    z.number().min(1, 'At least 1.').max(100_000, 'At most 100000.'),
+  ),
   builtOn: z.coerce.date({ error: 'Enter the date it was built.' }).optional(),
 })
 
@@ -124,11 +218,17 @@ export type ProductInput = z.input<typeof productSchema>
 
 /** An admin cancels with a reason the teacher and accounts payable read. */
 export const adminCancelSchema = z.object({
-  reason: multiLine(z.string({ error: 'Say why the order is cancelled.' }).trim()
-    .min(5, 'Say why in a few words (the teacher and accounts payable read this).')
-    .max(500, 'Keep the reason to 500 characters or fewer.')),
+  reason: multiLine(
+    z
+      .string({ error: 'Say why the order is cancelled.' })
+      .trim()
+      .min(5, 'Say why in a few words (the teacher and accounts payable read this).')
+      .max(500, 'Keep the reason to 500 characters or fewer.'),
+  ),
 })
 
 export const teacherCancelSchema = z.object({
-  reason: multiLine(z.string().trim().max(500, 'Keep the reason to 500 characters or fewer.')).optional(),
+  reason: multiLine(
+    z.string().trim().max(500, 'Keep the reason to 500 characters or fewer.'),
+  ).optional(),
 })

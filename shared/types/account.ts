@@ -1,12 +1,31 @@
 import type { SessionUser } from '../utils/roles'
 
 export interface SchoolView {
-  id: number; name: string; district: string | null; addressLine1: string; addressLine2: string | null
-  city: string; region: string; postalCode: string; country: string; taxExemption: 'none' | 'pending' | 'accepted' | 'rejected'
+  id: number
+  name: string
+  district: string | null
+  addressLine1: string
+  addressLine2: string | null
+  city: string
+  region: string
+  postalCode: string
+  country: string
+  taxExemption: 'none' | 'pending' | 'accepted' | 'rejected'
 }
 
-export interface AccountReply { user: SessionUser; school: SchoolView | null }
+export interface AccountReply {
+  user: SessionUser
+  school: SchoolView | null
+}
 
 /** A signed-in browser as the account page lists it. */
-export interface SessionView { id: number; device: string; signedInAt: string; lastSeenAt: string; current: boolean }
-export interface SessionsReply { data: SessionView[] }
+export interface SessionView {
+  id: number
+  device: string
+  signedInAt: string
+  lastSeenAt: string
+  current: boolean
+}
+export interface SessionsReply {
+  data: SessionView[]
+}

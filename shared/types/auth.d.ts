@@ -1,6 +1,8 @@
 import type { SessionUser } from '../utils/roles'
 
 declare module '#auth-utils' {
+  // Merges SessionUser into the module's own User type.
+  // eslint-disable-next-line @typescript-eslint/no-empty-object-type
   interface User extends SessionUser {}
   interface UserSession {
     loggedInAt: number

@@ -4,19 +4,38 @@ import type { OrderAction, OrderStatus, PaymentMethod } from '../utils/order-flo
 import type { CheckoutAddresses } from '../schemas/address'
 import type { WayBack } from '../utils/resubmit'
 
-export interface BatchView { id: number; code: string; quantityBuilt: number; left: number; builtOn: string }
+export interface BatchView {
+  id: number
+  code: string
+  quantityBuilt: number
+  left: number
+  builtOn: string
+}
 
 export interface ProductView {
-  id: number; slug: string; name: string; kind: 'kit' | 'part'; summary: string; image: string
-  priceTiers: PriceTier[]; available: number; batches: BatchView[]; active: boolean
+  id: number
+  slug: string
+  name: string
+  kind: 'kit' | 'part'
+  summary: string
+  image: string
+  priceTiers: PriceTier[]
+  available: number
+  batches: BatchView[]
+  active: boolean
 }
 
 export interface ProductDetail extends ProductView {
-  description: string; specs: { label: string; value: string }[]; weightGrams: number
+  description: string
+  specs: { label: string, value: string }[]
+  weightGrams: number
 }
 
 export interface PricedCartLine extends PricedLine {
-  slug: string; image: string; available: number; short: boolean
+  slug: string
+  image: string
+  available: number
+  short: boolean
   /** The tier's quantity range as the kit page shows it, "1–4" or "12+" (tierRangeLabel). */
   tierLabel: string
 }
@@ -29,41 +48,84 @@ export interface PricedCart extends Totals {
 }
 
 export interface DocLine {
-  name: string; quantity: number; tierMinQuantity: number; unitPriceCents: number; lineTotalCents: number; productId: number
+  name: string
+  quantity: number
+  tierMinQuantity: number
+  unitPriceCents: number
+  lineTotalCents: number
+  productId: number
   /** The tier's range as the kit page shows it ("1–4", "12+"), kept with the line. */
   tierLabel?: string | null
 }
 
 export interface QuoteView extends Totals {
-  id: number; number: string; createdAt: string; validUntil: string; valid: boolean; orderId: number | null
+  id: number
+  number: string
+  createdAt: string
+  validUntil: string
+  valid: boolean
+  orderId: number | null
   school: { name: string }
   /** The school's exemption was accepted after this quote: an order from it pays no sales tax. */
   exemptNow: boolean
   lines: DocLine[]
 }
 
-export interface OrderEventView { id: number; kind: string; message: string; createdAt: string }
-export interface ShipmentView { id: number; carrier: string; tracking: string; shippedAt: string }
-export interface OrderDocument { kind: 'quote' | 'invoice' | 'receipt' | 'packing-list' | 'purchase-order' | 'tax-certificate'; label: string; url: string }
+export interface OrderEventView {
+  id: number
+  kind: string
+  message: string
+  createdAt: string
+}
+export interface ShipmentView {
+  id: number
+  carrier: string
+  tracking: string
+  shippedAt: string
+}
+export interface OrderDocument {
+  kind: 'quote' | 'invoice' | 'receipt' | 'packing-list' | 'purchase-order' | 'tax-certificate'
+  label: string
+  url: string
+}
 
 export interface OrderView {
-  id: number; number: string; status: OrderStatus; paymentMethod: PaymentMethod
-  subtotalCents: number; shippingCents: number; taxCents: number; totalCents: number; taxExempt: boolean; taxRateBasisPoints: number
+  id: number
+  number: string
+  status: OrderStatus
+  paymentMethod: PaymentMethod
+  subtotalCents: number
+  shippingCents: number
+  taxCents: number
+  totalCents: number
+  taxExempt: boolean
+  taxRateBasisPoints: number
   taxState: string | null
   /** The ship-to, bill-to and delivery note the order was placed with. */
   addresses: CheckoutAddresses
-  createdAt: string; paidAt: string | null
-  school: { id: number; name: string; district: string | null; taxExemption: string }
-  placedBy: { name: string; email: string }
+  createdAt: string
+  paidAt: string | null
+  school: { id: number, name: string, district: string | null, taxExemption: string }
+  placedBy: { name: string, email: string }
   quoteId: number | null
   lines: DocLine[]
   events: OrderEventView[]
   shipments: ShipmentView[]
   documents: OrderDocument[]
   payUrl: string | null
-  invoice: { number: string | null; dueAt: string | null } | null
-  purchaseOrder: { poNumber: string; apEmail: string; status: 'review' | 'approved' | 'rejected'; rejectReason: string | null } | null
-  reservations: { batchCode: string; productName: string; quantity: number; status: 'reserved' | 'allocated' | 'released' }[]
+  invoice: { number: string | null, dueAt: string | null } | null
+  purchaseOrder: {
+    poNumber: string
+    apEmail: string
+    status: 'review' | 'approved' | 'rejected'
+    rejectReason: string | null
+  } | null
+  reservations: {
+    batchCode: string
+    productName: string
+    quantity: number
+    status: 'reserved' | 'allocated' | 'released'
+  }[]
   allocated: boolean
   canCancel: boolean
   /** The admin's open steps, from the order flow's table. */
@@ -77,6 +139,13 @@ export interface OrderView {
 }
 
 export interface OrderSummary {
-  id: number; number: string; status: OrderStatus; paymentMethod: PaymentMethod; totalCents: number
-  createdAt: string; school: string; poNumber: string | null; paid: boolean
+  id: number
+  number: string
+  status: OrderStatus
+  paymentMethod: PaymentMethod
+  totalCents: number
+  createdAt: string
+  school: string
+  poNumber: string | null
+  paid: boolean
 }

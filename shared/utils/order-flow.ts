@@ -4,7 +4,13 @@
 // so the two cannot drift apart.
 
 export const ORDER_STATUSES = [
-  'po review', 'awaiting payment', 'paid', 'shipped', 'delivered', 'cancelled', 'rejected',
+  'po review',
+  'awaiting payment',
+  'paid',
+  'shipped',
+  'delivered',
+  'cancelled',
+  'rejected',
 ] as const
 export type OrderStatus = (typeof ORDER_STATUSES)[number]
 
@@ -25,8 +31,18 @@ export const ORDER_STATUS_LABELS: Record<OrderStatus, string> = {
 export const CLOSED_STATUSES: readonly OrderStatus[] = ['cancelled', 'rejected']
 
 export const ORDER_ACTIONS = [
-  'placeCard', 'placePurchaseOrder', 'approve', 'reject', 'allocate', 'ship', 'recordPayment',
-  'markPaid', 'markDelivered', 'cancel', 'expire', 'refund',
+  'placeCard',
+  'placePurchaseOrder',
+  'approve',
+  'reject',
+  'allocate',
+  'ship',
+  'recordPayment',
+  'markPaid',
+  'markDelivered',
+  'cancel',
+  'expire',
+  'refund',
 ] as const
 export type OrderAction = (typeof ORDER_ACTIONS)[number]
 
@@ -68,42 +84,132 @@ const PO = 'purchase-order' as const
 const UNPAID_OPEN: OrderStatus[] = ['po review', 'awaiting payment']
 
 export const ORDER_FLOW: readonly FlowRow[] = [
-  { from: null, action: 'placeCard', to: 'awaiting payment', who: ['teacher'], method: 'card',
-    wording: 'Order placed by {actor}; stock reserved until it is paid.' },
-  { from: null, action: 'placePurchaseOrder', to: 'po review', who: ['teacher'], method: PO,
-    wording: 'Order placed by {actor} with a purchase order; stock reserved while it is reviewed.' },
-  { from: 'po review', action: 'approve', to: 'awaiting payment', who: ['admin'], method: PO,
-    wording: 'Purchase order approved by {actor}.' },
-  { from: 'po review', action: 'reject', to: 'rejected', who: ['admin'], method: PO,
-    wording: 'Purchase order rejected by {actor}: {reason}' },
+  {
+    from: null,
+    action: 'placeCard',
+    to: 'awaiting payment',
+    who: ['teacher'],
+    method: 'card',
+    wording: 'Order placed by {actor}; stock reserved until it is paid.',
+  },
+  {
+    from: null,
+    action: 'placePurchaseOrder',
+    to: 'po review',
+    who: ['teacher'],
+    method: PO,
+    wording: 'Order placed by {actor} with a purchase order; stock reserved while it is reviewed.',
+  },
+  {
+    from: 'po review',
+    action: 'approve',
+    to: 'awaiting payment',
+    who: ['admin'],
+    method: PO,
+    wording: 'Purchase order approved by {actor}.',
+  },
+  {
+    from: 'po review',
+    action: 'reject',
+    to: 'rejected',
+    who: ['admin'],
+    method: PO,
+    wording: 'Purchase order rejected by {actor}: {reason}',
+  },
   // Units are allocated once the order may be packed: paid, or a purchase order approved.
-  { from: 'paid', action: 'allocate', to: 'paid', who: ['admin'], allocated: false,
-    wording: 'Units allocated for packing: {reference}.' },
-  { from: 'awaiting payment', action: 'allocate', to: 'awaiting payment', who: ['admin'], method: PO, allocated: false,
-    wording: 'Units allocated for packing: {reference}.' },
-  { from: 'paid', action: 'ship', to: 'shipped', who: ['admin'], allocated: true,
-    wording: 'Shipped with {reference}.' },
-  { from: 'awaiting payment', action: 'ship', to: 'shipped', who: ['admin'], method: PO, allocated: true,
-    wording: 'Shipped with {reference}, on net terms.' },
-  ...(['awaiting payment', 'shipped', 'delivered'] as const).map((from): FlowRow => ({
-    from, action: 'recordPayment', to: from === 'awaiting payment' ? 'paid' : from, who: ['admin'],
-    method: PO, paid: false, wording: 'Payment of {amount} recorded by {actor} (reference {reference}).',
-  })),
-  ...(['awaiting payment', 'shipped', 'delivered'] as const).map((from): FlowRow => ({
-    from, action: 'markPaid', to: from === 'awaiting payment' ? 'paid' : from, who: ['system'],
-    paid: false, wording: 'Payment of {amount} received ({reference}).',
-  })),
-  { from: 'shipped', action: 'markDelivered', to: 'delivered', who: ['admin'], wording: 'Delivered.' },
-  ...UNPAID_OPEN.map((from): FlowRow => ({
-    from, action: 'cancel', to: 'cancelled', who: ['teacher', 'admin'], paid: false,
-    wording: 'Cancelled by {actor}: {reason}',
-  })),
-  { from: 'awaiting payment', action: 'expire', to: 'cancelled', who: ['system'], method: 'card', paid: false,
-    wording: 'The card payment was not completed within {reference} hours, so the order was cancelled.' },
-  ...CLOSED_STATUSES.map((from): FlowRow => ({
-    from, action: 'refund', to: from, who: ['system'],
-    wording: 'A payment of {amount} arrived after the order had ended; it was refunded in full ({reference}).',
-  })),
+  {
+    from: 'paid',
+    action: 'allocate',
+    to: 'paid',
+    who: ['admin'],
+    allocated: false,
+    wording: 'Units allocated for packing: {reference}.',
+  },
+  {
+    from: 'awaiting payment',
+    action: 'allocate',
+    to: 'awaiting payment',
+    who: ['admin'],
+    method: PO,
+    allocated: false,
+    wording: 'Units allocated for packing: {reference}.',
+  },
+  {
+    from: 'paid',
+    action: 'ship',
+    to: 'shipped',
+    who: ['admin'],
+    allocated: true,
+    wording: 'Shipped with {reference}.',
+  },
+  {
+    from: 'awaiting payment',
+    action: 'ship',
+    to: 'shipped',
+    who: ['admin'],
+    method: PO,
+    allocated: true,
+    wording: 'Shipped with {reference}, on net terms.',
+  },
+  ...(['awaiting payment', 'shipped', 'delivered'] as const).map(
+    (from): FlowRow => ({
+      from,
+      action: 'recordPayment',
+      to: from === 'awaiting payment' ? 'paid' : from,
+      who: ['admin'],
+      method: PO,
+      paid: false,
+      wording: 'Payment of {amount} recorded by {actor} (reference {reference}).',
+    }),
+  ),
+  ...(['awaiting payment', 'shipped', 'delivered'] as const).map(
+    (from): FlowRow => ({
+      from,
+      action: 'markPaid',
+      to: from === 'awaiting payment' ? 'paid' : from,
+      who: ['system'],
+      paid: false,
+      wording: 'Payment of {amount} received ({reference}).',
+    }),
+  ),
+  {
+    from: 'shipped',
+    action: 'markDelivered',
+    to: 'delivered',
+    who: ['admin'],
+    wording: 'Delivered.',
+  },
+  ...UNPAID_OPEN.map(
+    (from): FlowRow => ({
+      from,
+      action: 'cancel',
+      to: 'cancelled',
+      who: ['teacher', 'admin'],
+      paid: false,
+      wording: 'Cancelled by {actor}: {reason}',
+    }),
+  ),
+  {
+    from: 'awaiting payment',
+    action: 'expire',
+    to: 'cancelled',
+    who: ['system'],
+    method: 'card',
+    paid: false,
+    wording:
+      'The card payment was not completed within {reference} hours, so the order was cancelled.',
+  },
+  ...CLOSED_STATUSES.map(
+    (from): FlowRow => ({
+      from,
+      action: 'refund',
+      to: from,
+      who: ['system'],
+      wording:
+        'A payment of {amount} arrived after the order had ended; it was refunded in full '
+        + '({reference}).',
+    }),
+  ),
 ]
 
 export interface OrderFacts {
@@ -114,20 +220,38 @@ export interface OrderFacts {
 }
 
 /** The row that applies, or null when the action is not open for this order and actor. */
-export function findTransition(order: OrderFacts, action: OrderAction, actor: Actor): FlowRow | null {
-  return ORDER_FLOW.find((r) => r.action === action && r.from === order.status && r.who.includes(actor)
-    && (r.method === undefined || r.method === order.paymentMethod)
-    && (r.allocated === undefined || r.allocated === order.allocated)
-    && (r.paid === undefined || r.paid === order.paid)) ?? null
+export function findTransition(
+  order: OrderFacts,
+  action: OrderAction,
+  actor: Actor,
+): FlowRow | null {
+  return (
+    ORDER_FLOW.find(
+      r =>
+        r.action === action
+        && r.from === order.status
+        && r.who.includes(actor)
+        && (r.method === undefined || r.method === order.paymentMethod)
+        && (r.allocated === undefined || r.allocated === order.allocated)
+        && (r.paid === undefined || r.paid === order.paid),
+    ) ?? null
+  )
 }
 
 /** Every action the actor may take on the order now, in the table's order. */
 export function openActions(order: OrderFacts, actor: Actor): OrderAction[] {
-  return [...new Set(ORDER_FLOW.filter((r) => findTransition(order, r.action, actor) === r).map((r) => r.action))]
+  return [
+    ...new Set(
+      ORDER_FLOW.filter(r => findTransition(order, r.action, actor) === r).map(r => r.action),
+    ),
+  ]
 }
 
 /** The timeline's words for a row, with its blanks filled. */
-export function flowWording(row: FlowRow, fill: { actor?: string; reason?: string; reference?: string; amount?: string }) {
+export function flowWording(
+  row: FlowRow,
+  fill: { actor?: string, reason?: string, reference?: string, amount?: string },
+) {
   return row.wording
     .replace('{actor}', fill.actor ?? 'Tiltwright')
     .replace('{reason}', sentence(fill.reason ?? ''))

@@ -1,6 +1,6 @@
 // The Gain Planner form in the builder's units (mm, degrees, Hz) and its conversion to the
 // model's SI inputs. Blank optional fields mean "use the model's default".
-import { z } from 'zod'
+import type { z } from 'zod'
 import { fieldErrorsOf, type FieldErrors } from './field-errors'
 import { rigSchema, targetsSchema, type Gains, type Rig, type Targets } from './planner/schema'
 
@@ -39,31 +39,70 @@ export interface PlannerForm {
 
 /** Which form field shows a model field's error. */
 export const FORM_FIELD_OF: Record<string, keyof PlannerForm> = {
-  beamLength: 'beamLengthMm', pivotToLink: 'pivotToLinkMm', leverArm: 'leverArmMm', pushrodLength: 'pushrodLengthMm',
-  drive: 'drive', gearRatio: 'gearRatio', ballDiameter: 'ballDiameterMm', ballShell: 'ballShell', ballMaterial: 'ballMaterial',
-  railGap: 'railGapMm', servoSecondsPer60: 'servoSecondsPer60', servoTravel: 'servoTravelDeg', servoType: 'servoType',
-  loopRate: 'loopRateHz', adcBits: 'adcBits', sensorSpanRatio: 'sensorSpanRatio', sensorLength: 'sensorLengthMm',
-  overshootPct: 'overshootPct', settlingTime: 'settlingTime', form: 'form', derivativeFilterN: 'derivativeFilterN',
-  method: 'method', derivativeOn: 'derivativeOn', stepSize: 'stepSizeMm', integralPole: 'integralPole', discretization: 'discretization',
+  beamLength: 'beamLengthMm',
+  pivotToLink: 'pivotToLinkMm',
+  leverArm: 'leverArmMm',
+  pushrodLength: 'pushrodLengthMm',
+  drive: 'drive',
+  gearRatio: 'gearRatio',
+  ballDiameter: 'ballDiameterMm',
+  ballShell: 'ballShell',
+  ballMaterial: 'ballMaterial',
+  railGap: 'railGapMm',
+  servoSecondsPer60: 'servoSecondsPer60',
+  servoTravel: 'servoTravelDeg',
+  servoType: 'servoType',
+  loopRate: 'loopRateHz',
+  adcBits: 'adcBits',
+  sensorSpanRatio: 'sensorSpanRatio',
+  sensorLength: 'sensorLengthMm',
+  overshootPct: 'overshootPct',
+  settlingTime: 'settlingTime',
+  form: 'form',
+  derivativeFilterN: 'derivativeFilterN',
+  method: 'method',
+  derivativeOn: 'derivativeOn',
+  stepSize: 'stepSizeMm',
+  integralPole: 'integralPole',
+  discretization: 'discretization',
 }
 
 const num = (v: unknown) => (v === '' || v === null || v === undefined ? Number.NaN : Number(v))
-const opt = (v: number | null | undefined, scale = 1) => (v === null || v === undefined || (v as unknown) === '' ? undefined : num(v) * scale)
+const opt = (v: number | null | undefined, scale = 1) =>
+  v === null || v === undefined || (v as unknown) === '' ? undefined : num(v) * scale
 
 export function rigFromForm(f: PlannerForm): Rig {
   return {
-    beamLength: num(f.beamLengthMm) * MM, pivotToLink: num(f.pivotToLinkMm) * MM, leverArm: num(f.leverArmMm) * MM,
-    pushrodLength: opt(f.pushrodLengthMm, MM), drive: f.drive, gearRatio: f.drive === 'direct' ? opt(f.gearRatio) : undefined,
-    ballDiameter: num(f.ballDiameterMm) * MM, ballShell: f.ballShell, ballMaterial: f.ballMaterial, railGap: num(f.railGapMm) * MM,
-    servoSecondsPer60: num(f.servoSecondsPer60), servoTravel: num(f.servoTravelDeg) * DEG, servoType: f.servoType,
-    loopRate: num(f.loopRateHz), adcBits: num(f.adcBits), sensorSpanRatio: opt(f.sensorSpanRatio), sensorLength: opt(f.sensorLengthMm, MM),
+    beamLength: num(f.beamLengthMm) * MM,
+    pivotToLink: num(f.pivotToLinkMm) * MM,
+    leverArm: num(f.leverArmMm) * MM,
+    pushrodLength: opt(f.pushrodLengthMm, MM),
+    drive: f.drive,
+    gearRatio: f.drive === 'direct' ? opt(f.gearRatio) : undefined,
+    ballDiameter: num(f.ballDiameterMm) * MM,
+    ballShell: f.ballShell,
+    ballMaterial: f.ballMaterial,
+    railGap: num(f.railGapMm) * MM,
+    servoSecondsPer60: num(f.servoSecondsPer60),
+    servoTravel: num(f.servoTravelDeg) * DEG,
+    servoType: f.servoType,
+    loopRate: num(f.loopRateHz),
+    adcBits: num(f.adcBits),
+    sensorSpanRatio: opt(f.sensorSpanRatio),
+    sensorLength: opt(f.sensorLengthMm, MM),
   }
 }
 
 export function targetsFromForm(f: PlannerForm): Targets {
   return {
-    overshootPct: num(f.overshootPct), settlingTime: num(f.settlingTime), form: f.form, derivativeFilterN: num(f.derivativeFilterN),
-    method: f.method, derivativeOn: f.derivativeOn, stepSize: opt(f.stepSizeMm, MM), discretization: f.discretization,
+    overshootPct: num(f.overshootPct),
+    settlingTime: num(f.settlingTime),
+    form: f.form,
+    derivativeFilterN: num(f.derivativeFilterN),
+    method: f.method,
+    derivativeOn: f.derivativeOn,
+    stepSize: opt(f.stepSizeMm, MM),
+    discretization: f.discretization,
     integralPole: f.form === 'PID' ? opt(f.integralPole) : undefined,
   }
 }
@@ -72,14 +111,30 @@ const round = (v: number, digits = 6) => Number(v.toPrecision(digits))
 
 export function formFrom(rig: Rig, targets: Targets): PlannerForm {
   return {
-    beamLengthMm: round(rig.beamLength / MM), pivotToLinkMm: round(rig.pivotToLink / MM), leverArmMm: round(rig.leverArm / MM),
-    pushrodLengthMm: rig.pushrodLength === undefined ? null : round(rig.pushrodLength / MM), drive: rig.drive, gearRatio: rig.gearRatio ?? null,
-    ballDiameterMm: round(rig.ballDiameter / MM), ballShell: rig.ballShell, ballMaterial: rig.ballMaterial ?? 'steel', railGapMm: round(rig.railGap / MM),
-    servoSecondsPer60: rig.servoSecondsPer60, servoTravelDeg: round(rig.servoTravel / DEG), servoType: rig.servoType ?? 'analog',
-    loopRateHz: rig.loopRate, adcBits: rig.adcBits, sensorSpanRatio: rig.sensorSpanRatio ?? null,
+    beamLengthMm: round(rig.beamLength / MM),
+    pivotToLinkMm: round(rig.pivotToLink / MM),
+    leverArmMm: round(rig.leverArm / MM),
+    pushrodLengthMm: rig.pushrodLength === undefined ? null : round(rig.pushrodLength / MM),
+    drive: rig.drive,
+    gearRatio: rig.gearRatio ?? null,
+    ballDiameterMm: round(rig.ballDiameter / MM),
+    ballShell: rig.ballShell,
+    ballMaterial: rig.ballMaterial ?? 'steel',
+    railGapMm: round(rig.railGap / MM),
+    servoSecondsPer60: rig.servoSecondsPer60,
+    servoTravelDeg: round(rig.servoTravel / DEG),
+    servoType: rig.servoType ?? 'analog',
+    loopRateHz: rig.loopRate,
+    adcBits: rig.adcBits,
+    sensorSpanRatio: rig.sensorSpanRatio ?? null,
     sensorLengthMm: rig.sensorLength === undefined ? null : round(rig.sensorLength / MM),
-    overshootPct: targets.overshootPct, settlingTime: targets.settlingTime, form: targets.form, derivativeFilterN: targets.derivativeFilterN,
-    method: targets.method, derivativeOn: targets.derivativeOn, stepSizeMm: targets.stepSize === undefined ? null : round(targets.stepSize / MM),
+    overshootPct: targets.overshootPct,
+    settlingTime: targets.settlingTime,
+    form: targets.form,
+    derivativeFilterN: targets.derivativeFilterN,
+    method: targets.method,
+    derivativeOn: targets.derivativeOn,
+    stepSizeMm: targets.stepSize === undefined ? null : round(targets.stepSize / MM),
     integralPole: targets.integralPole ?? null,
     discretization: targets.discretization ?? 'backward-euler',
   }
@@ -91,13 +146,17 @@ export function formFrom(rig: Rig, targets: Targets): PlannerForm {
  */
 export function plainMessage(m: string, formField?: string) {
   let out = m.replace(/ \(\w+\)/g, '')
-  if (formField?.endsWith('Mm')) out = out.replace(/(\d+(?:\.\d+)?) m(?![\w/²])/g, (_, v: string) => `${Number((Number(v) * 1000).toPrecision(6))} mm`)
+  if (formField?.endsWith('Mm'))
+    out = out.replace(
+      /(\d+(?:\.\d+)?) m(?![\w/²])/g,
+      (_, v: string) => `${Number((Number(v) * 1000).toPrecision(6))} mm`,
+    )
   return out
 }
 
-export type PlannerCheck =
-  | { ok: true; rig: Rig; targets: Targets; errors: FieldErrors }
-  | { ok: false; errors: FieldErrors }
+export type PlannerCheck
+  = | { ok: true, rig: Rig, targets: Targets, errors: FieldErrors }
+    | { ok: false, errors: FieldErrors }
 
 /** Validate the form with the model's own schemas; errors keyed by form field. */
 export function checkPlannerForm(f: PlannerForm): PlannerCheck {
@@ -111,11 +170,16 @@ export function checkPlannerForm(f: PlannerForm): PlannerCheck {
       errors[field] ??= plainMessage(m, field)
     }
   }
-  if (rig.success && targets.success) return { ok: true, rig: rig.data, targets: targets.data, errors }
+  if (rig.success && targets.success)
+    return { ok: true, rig: rig.data, targets: targets.data, errors }
   return { ok: false, errors }
 }
 
 /** Gains in the units a builder reads: degrees of servo per mm of error (and per mm/s). */
 export function gainsInDegrees(g: Gains) {
-  return { kpDegPerMm: g.kp * (180 / Math.PI) / 1000, kdDegPerMmPerS: g.kd * (180 / Math.PI) / 1000, kiDegPerMmS: g.ki * (180 / Math.PI) / 1000 }
+  return {
+    kpDegPerMm: (g.kp * (180 / Math.PI)) / 1000,
+    kdDegPerMmPerS: (g.kd * (180 / Math.PI)) / 1000,
+    kiDegPerMmS: (g.ki * (180 / Math.PI)) / 1000,
+  }
 }

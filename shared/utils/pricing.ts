@@ -1,7 +1,10 @@
 // Classroom pricing, shipping and tax: pure integer-cent arithmetic used by the cart, quotes,
 // orders and their PDFs. Nothing here touches floating-point money.
 
-export interface PriceTier { minQuantity: number; unitPriceCents: number }
+export interface PriceTier {
+  minQuantity: number
+  unitPriceCents: number
+}
 
 export interface PricedLineInput {
   productId: number
@@ -37,7 +40,11 @@ export interface Totals {
 }
 
 /** How a document is taxed: the ship-to state's base rate, or nothing for an accepted exemption. */
-export interface TaxBasis { state: string | null; rateBasisPoints: number; exempt: boolean }
+export interface TaxBasis {
+  state: string | null
+  rateBasisPoints: number
+  exempt: boolean
+}
 
 /** Tiltwright's shipping table: a handling charge plus a charge per started half kilogram,
  *  capped, and free freight for orders whose goods reach the threshold. */
@@ -50,18 +57,25 @@ export const SHIPPING = {
 
 /** The tier for a quantity: the one with the highest minimum that the quantity reaches. */
 export function tierFor(tiers: readonly PriceTier[], quantity: number): PriceTier {
-  if (!Number.isInteger(quantity) || quantity < 1) throw new RangeError('quantity must be a whole number of at least 1')
+  if (!Number.isInteger(quantity) || quantity < 1)
+    throw new RangeError('quantity must be a whole number of at least 1')
   let best: PriceTier | undefined
-  for (const t of tiers) if (t.minQuantity <= quantity && (!best || t.minQuantity > best.minQuantity)) best = t
-  if (!best) throw new RangeError('no price tier covers this quantity (every product needs a tier from 1)')
+  for (const t of tiers)
+    if (t.minQuantity <= quantity && (!best || t.minQuantity > best.minQuantity)) best = t
+  if (!best)
+    throw new RangeError('no price tier covers this quantity (every product needs a tier from 1)')
   return best
 }
 
 export function priceLine(line: PricedLineInput): PricedLine {
   const tier = tierFor(line.tiers, line.quantity)
   return {
-    productId: line.productId, name: line.name, quantity: line.quantity,
-    tierMinQuantity: tier.minQuantity, unitPriceCents: tier.unitPriceCents, lineTotalCents: tier.unitPriceCents * line.quantity,
+    productId: line.productId,
+    name: line.name,
+    quantity: line.quantity,
+    tierMinQuantity: tier.minQuantity,
+    unitPriceCents: tier.unitPriceCents,
+    lineTotalCents: tier.unitPriceCents * line.quantity,
     tierLabel: tierRangeLabel(line.tiers, tier),
   }
 }
@@ -81,7 +95,11 @@ export function taxCents(subtotalCents: number, rateBasisPoints: number, exempt:
   return Math.floor((subtotalCents * tenths + 50_000) / 100_000)
 }
 
-export function totalsFor(lines: readonly PricedLine[], totalWeightGrams: number, tax: TaxBasis): Totals {
+export function totalsFor(
+  lines: readonly PricedLine[],
+  totalWeightGrams: number,
+  tax: TaxBasis,
+): Totals {
   const subtotal = lines.reduce((s, l) => s + l.lineTotalCents, 0)
   return moneyWith(subtotal, shippingCents(subtotal, totalWeightGrams), tax)
 }
@@ -91,8 +109,13 @@ export function moneyWith(subtotalCents: number, shipping: number, tax: TaxBasis
   const rate = tax.exempt ? 0 : tax.rateBasisPoints
   const t = taxCents(subtotalCents, rate, tax.exempt)
   return {
-    subtotalCents, shippingCents: shipping, taxCents: t, totalCents: subtotalCents + shipping + t,
-    taxExempt: tax.exempt, taxRateBasisPoints: rate, taxState: tax.state,
+    subtotalCents,
+    shippingCents: shipping,
+    taxCents: t,
+    totalCents: subtotalCents + shipping + t,
+    taxExempt: tax.exempt,
+    taxRateBasisPoints: rate,
+    taxState: tax.state,
   }
 }
 
@@ -107,14 +130,19 @@ export function priceCart(lines: readonly PricedLineInput[], tax: TaxBasis) {
 export function formatCents(cents: number): string {
   const sign = cents < 0 ? '-' : ''
   const abs = Math.abs(cents)
-  const dollars = Math.floor(abs / 100).toString().replace(/\B(?=(\d{3})+(?!\d))/g, ',')
+  const dollars = Math.floor(abs / 100)
+    .toString()
+    .replace(/\B(?=(\d{3})+(?!\d))/g, ',')
   return `${sign}$${dollars}.${String(abs % 100).padStart(2, '0')}`
 }
 
 /** A tier's quantity range as text, given all the product's tiers: "1–4", "5–11", "12+"; a
  *  product with one price reads "any quantity" (never "1+"). */
 export function tierRangeLabel(tiers: readonly PriceTier[], tier: PriceTier): string {
-  const next = [...tiers].map((t) => t.minQuantity).filter((m) => m > tier.minQuantity).sort((a, b) => a - b)[0]
+  const next = [...tiers]
+    .map(t => t.minQuantity)
+    .filter(m => m > tier.minQuantity)
+    .sort((a, b) => a - b)[0]
   if (next === undefined) return tier.minQuantity <= 1 ? 'any quantity' : `${tier.minQuantity}+`
   return next - 1 === tier.minQuantity ? `${tier.minQuantity}` : `${tier.minQuantity}–${next - 1}`
 }
@@ -127,30 +155,44 @@ export function tierWording(label: string): string {
 
 /** The tier wording of a stored line: its own label when it kept one, else its minimum as a
  *  range with no upper end known ("12+"), or "any quantity" from 1. */
-export function lineTierWording(line: { tierLabel?: string | null; tierMinQuantity: number }): string {
-  return tierWording(line.tierLabel || (line.tierMinQuantity <= 1 ? 'any quantity' : `${line.tierMinQuantity}+`))
+export function lineTierWording(line: {
+  tierLabel?: string | null
+  tierMinQuantity: number
+}): string {
+  return tierWording(
+    line.tierLabel || (line.tierMinQuantity <= 1 ? 'any quantity' : `${line.tierMinQuantity}+`),
+  )
 }
 
-/** A tier list is usable when it starts at 1, has no repeated minimum, and every price is positive. */
+/**
+ * A tier list is usable when it starts at 1, has no repeated minimum, and every price is positive.
+ */
 export function tierProblems(tiers: readonly PriceTier[]): string | null {
   if (!tiers.length) return 'Add at least one price tier.'
-  if (!tiers.some((t) => t.minQuantity === 1)) return 'One tier must start at quantity 1.'
-  if (new Set(tiers.map((t) => t.minQuantity)).size !== tiers.length) return 'Two tiers start at the same quantity.'
-  if (tiers.some((t) => !Number.isInteger(t.unitPriceCents) || t.unitPriceCents <= 0)) return 'Every tier needs a price above zero.'
+  if (!tiers.some(t => t.minQuantity === 1)) return 'One tier must start at quantity 1.'
+  if (new Set(tiers.map(t => t.minQuantity)).size !== tiers.length)
+    return 'Two tiers start at the same quantity.'
+  if (tiers.some(t => !Number.isInteger(t.unitPriceCents) || t.unitPriceCents <= 0))
+    return 'Every tier needs a price above zero.'
   return null
 }
 
 /** Tier prices never rise with quantity: the index (in the given order) of each tier whose unit
  *  price is above that of a tier with a smaller minimum, with the words shown beside it. */
-export function risingTierProblems(tiers: readonly PriceTier[]): { index: number; message: string }[] {
-  const order = tiers.map((t, index) => ({ t, index })).sort((a, b) => a.t.minQuantity - b.t.minQuantity)
-  const found: { index: number; message: string }[] = []
+export function risingTierProblems(
+  tiers: readonly PriceTier[],
+): { index: number, message: string }[] {
+  const order = tiers
+    .map((t, index) => ({ t, index }))
+    .sort((a, b) => a.t.minQuantity - b.t.minQuantity)
+  const found: { index: number, message: string }[] = []
   let cheapest: PriceTier | undefined
   for (const { t, index } of order) {
     if (cheapest && t.unitPriceCents > cheapest.unitPriceCents) {
       const limit = formatCents(cheapest.unitPriceCents)
-      const message = `From ${t.minQuantity} the price must not be above ${limit} `
-        + `(the price from ${cheapest.minQuantity}): larger orders never pay more each.`
+      const message
+        = `From ${t.minQuantity} the price must not be above ${limit} `
+          + `(the price from ${cheapest.minQuantity}): larger orders never pay more each.`
       found.push({ index, message })
     }
     if (!cheapest || t.unitPriceCents <= cheapest.unitPriceCents) cheapest = t
@@ -165,7 +207,8 @@ export const MAX_ORDER_TOTAL_CENTS = 500_000_000
 /** What is wrong with an order's size, or null; the same words for the cart, quote and checkout. */
 export function orderSizeProblem(totals: Pick<Totals, 'totalCents'>): string | null {
   return totals.totalCents > MAX_ORDER_TOTAL_CENTS
-    ? `An order online can be at most ${formatCents(MAX_ORDER_TOTAL_CENTS)}. Split it, or write to us for a quote.`
+    ? `An order online can be at most ${formatCents(MAX_ORDER_TOTAL_CENTS)}. Split it, or `
+    + `write to us for a quote.`
     : null
 }
 
@@ -178,7 +221,11 @@ export function addDays(date: Date, days: number): Date {
 
 /** "24.5" or "$1,240.00" typed by a person → whole cents; null when it is not a price. */
 export function parseDollars(text: string): number | null {
-  const m = text.trim().replace(/^\$/, '').replace(/,/g, '').match(/^(\d{1,7})(?:\.(\d{1,2}))?$/)
+  const m = text
+    .trim()
+    .replace(/^\$/, '')
+    .replace(/,/g, '')
+    .match(/^(\d{1,7})(?:\.(\d{1,2}))?$/)
   if (!m) return null
   return Number(m[1]) * 100 + Number((m[2] ?? '').padEnd(2, '0'))
 }

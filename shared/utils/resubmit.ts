@@ -2,12 +2,19 @@
 // valid (its prices hold), else resubmit a corrected purchase order for the same lines.
 import { isQuoteValid } from './shop-rules'
 
-export interface WayBack { kind: 'quote' | 'same-lines'; url: string; label: string }
+export interface WayBack {
+  kind: 'quote' | 'same-lines'
+  url: string
+  label: string
+}
 
 export function wayBackAfterRejection(
   order: { id: number },
   po: { status: string } | null | undefined,
-  quote: { id: number; number: string | null; validUntil: Date | string; orderId: number | null } | null | undefined,
+  quote:
+    | { id: number, number: string | null, validUntil: Date | string, orderId: number | null }
+    | null
+    | undefined,
   now = new Date(),
 ): WayBack | null {
   if (po?.status !== 'rejected') return null

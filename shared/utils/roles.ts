@@ -44,7 +44,10 @@ export const ROLE_LABELS: Record<Role, string> = {
   admin: 'Admin',
 }
 
-export interface NavLink { to: string; label: string }
+export interface NavLink {
+  to: string
+  label: string
+}
 
 /** The header's links for a role (anonymous visitors get the public ones). */
 export function navigationFor(u: Who): NavLink[] {

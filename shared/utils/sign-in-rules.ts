@@ -13,5 +13,8 @@ export const THROTTLE = {
 /** How long a pair must wait after its `attempts`-th counted attempt. */
 export function delayAfter(attempts: number): number {
   if (attempts < THROTTLE.freeAttempts) return 0
-  return Math.min(THROTTLE.firstDelayMs * 2 ** (attempts - THROTTLE.freeAttempts), THROTTLE.maxDelayMs)
+  return Math.min(
+    THROTTLE.firstDelayMs * 2 ** (attempts - THROTTLE.freeAttempts),
+    THROTTLE.maxDelayMs,
+  )
 }

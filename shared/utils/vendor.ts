@@ -9,7 +9,12 @@ export const VENDOR = {
   email: 'orders@tiltwright.test',
   /** Invented federal employer identification number, for the demo only. */
   taxId: '00-0000000 (demo)',
-  remitTo: ['Tiltwright Classroom Kits LLC', 'Accounts receivable', 'PO Box 4410', 'Kessler Ford, OR 97998'],
+  remitTo: [
+    'Tiltwright Classroom Kits LLC',
+    'Accounts receivable',
+    'PO Box 4410',
+    'Kessler Ford, OR 97998',
+  ],
   chequePayee: 'Tiltwright Classroom Kits LLC',
   bank: {
     name: 'Demo Harbor Bank (invented for the demo)',
@@ -20,12 +25,16 @@ export const VENDOR = {
 } as const
 
 /** The ways accounts payable can pay an invoice, one line each, the online link among them. */
-export function remittanceLines(ref: { invoice: string; po: string; payUrl: string | null }): string[] {
+export function remittanceLines(ref: {
+  invoice: string
+  po: string
+  payUrl: string | null
+}): string[] {
   const quote = `quoting invoice ${ref.invoice} and purchase order ${ref.po}`
   return [
     ...(ref.payUrl ? [`Online by card: ${ref.payUrl}`] : []),
     `Cheque payable to ${VENDOR.chequePayee}, mailed to the remit-to address; ${quote}.`,
     `Bank transfer (ACH): ${VENDOR.bank.name}, account name ${VENDOR.bank.accountName}, routing `
-      + `${VENDOR.bank.routingNumber}, account ${VENDOR.bank.accountNumber}; ${quote}.`,
+    + `${VENDOR.bank.routingNumber}, account ${VENDOR.bank.accountNumber}; ${quote}.`,
   ]
 }

@@ -11,7 +11,7 @@ async function backUp() {
   let good = 0
   for (let i = 0; i < 100 && good < 3; i++) {
     good = (await new Client().get('/api/products')).status === 200 ? good + 1 : 0
-    if (good < 3) await new Promise((r) => setTimeout(r, 200))
+    if (good < 3) await new Promise(r => setTimeout(r, 200))
   }
   expect(good).toBe(3)
 }
@@ -19,26 +19,28 @@ async function backUp() {
 afterAll(backUp)
 
 describe('when the database is down', () => {
-  it('answers 503 with Retry-After on the API and a "briefly unavailable" page, then recovers', async () => {
-    const slug = (await new Client().get('/api/products')).body.data[0].slug
-    const signedIn = new Client()
-    await signedIn.signIn('teacher@tiltwright.test')
-    shutdown(testDatabase())
-    expect(ping(testDatabase())).toBe(false)
+  it(
+    'answers 503 with Retry-After on the API and a "briefly unavailable" page, '
+    + 'then recovers', async () => {
+      const slug = (await new Client().get('/api/products')).body.data[0].slug
+      const signedIn = new Client()
+      await signedIn.signIn('teacher@tiltwright.test')
+      shutdown(testDatabase())
+      expect(ping(testDatabase())).toBe(false)
 
-    const api = await new Client().get('/api/products')
-    expect(api.status).toBe(503)
-    expect(api.body.data).toMatchObject({ code: 'unavailable' })
-    expect(Number(api.headers.get('retry-after'))).toBeGreaterThan(0)
-    expect((await signedIn.get('/api/account')).status).toBe(503)
+      const api = await new Client().get('/api/products')
+      expect(api.status).toBe(503)
+      expect(api.body.data).toMatchObject({ code: 'unavailable' })
+      expect(Number(api.headers.get('retry-after'))).toBeGreaterThan(0)
+      expect((await signedIn.get('/api/account')).status).toBe(503)
 
-    const page = await new Client().raw(`/kits/${slug}`)
-    expect(page.status).toBe(503)
-    const html = await page.text()
-    expect(html).toContain('Tiltwright is briefly unavailable')
-    expect(html).not.toContain('There is nothing here')
+      const page = await new Client().raw(`/kits/${slug}`)
+      expect(page.status).toBe(503)
+      const html = await page.text()
+      expect(html).toContain('Tiltwright is briefly unavailable')
+      expect(html).not.toContain('There is nothing here')
 
-    await backUp()
-    expect((await signedIn.get('/api/account')).status).toBe(200)
-  })
+      await backUp()
+      expect((await signedIn.get('/api/account')).status).toBe(200)
+    })
 })

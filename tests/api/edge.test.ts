@@ -7,7 +7,13 @@ import { DEFAULT_TARGETS, KIT_PRESETS } from '../../shared/utils/planner/presets
 import { planGains } from '../../shared/utils/planner/plan'
 import { Client, uniqueEmail } from '../helpers/client'
 
-const school = { name: 'Edge Valley School', addressLine1: '2 Rim Road', city: 'Brink', region: 'OR', postalCode: '97003' }
+const school = {
+  name: 'Edge Valley School',
+  addressLine1: '2 Rim Road',
+  city: 'Brink',
+  region: 'OR',
+  postalCode: '97003',
+}
 
 async function as(role: string) {
   const c = new Client()
@@ -15,26 +21,48 @@ async function as(role: string) {
   return c
 }
 
-const rssMb = () => Number(readFileSync(`/proc/${inject('appPid')}/status`, 'utf8').match(/VmRSS:\s+(\d+)/)![1]) / 1024
+const rssMb = () =>
+  Number(readFileSync(`/proc/${inject('appPid')}/status`, 'utf8').match(/VmRSS:\s+(\d+)/)![1])
+  / 1024
 
 /** Streams up to `totalBytes` with chunked encoding (no Content-Length), stopping at the answer.
  *  Resolves with the status, the reply and how many bytes went out before the answer came. */
-async function streamBody(path: string, headers: Record<string, string>, parts: Buffer[], totalBytes: number) {
+async function streamBody(
+  path: string,
+  headers: Record<string, string>,
+  parts: Buffer[],
+  totalBytes: number,
+) {
   const base = new URL(inject('baseUrl'))
-  return new Promise<{ status: number; body: any; sentBeforeAnswer: number }>((resolve, reject) => {
+  return new Promise<{ status: number, body: any, sentBeforeAnswer: number }>((resolve, reject) => {
     let sent = 0
     let answered = false
-    const req = request({ host: '127.0.0.1', port: base.port, path, method: 'POST', headers: { ...headers, host: base.host, 'transfer-encoding': 'chunked' } }, (res) => {
-      answered = true
-      const at = sent
-      const chunks: Buffer[] = []
-      res.on('data', (c) => chunks.push(c))
-      res.on('end', () => {
-        req.destroy()
-        resolve({ status: res.statusCode!, body: JSON.parse(Buffer.concat(chunks).toString() || '{}'), sentBeforeAnswer: at })
-      })
+    const req = request(
+      {
+        host: '127.0.0.1',
+        port: base.port,
+        path,
+        method: 'POST',
+        headers: { ...headers, 'host': base.host, 'transfer-encoding': 'chunked' },
+      },
+      (res) => {
+        answered = true
+        const at = sent
+        const chunks: Buffer[] = []
+        res.on('data', c => chunks.push(c))
+        res.on('end', () => {
+          req.destroy()
+          resolve({
+            status: res.statusCode!,
+            body: JSON.parse(Buffer.concat(chunks).toString() || '{}'),
+            sentBeforeAnswer: at,
+          })
+        })
+      },
+    )
+    req.on('error', (e) => {
+      if (!answered) reject(e)
     })
-    req.on('error', (e) => { if (!answered) reject(e) })
     let i = 0
     const pump = () => {
       while (!answered && sent < totalBytes) {
@@ -54,7 +82,12 @@ describe('size limits hold for chunked bodies', () => {
     const before = rssMb()
     const chunk = Buffer.alloc(64 * 1024, 'a')
     const start = Buffer.from('{"title":"')
-    const r = await streamBody('/api/sheets/import', { ...(await c.authHeaders()), 'content-type': 'application/json' }, [start, chunk], 50_000_000)
+    const r = await streamBody(
+      '/api/sheets/import',
+      { ...(await c.authHeaders()), 'content-type': 'application/json' },
+      [start, chunk],
+      50_000_000,
+    )
     expect(r.status).toBe(413)
     expect(r.body.data).toMatchObject({ code: 'too-large', limitBytes: 2_000_000 })
     // The answer came long before the 50 MB were out: the server stopped reading at the limit.
@@ -62,38 +95,62 @@ describe('size limits hold for chunked bodies', () => {
     expect(rssMb() - before).toBeLessThan(100)
   })
 
-  it('refuses a multipart upload whose one file passes the per-file limit, while it streams', async () => {
-    const c = new Client()
-    const boundary = 'tiltwrightboundary42'
-    const head = Buffer.from(`--${boundary}\r\nContent-Disposition: form-data; name="poFile"; filename="po.pdf"\r\nContent-Type: application/pdf\r\n\r\n`)
-    const r = await streamBody('/api/checkout/purchase-order', {
-      ...(await c.authHeaders()), 'content-type': `multipart/form-data; boundary=${boundary}`,
-    }, [head, Buffer.alloc(64 * 1024, 1)], 50_000_000)
-    expect(r.status).toBe(413)
-    expect(r.body.data.limitBytes).toBeLessThan(6_000_000)
-    // Long before the 50 MB were out. The count includes what the sockets buffered on both sides
-    // (a run once measured 20.6 MB on a busy machine), so the bound leaves room for that.
-    expect(r.sentBeforeAnswer).toBeLessThan(30_000_000)
-  })
+  it(
+    'refuses a multipart upload whose one file passes the per-file limit, while '
+    + 'it streams', async () => {
+      const c = new Client()
+      const boundary = 'tiltwrightboundary42'
+      const head = Buffer.from(
+        `--${boundary}\r\nContent-Disposition: form-data; name="poFile"; `
+        + `filename="po.pdf"\r\nContent-Type: application/pdf\r\n\r\n`,
+      )
+      const r = await streamBody(
+        '/api/checkout/purchase-order',
+        {
+          ...(await c.authHeaders()),
+          'content-type': `multipart/form-data; boundary=${boundary}`,
+        },
+        [head, Buffer.alloc(64 * 1024, 1)],
+        50_000_000,
+      )
+      expect(r.status).toBe(413)
+      expect(r.body.data.limitBytes).toBeLessThan(6_000_000)
+      // Long before the 50 MB were out. The count includes what the sockets buffered on both sides
+      // (a run once measured 20.6 MB on a busy machine), so the bound leaves room for that.
+      expect(r.sentBeforeAnswer).toBeLessThan(30_000_000)
+    })
 
   it('refuses a multipart request whose files together pass the per-request limit', async () => {
     const c = new Client()
     const boundary = 'tiltwrightboundary43'
-    const part = (n: number) => Buffer.concat([
-      Buffer.from(`--${boundary}\r\nContent-Disposition: form-data; name="f${n}"; filename="f${n}.pdf"\r\n\r\n`),
-      Buffer.alloc(4_500_000, 2), Buffer.from('\r\n'),
-    ])
+    const part = (n: number) =>
+      Buffer.concat([
+        Buffer.from(
+          `--${boundary}\r\nContent-Disposition: form-data; name="f${n}"; `
+          + `filename="f${n}.pdf"\r\n\r\n`,
+        ),
+        Buffer.alloc(4_500_000, 2),
+        Buffer.from('\r\n'),
+      ])
     const body = [part(1), part(2), part(3), Buffer.from(`--${boundary}--\r\n`)]
-    const r = await streamBody('/api/checkout/purchase-order', {
-      ...(await c.authHeaders()), 'content-type': `multipart/form-data; boundary=${boundary}`,
-    }, body, body.reduce((n, b) => n + b.length, 0))
+    const r = await streamBody(
+      '/api/checkout/purchase-order',
+      {
+        ...(await c.authHeaders()),
+        'content-type': `multipart/form-data; boundary=${boundary}`,
+      },
+      body,
+      body.reduce((n, b) => n + b.length, 0),
+    )
     expect(r.status).toBe(413)
     expect(r.body.data.limitBytes).toBe(12_000_000)
   })
 
   it('refuses a declared Content-Length over the limit before reading anything', async () => {
     const c = new Client()
-    const r = await c.request('POST', '/api/auth/login', 'x'.repeat(2_100_000), { headers: { 'content-type': 'application/json' } })
+    const r = await c.request('POST', '/api/auth/login', 'x'.repeat(2_100_000), {
+      headers: { 'content-type': 'application/json' },
+    })
     expect(r.status).toBe(413)
   })
 })
@@ -102,7 +159,9 @@ describe('input hygiene', () => {
   it('refuses control characters in names and single-line fields, field by field', async () => {
     const c = new Client()
     const r = await c.post('/api/auth/register', {
-      name: 'Avery\u0000Lin', email: uniqueEmail('ctl'), password: 'a-long-password-1',
+      name: 'Avery\u0000Lin',
+      email: uniqueEmail('ctl'),
+      password: 'a-long-password-1',
       school: { ...school, name: 'Edge\r\nInjected: yes', city: 'Brink\u0007' },
     })
     expect(r.status).toBe(422)
@@ -113,16 +172,25 @@ describe('input hygiene', () => {
   it('checks country and region codes against their lists', async () => {
     const c = new Client()
     const bad = await c.post('/api/auth/register', {
-      name: 'Reg Ion', email: uniqueEmail('region'), password: 'a-long-password-1', school: { ...school, region: 'XQ', country: 'ZZ' },
+      name: 'Reg Ion',
+      email: uniqueEmail('region'),
+      password: 'a-long-password-1',
+      school: { ...school, region: 'XQ', country: 'ZZ' },
     })
     expect(bad.status).toBe(422)
     expect(bad.body.data.fields['school.country']).toMatch(/ship to US schools/)
     const badRegion = await c.post('/api/auth/register', {
-      name: 'Reg Ion', email: uniqueEmail('region'), password: 'a-long-password-1', school: { ...school, region: 'Narnia' },
+      name: 'Reg Ion',
+      email: uniqueEmail('region'),
+      password: 'a-long-password-1',
+      school: { ...school, region: 'Narnia' },
     })
     expect(badRegion.body.data.fields['school.region']).toMatch(/Choose a US state/)
     const fine = await c.post('/api/auth/register', {
-      name: 'Reg Ion', email: uniqueEmail('region'), password: 'a-long-password-1', school: { ...school, region: 'or', country: 'us' },
+      name: 'Reg Ion',
+      email: uniqueEmail('region'),
+      password: 'a-long-password-1',
+      school: { ...school, region: 'or', country: 'us' },
     })
     expect(fine.status).toBe(201)
   })
@@ -136,8 +204,12 @@ describe('input hygiene', () => {
       expect(r.status, JSON.stringify(quantity)).toBe(422)
       expect(r.body.data.fields['lines.0.quantity']).toMatch(/whole number/)
     }
-    expect((await c.post('/api/cart/price', { lines: [{ productId, quantity: '3' }] })).status).toBe(200)
-    expect((await c.post('/api/cart/price', { lines: [{ productId: '0x1', quantity: 1 }] })).status).toBe(422)
+    expect(
+      (await c.post('/api/cart/price', { lines: [{ productId, quantity: '3' }] })).status,
+    ).toBe(200)
+    expect(
+      (await c.post('/api/cart/price', { lines: [{ productId: '0x1', quantity: 1 }] })).status,
+    ).toBe(422)
   })
 
   it('reads ids in paths as plain decimal only', async () => {
@@ -150,34 +222,56 @@ describe('input hygiene', () => {
 })
 
 describe('headers and origins', () => {
-  it('marks authenticated JSON no-store, has a default-src, and a session cookie without Secure over HTTP', async () => {
-    const c = new Client()
-    const login = await c.post('/api/auth/login', { email: 'teacher@tiltwright.test', password: 'tiltwright-demo' })
-    const cookie = login.headers.getSetCookie().find((h) => h.startsWith('nuxt-session='))!
-    expect(cookie).toBeDefined()
-    expect(cookie).not.toMatch(/;\s*secure/i)
-    expect(cookie).toMatch(/httponly/i)
-    const account = await c.get('/api/account')
-    expect(account.headers.get('cache-control')).toBe('no-store')
-    const page = await c.raw('/account')
-    expect(page.headers.get('cache-control')).toBe('no-store')
-    expect(page.headers.get('content-security-policy')).toMatch(/default-src 'self'/)
-  })
+  it(
+    'marks authenticated JSON no-store, has a default-src, and a session cookie '
+    + 'without Secure over HTTP', async () => {
+      const c = new Client()
+      const login = await c.post('/api/auth/login', {
+        email: 'teacher@tiltwright.test',
+        password: 'tiltwright-demo',
+      })
+      const cookie = login.headers.getSetCookie().find(h => h.startsWith('nuxt-session='))!
+      expect(cookie).toBeDefined()
+      expect(cookie).not.toMatch(/;\s*secure/i)
+      expect(cookie).toMatch(/httponly/i)
+      const account = await c.get('/api/account')
+      expect(account.headers.get('cache-control')).toBe('no-store')
+      const page = await c.raw('/account')
+      expect(page.headers.get('cache-control')).toBe('no-store')
+      expect(page.headers.get('content-security-policy')).toMatch(/default-src 'self'/)
+    })
 
-  it('refuses a state-changing request from another origin even with a valid CSRF token', async () => {
-    const c = new Client()
-    const evil = await c.post('/api/auth/login', { email: 'teacher@tiltwright.test', password: 'tiltwright-demo' }, { headers: { origin: 'https://evil.example' } })
-    expect(evil.status).toBe(403)
-    expect(evil.body.data.code).toBe('bad-origin')
-    const refererOnly = await c.post('/api/auth/login', { email: 'teacher@tiltwright.test', password: 'tiltwright-demo' }, { headers: { referer: 'https://evil.example/x' } })
-    expect(refererOnly.status).toBe(403)
-    const own = await c.post('/api/auth/login', { email: 'teacher@tiltwright.test', password: 'tiltwright-demo' }, { headers: { origin: inject('baseUrl') } })
-    expect(own.status).toBe(200)
-  })
+  it(
+    'refuses a state-changing request from another origin even with a valid CSRF '
+    + 'token', async () => {
+      const c = new Client()
+      const evil = await c.post(
+        '/api/auth/login',
+        { email: 'teacher@tiltwright.test', password: 'tiltwright-demo' },
+        { headers: { origin: 'https://evil.example' } },
+      )
+      expect(evil.status).toBe(403)
+      expect(evil.body.data.code).toBe('bad-origin')
+      const refererOnly = await c.post(
+        '/api/auth/login',
+        { email: 'teacher@tiltwright.test', password: 'tiltwright-demo' },
+        { headers: { referer: 'https://evil.example/x' } },
+      )
+      expect(refererOnly.status).toBe(403)
+      const own = await c.post(
+        '/api/auth/login',
+        { email: 'teacher@tiltwright.test', password: 'tiltwright-demo' },
+        { headers: { origin: inject('baseUrl') } },
+      )
+      expect(own.status).toBe(200)
+    })
 
   it('keeps the webhook and the fake provider reachable without a browser origin', async () => {
     const c = new Client()
-    const hook = await c.post('/api/webhooks/payments', '{}', { csrf: false, headers: { origin: 'https://payments.example', 'content-type': 'application/json' } })
+    const hook = await c.post('/api/webhooks/payments', '{}', {
+      csrf: false,
+      headers: { 'origin': 'https://payments.example', 'content-type': 'application/json' },
+    })
     expect(hook.status).not.toBe(403)
     expect(hook.body?.data?.code).not.toBe('bad-origin')
   })
@@ -191,11 +285,16 @@ describe('role words', () => {
     expect(mine.every((p: any) => p.priceTiers.length === 0)).toBe(true)
     const slug = mine[0].slug
     expect((await builder.get(`/api/products/${slug}`)).body.priceTiers).toEqual([])
-    expect((await builder.post('/api/cart/price', { lines: [{ productId: mine[0].id, quantity: 1 }] })).status).toBe(403)
+    expect(
+      (await builder.post('/api/cart/price', { lines: [{ productId: mine[0].id, quantity: 1 }] }))
+        .status,
+    ).toBe(403)
     const html = await builder.page(`/kits/${slug}`)
     expect(html).toContain('data-testid="no-prices"')
     expect(html).not.toMatch(/\$\d/)
-    expect((await new Client().get('/api/products')).body.data[0].priceTiers.length).toBeGreaterThan(0)
+    expect(
+      (await new Client().get('/api/products')).body.data[0].priceTiers.length,
+    ).toBeGreaterThan(0)
   })
 
   it('tells support on their desk what they can do today, without the caught mail', async () => {
@@ -208,12 +307,25 @@ describe('role words', () => {
 describe('tuning sheets keep their notes', () => {
   it('renames a sheet without losing its note; null clears it on purpose', async () => {
     const rig = KIT_PRESETS[0]!.rig
-    const inputs = { rig, targets: DEFAULT_TARGETS, gains: { ...planGains(rig, DEFAULT_TARGETS).gains! } }
+    const inputs = {
+      rig,
+      targets: DEFAULT_TARGETS,
+      gains: { ...planGains(rig, DEFAULT_TARGETS).gains! },
+    }
     const builder = await as('builder')
-    const { id } = (await builder.post('/api/sheets', { title: 'Bench 5', note: 'Settles in 2 s.\nSlight buzz.', inputs })).body
+    const { id } = (
+      await builder.post('/api/sheets', {
+        title: 'Bench 5',
+        note: 'Settles in 2 s.\nSlight buzz.',
+        inputs,
+      })
+    ).body
     const renamed = await builder.patch(`/api/sheets/${id}`, { title: 'Bench 5, final' })
     expect(renamed.status).toBe(200)
-    expect(renamed.body).toMatchObject({ title: 'Bench 5, final', note: 'Settles in 2 s.\nSlight buzz.' })
+    expect(renamed.body).toMatchObject({
+      title: 'Bench 5, final',
+      note: 'Settles in 2 s.\nSlight buzz.',
+    })
     expect((await builder.get(`/api/sheets/${id}`)).body.note).toBe('Settles in 2 s.\nSlight buzz.')
     expect((await builder.patch(`/api/sheets/${id}`, { title: 'Bench\u00005' })).status).toBe(422)
     expect((await builder.patch(`/api/sheets/${id}`, { note: null })).body.note).toBeNull()

@@ -13,21 +13,34 @@ async function as(role: string) {
 describe('role checks', () => {
   it('answers 401 to anonymous calls on protected routes', async () => {
     const c = new Client()
-    for (const path of ['/api/account', '/api/admin/staff', '/api/staff/mail']) expect((await c.get(path)).status).toBe(401)
-    expect((await c.post('/api/admin/staff', { name: 'X', email: 'x@y.test', role: 'support' })).status).toBe(401)
+    for (const path of ['/api/account', '/api/admin/staff', '/api/staff/mail'])
+      expect((await c.get(path)).status).toBe(401)
+    expect(
+      (await c.post('/api/admin/staff', { name: 'X', email: 'x@y.test', role: 'support' })).status,
+    ).toBe(401)
   })
 
   it('lets only admins list and add staff', async () => {
     for (const role of ['teacher', 'builder', 'support']) {
       const c = await as(role)
       expect((await c.get('/api/admin/staff')).status).toBe(403)
-      expect((await c.post('/api/admin/staff', { name: 'Sneaky', email: uniqueEmail('sneak'), role: 'admin' })).status).toBe(403)
+      expect(
+        (
+          await c.post('/api/admin/staff', {
+            name: 'Sneaky',
+            email: uniqueEmail('sneak'),
+            role: 'admin',
+          })
+        ).status,
+      ).toBe(403)
     }
     const admin = await as('admin')
     const list = await admin.get('/api/admin/staff?sort=email&dir=desc')
     expect(list.status).toBe(200)
     expect(list.body.meta.total).toBeGreaterThanOrEqual(2)
-    expect(list.body.data.map((u: any) => u.role).every((r: string) => r === 'support' || r === 'admin')).toBe(true)
+    expect(
+      list.body.data.map((u: any) => u.role).every((r: string) => r === 'support' || r === 'admin'),
+    ).toBe(true)
     const emails = list.body.data.map((u: any) => u.email)
     expect(emails).toEqual([...emails].sort().reverse())
   })
@@ -43,7 +56,11 @@ describe('role checks', () => {
   it('adds a support colleague who receives a link to choose a password', async () => {
     const admin = await as('admin')
     const email = uniqueEmail('colleague')
-    const r = await admin.post('/api/admin/staff', { name: 'New Colleague', email, role: 'support' })
+    const r = await admin.post('/api/admin/staff', {
+      name: 'New Colleague',
+      email,
+      role: 'support',
+    })
     expect(r.status).toBe(201)
     expect(typeof r.body.id).toBe('number')
     const invite = await waitForMail(email, /staff account/)
@@ -60,8 +77,18 @@ describe('role checks', () => {
     // Support staff could otherwise read any customer's reset link and take the account over.
     expect((await (await as('support')).get('/api/staff/mail')).status).toBe(403)
     const email = uniqueEmail('masked')
-    await new Client().post('/api/auth/register', { name: 'Masked Mo', email, password: 'a-long-password-1',
-      school: { name: 'Mask School', addressLine1: '1 Way', city: 'Town', region: 'OR', postalCode: '97000' } })
+    await new Client().post('/api/auth/register', {
+      name: 'Masked Mo',
+      email,
+      password: 'a-long-password-1',
+      school: {
+        name: 'Mask School',
+        addressLine1: '1 Way',
+        city: 'Town',
+        region: 'OR',
+        postalCode: '97000',
+      },
+    })
     await new Client().post('/api/auth/forgot-password', { email })
     await waitForMail(email, /Reset your Tiltwright password/)
     const r = await (await as('admin')).get('/api/staff/mail')

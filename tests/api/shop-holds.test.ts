@@ -1,7 +1,6 @@
 // A card order that is never paid gives its stock back: past the 48-hour hold the sweep
 // cancels it, releases its units and tells the teacher. A recent one is left alone.
-import { describe, expect, it } from 'vitest'
-import { inject } from 'vitest'
+import { describe, expect, inject, it } from 'vitest'
 import mysql from 'mysql2/promise'
 import { newTeacher, productWithStock, signedIn, waitForOrder } from '../helpers/shop'
 import { waitForMail } from '../helpers/mail'
@@ -9,30 +8,45 @@ import { waitForMail } from '../helpers/mail'
 async function backdate(orderId: number, hours: number) {
   const conn = await mysql.createConnection({ uri: inject('dbUrl') })
   try {
-    await conn.query('UPDATE orders SET created_at = NOW(3) - INTERVAL ? HOUR WHERE id = ?', [hours, orderId])
+    await conn.query('UPDATE orders SET created_at = NOW(3) - INTERVAL ? HOUR WHERE id = ?', [
+      hours,
+      orderId,
+    ])
   } finally {
     await conn.end()
   }
 }
 
 describe('card holds', () => {
-  it('cancels an unpaid card order past its hold and releases its stock, but not a recent one', async () => {
-    const admin = await signedIn('admin@tiltwright.test')
-    const { productId, batchId } = await productWithStock(admin, 5)
-    const t = await newTeacher('hold')
-    const stale = await t.client.post('/api/checkout/card', { lines: [{ productId, quantity: 2 }] })
-    const fresh = await t.client.post('/api/checkout/card', { lines: [{ productId, quantity: 1 }] })
-    expect([stale.status, fresh.status]).toEqual([201, 201])
-    const left = async () => (await admin.get('/api/admin/batches')).body.data.find((b: any) => b.id === batchId).left
-    expect(await left()).toBe(2)
+  it(
+    'cancels an unpaid card order past its hold and releases its stock, but not a '
+    + 'recent one', async () => {
+      const admin = await signedIn('admin@tiltwright.test')
+      const { productId, batchId } = await productWithStock(admin, 5)
+      const t = await newTeacher('hold')
+      const card = (quantity: number) =>
+        t.client.post('/api/checkout/card', { lines: [{ productId, quantity }] })
+      const stale = await card(2)
+      const fresh = await card(1)
+      expect([stale.status, fresh.status]).toEqual([201, 201])
+      const left = async () =>
+        (await admin.get('/api/admin/batches')).body.data.find((b: any) => b.id === batchId).left
+      expect(await left()).toBe(2)
 
-    await backdate(stale.body.orderId, 49)
-    const cancelled = await waitForOrder(t.client, stale.body.orderId, (o) => o.status === 'cancelled', 15_000)
-    expect(cancelled.events.at(-1).message).toMatch(/not completed within 48 hours.*released/)
-    expect(await left()).toBe(4)
-    await waitForMail(t.email, new RegExp(`Order ${cancelled.number} cancelled`))
+      await backdate(stale.body.orderId, 49)
+      const cancelled = await waitForOrder(
+        t.client,
+        stale.body.orderId,
+        o => o.status === 'cancelled',
+        15_000,
+      )
+      expect(cancelled.events.at(-1).message).toMatch(/not completed within 48 hours.*released/)
+      expect(await left()).toBe(4)
+      await waitForMail(t.email, new RegExp(`Order ${cancelled.number} cancelled`))
 
-    await new Promise((r) => setTimeout(r, 2500))
-    expect((await t.client.get(`/api/orders/${fresh.body.orderId}`)).body.status).toBe('awaiting payment')
-  })
+      await new Promise(r => setTimeout(r, 2500))
+      expect((await t.client.get(`/api/orders/${fresh.body.orderId}`)).body.status).toBe(
+        'awaiting payment',
+      )
+    })
 })

@@ -7,7 +7,10 @@ import { attachmentBytes, newTeacher, pdfText, productWithStock, signedIn } from
 describe('quotes', () => {
   it('issues a quote with a checked PDF and converts it once at the quoted prices', async () => {
     const admin = await signedIn('admin@tiltwright.test')
-    const { productId, slug } = await productWithStock(admin, 50, [{ minQuantity: 1, unitPriceCents: 3000 }, { minQuantity: 12, unitPriceCents: 2450 }])
+    const { productId, slug } = await productWithStock(admin, 50, [
+      { minQuantity: 1, unitPriceCents: 3000 },
+      { minQuantity: 12, unitPriceCents: 2450 },
+    ])
     const t = await newTeacher('quote')
     const q = await t.client.post('/api/quotes', { lines: [{ productId, quantity: 12 }] })
     expect(q.status).toBe(201)
@@ -15,8 +18,9 @@ describe('quotes', () => {
     const days = (new Date(q.body.validUntil).getTime() - Date.now()) / 86_400_000
     expect(days).toBeGreaterThan(29.9)
     expect(days).toBeLessThanOrEqual(30)
-    // 12 × $24.50 = $294.00; 1.2 kg → $9.00 + 3 × $1.40 = $13.20; tax 7.25 % of $294.00 = $21.32 (half up from
-    // 21.315): newTeacher's school is in California, 7.25 % in shared/data/us-sales-tax.ts.
+    // 12 × $24.50 = $294.00; 1.2 kg → $9.00 + 3 × $1.40 = $13.20; tax 7.25 % of $294.00 = $21.32
+    // (half up from 21.315): newTeacher's school is in California, 7.25 % in
+    // shared/data/us-sales-tax.ts.
     expect(q.body.totalCents).toBe(29_400 + 1320 + 2132)
 
     const res = await t.client.raw(`/api/quotes/${q.body.id}/pdf`)
@@ -26,15 +30,34 @@ describe('quotes', () => {
     expect(Buffer.from(bytes.slice(0, 5)).toString()).toBe('%PDF-')
     expect(Buffer.from(bytes).toString('latin1')).toMatch(/\/FontName \/[A-Z]{6}\+Nunito/)
     const text = await pdfText(bytes)
-    for (const s of [q.body.number, 'QUOTE FOR', 'quote Academy', `Test part ${slug}`, 'Price for 12+', '$24.50', '$294.00', '$13.20', '$21.32', '$328.52', 'Valid until', 'net 30',
-      'Sales tax (CA 7.25%, estimated)', 'local (county and city) add-on rates are not included']) expect(text).toContain(s)
+    for (const s of [
+      q.body.number,
+      'QUOTE FOR',
+      'quote Academy',
+      `Test part ${slug}`,
+      'Price for 12+',
+      '$24.50',
+      '$294.00',
+      '$13.20',
+      '$21.32',
+      '$328.52',
+      'Valid until',
+      'net 30',
+      'Sales tax (CA 7.25%, estimated)',
+      'local (county and city) add-on rates are not included',
+    ])
+      expect(text).toContain(s)
 
     const mail = await waitForMail(t.email, new RegExp(`quote ${q.body.number}`))
-    expect(mail.attachments).toMatchObject([{ filename: `Tiltwright-quote-${q.body.number}.pdf`, contentType: 'application/pdf' }])
+    expect(mail.attachments).toMatchObject([
+      { filename: `Tiltwright-quote-${q.body.number}.pdf`, contentType: 'application/pdf' },
+    ])
     expect(await pdfText(await attachmentBytes(mail.id))).toContain(q.body.number)
 
     // The catalog price rises; the quote still converts at its own prices.
-    const up = await admin.patch(`/api/admin/products/${productId}`, { tiers: [{ minQuantity: 1, unitPriceCents: 4000 }] })
+    const up = await admin.patch(`/api/admin/products/${productId}`, {
+      tiers: [{ minQuantity: 1, unitPriceCents: 4000 }],
+    })
     expect(up.status).toBe(200)
     const order = await t.client.post('/api/checkout/card', { quoteId: q.body.id })
     expect(order.status).toBe(201)
@@ -52,10 +75,15 @@ describe('quotes', () => {
     const t = await newTeacher('badquote')
     const r = await t.client.post('/api/quotes', { lines: [{ productId: 'x', quantity: 1.5 }] })
     expect(r.status).toBe(422)
-    expect(r.body.data.fields).toMatchObject({ 'lines.0.productId': 'Choose a product.', 'lines.0.quantity': 'Use a whole number.' })
+    expect(r.body.data.fields).toMatchObject({
+      'lines.0.productId': 'Choose a product.',
+      'lines.0.quantity': 'Use a whole number.',
+    })
     const empty = await t.client.post('/api/quotes', { lines: [] })
     expect(empty.body.data.fields.lines).toBe('The cart is empty.')
-    const gone = await t.client.post('/api/quotes', { lines: [{ productId: 999_999, quantity: 1 }] })
+    const gone = await t.client.post('/api/quotes', {
+      lines: [{ productId: 999_999, quantity: 1 }],
+    })
     expect(gone.status).toBe(422)
     expect(gone.body.data.fields['lines.0.productId']).toMatch(/no longer sold/)
   })

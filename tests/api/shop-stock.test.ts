@@ -3,30 +3,45 @@ import { describe, expect, it } from 'vitest'
 import { newTeacher, poForm, productWithStock, signedIn } from '../helpers/shop'
 
 describe('stock under concurrent checkouts', () => {
-  it('sells the last 3 units to exactly 3 of 16 simultaneous buyers and refuses the rest with 409', async () => {
-    const admin = await signedIn('admin@tiltwright.test')
-    const { productId, batchId } = await productWithStock(admin, 3)
-    const buyers = await Promise.all(Array.from({ length: 4 }, (_, i) => newTeacher(`race${i}`)))
-    for (const b of buyers) await b.client.page('/')
-    const attempts = buyers.flatMap((b, i) => Array.from({ length: 4 }, (_, j) => (i + j) % 2
-      ? b.client.post('/api/checkout/card', { lines: [{ productId, quantity: 1 }] })
-      : b.client.post('/api/checkout/purchase-order', poForm({ lines: [{ productId, quantity: 1 }] }))))
-    const results = await Promise.all(attempts)
-    const statuses = results.map((r) => r.status).sort()
-    expect(statuses.filter((s) => s === 201)).toHaveLength(3)
-    expect(statuses.filter((s) => s === 409)).toHaveLength(13)
-    for (const r of results.filter((x) => x.status === 409)) {
-      expect(r.body.data.code).toBe('out-of-stock')
-      expect(r.body.data.fields['lines.0.quantity']).toMatch(/out of stock|Only \d+/)
-    }
-    const batch = (await admin.get('/api/admin/batches')).body.data.find((b: any) => b.id === batchId)
-    expect(batch).toMatchObject({ quantityBuilt: 3, reserved: 3, left: 0 })
-  })
+  it(
+    'sells the last 3 units to exactly 3 of 16 simultaneous buyers and refuses '
+    + 'the rest with 409', async () => {
+      const admin = await signedIn('admin@tiltwright.test')
+      const { productId, batchId } = await productWithStock(admin, 3)
+      const buyers = await Promise.all(Array.from({ length: 4 }, (_, i) => newTeacher(`race${i}`)))
+      for (const b of buyers) await b.client.page('/')
+      const attempts = buyers.flatMap((b, i) =>
+        Array.from({ length: 4 }, (_, j) =>
+          (i + j) % 2
+            ? b.client.post('/api/checkout/card', { lines: [{ productId, quantity: 1 }] })
+            : b.client.post(
+                '/api/checkout/purchase-order',
+                poForm({ lines: [{ productId, quantity: 1 }] }),
+              ),
+        ),
+      )
+      const results = await Promise.all(attempts)
+      const statuses = results.map(r => r.status).sort()
+      expect(statuses.filter(s => s === 201)).toHaveLength(3)
+      expect(statuses.filter(s => s === 409)).toHaveLength(13)
+      for (const r of results.filter(x => x.status === 409)) {
+        expect(r.body.data.code).toBe('out-of-stock')
+        expect(r.body.data.fields['lines.0.quantity']).toMatch(/out of stock|Only \d+/)
+      }
+      const batch = (await admin.get('/api/admin/batches')).body.data.find(
+        (b: any) => b.id === batchId,
+      )
+      expect(batch).toMatchObject({ quantityBuilt: 3, reserved: 3, left: 0 })
+    })
 
   it('takes a large order across two batches, oldest first, and never below zero', async () => {
     const admin = await signedIn('admin@tiltwright.test')
     const { productId, batchId } = await productWithStock(admin, 4)
-    const second = await admin.post('/api/admin/batches', { productId, code: `T2-${Date.now().toString(36)}`, quantity: 5 })
+    const second = await admin.post('/api/admin/batches', {
+      productId,
+      code: `T2-${Date.now().toString(36)}`,
+      quantity: 5,
+    })
     const t = await newTeacher('split')
     const [a, b] = await Promise.all([
       t.client.post('/api/checkout/card', { lines: [{ productId, quantity: 7 }] }),

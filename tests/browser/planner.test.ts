@@ -2,11 +2,21 @@
 // plots change at once; phone-sized without sideways scrolling; no serious a11y findings.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
-import { accessibilityViolations, gotoReady, launch, signInThroughPage, url } from '../helpers/browser'
+import {
+  accessibilityViolations,
+  gotoReady,
+  launch,
+  signInThroughPage,
+  url,
+} from '../helpers/browser'
 
 let browser: Browser
-beforeAll(async () => { browser = await launch() })
-afterAll(async () => { await browser?.close() })
+beforeAll(async () => {
+  browser = await launch()
+})
+afterAll(async () => {
+  await browser?.close()
+})
 
 describe('Gain Planner page', () => {
   it('re-plans and redraws when a measurement changes', async () => {
@@ -16,13 +26,19 @@ describe('Gain Planner page', () => {
     await kp.waitFor()
     const plot = page.getByTestId('response-plot').locator('canvas').first()
     await plot.waitFor()
-    const before = { kp: await kp.textContent(), plot: await plot.screenshot(), map: await page.getByTestId('stability-map').screenshot() }
+    const before = {
+      kp: await kp.textContent(),
+      plot: await plot.screenshot(),
+      map: await page.getByTestId('stability-map').screenshot(),
+    }
 
     await page.getByLabel('Servo horn radius (mm)').fill('15')
     await expect.poll(() => kp.textContent()).not.toBe(before.kp)
     await page.waitForTimeout(300)
     expect(Buffer.compare(await plot.screenshot(), before.plot)).not.toBe(0)
-    expect(Buffer.compare(await page.getByTestId('stability-map').screenshot(), before.map)).not.toBe(0)
+    expect(
+      Buffer.compare(await page.getByTestId('stability-map').screenshot(), before.map),
+    ).not.toBe(0)
     // A shorter horn means a smaller plant gain, so a larger Kp for the same targets.
     expect(parseFloat((await kp.textContent())!)).toBeGreaterThan(parseFloat(before.kp!))
     await page.close()
@@ -33,7 +49,9 @@ describe('Gain Planner page', () => {
     await gotoReady(page, '/planner')
     await page.getByLabel('Rail contact spacing (mm)').fill('25')
     await page.locator('#railGapMm-error').waitFor()
-    expect(await page.locator('#railGapMm-error').textContent()).toMatch(/smaller than the ball diameter/)
+    expect(await page.locator('#railGapMm-error').textContent()).toMatch(
+      /smaller than the ball diameter/,
+    )
     expect(await page.getByLabel('Rail contact spacing (mm)').inputValue()).toBe('25')
     await page.close()
   })
@@ -62,7 +80,9 @@ describe('Gain Planner page', () => {
     await page.getByText('Working from the sheet “Browser bench sheet”').waitFor()
     // Overlay the saved sheet on the plot: its series appears in the plot's legend.
     await page.getByLabel('Overlay a sheet').selectOption({ label: 'Browser bench sheet' })
-    await expect.poll(() => page.getByTestId('response-plot').textContent()).toContain('sheet: Browser bench sheet')
+    await expect
+      .poll(() => page.getByTestId('response-plot').textContent())
+      .toContain('sheet: Browser bench sheet')
     await page.close()
   })
 })

@@ -2,13 +2,23 @@
 // field errors tied to their inputs, and an automated accessibility check.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
-import { accessibilityViolations, gotoReady, launch, signInThroughPage, url } from '../helpers/browser'
+import {
+  accessibilityViolations,
+  gotoReady,
+  launch,
+  signInThroughPage,
+  url,
+} from '../helpers/browser'
 
 let browser: Browser
-beforeAll(async () => { browser = await launch() })
-afterAll(async () => { await browser?.close() })
+beforeAll(async () => {
+  browser = await launch()
+})
+afterAll(async () => {
+  await browser?.close()
+})
 
-const navFor: Record<string, { has: string[]; lacks: string[] }> = {
+const navFor: Record<string, { has: string[], lacks: string[] }> = {
   teacher: { has: ['Gain Planner'], lacks: ['Staff desk', 'Staff accounts'] },
   builder: { has: ['Gain Planner'], lacks: ['Staff desk', 'Staff accounts'] },
   support: { has: ['Staff desk'], lacks: ['Staff accounts'] },
@@ -22,9 +32,13 @@ describe('signing in through the page', () => {
       const page = await context.newPage()
       await signInThroughPage(page, `${role}@tiltwright.test`)
       const main = page.getByRole('navigation', { name: 'Main' })
-      await expect(main.getByTestId('account-link').textContent()).resolves.toMatch(new RegExp(role, 'i'))
-      for (const label of nav.has) expect(await main.getByRole('link', { name: label, exact: true }).count()).toBe(1)
-      for (const label of nav.lacks) expect(await main.getByRole('link', { name: label, exact: true }).count()).toBe(0)
+      await expect(main.getByTestId('account-link').textContent()).resolves.toMatch(
+        new RegExp(role, 'i'),
+      )
+      for (const label of nav.has)
+        expect(await main.getByRole('link', { name: label, exact: true }).count()).toBe(1)
+      for (const label of nav.lacks)
+        expect(await main.getByRole('link', { name: label, exact: true }).count()).toBe(0)
       await context.close()
     })
   }
@@ -36,22 +50,24 @@ describe('signing in through the page', () => {
     await page.getByRole('button', { name: 'Sign out' }).click()
     await page.getByRole('link', { name: 'Sign in' }).waitFor()
     expect(await page.getByTestId('account-link').count()).toBe(0)
-    const session = await page.evaluate(() => fetch('/api/_auth/session').then((r) => r.json()))
+    const session = await page.evaluate(() => fetch('/api/_auth/session').then(r => r.json()))
     expect(session.user).toBeUndefined()
     await page.goto(url('/account'))
     await page.waitForURL(/\/login/)
     await context.close()
   })
 
-  it('shows Tiltwright\'s own page, with the header, for an address that does not exist', async () => {
-    const page = await browser.newPage()
-    const res = await page.goto(url('/no-such-page'))
-    expect(res?.status()).toBe(404)
-    await page.getByRole('heading', { name: 'There is nothing here' }).waitFor()
-    expect(await page.getByRole('navigation', { name: 'Main' }).count()).toBe(1)
-    expect(await page.title()).toBe('Not found — Tiltwright')
-    await page.close()
-  })
+  it(
+    'shows Tiltwright\'s own page, with the header, for an address that does not '
+    + 'exist', async () => {
+      const page = await browser.newPage()
+      const res = await page.goto(url('/no-such-page'))
+      expect(res?.status()).toBe(404)
+      await page.getByRole('heading', { name: 'There is nothing here' }).waitFor()
+      expect(await page.getByRole('navigation', { name: 'Main' }).count()).toBe(1)
+      expect(await page.title()).toBe('Not found — Tiltwright')
+      await page.close()
+    })
 
   it('keeps what was typed and ties the error to the field on a wrong password', async () => {
     const page = await browser.newPage()
@@ -62,7 +78,9 @@ describe('signing in through the page', () => {
     const error = page.locator('#password-error')
     await error.waitFor()
     expect(await error.textContent()).toMatch(/do not match/)
-    expect(await page.getByLabel('Password').getAttribute('aria-describedby')).toContain('password-error')
+    expect(await page.getByLabel('Password').getAttribute('aria-describedby')).toContain(
+      'password-error',
+    )
     expect(await page.getByLabel('E-mail').inputValue()).toBe('teacher@tiltwright.test')
     await page.close()
   })
@@ -86,7 +104,7 @@ describe('signing in through the page', () => {
     await page.keyboard.type('tiltwright-demo')
     await page.keyboard.press('Enter')
     // Staff land on their desk after signing in.
-    await page.waitForURL((u) => u.pathname === '/staff')
+    await page.waitForURL(u => u.pathname === '/staff')
     expect(await page.getByTestId('account-link').textContent()).toMatch(/admin/i)
     await page.close()
   })
@@ -108,7 +126,10 @@ describe('accessibility (axe-core, WCAG 2.1 A/AA, serious and critical)', () => 
     for (const path of ['/account', '/staff', '/admin/staff']) {
       await page.goto(url(path))
       await page.locator('h1').first().waitFor()
-      expect({ path, violations: await accessibilityViolations(page) }).toEqual({ path, violations: [] })
+      expect({ path, violations: await accessibilityViolations(page) }).toEqual({
+        path,
+        violations: [],
+      })
     }
     await page.close()
   })

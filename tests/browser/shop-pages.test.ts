@@ -5,24 +5,37 @@ import { mkdirSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
-import { gotoReady, launch, signInThroughPage, url } from '../helpers/browser'
+import { gotoReady, launch, signInThroughPage } from '../helpers/browser'
 
 const shots = resolve(import.meta.dirname, '../.artifacts/shop')
 mkdirSync(shots, { recursive: true })
 let browser: Browser
-beforeAll(async () => { browser = await launch() })
-afterAll(async () => { await browser?.close() })
+beforeAll(async () => {
+  browser = await launch()
+})
+afterAll(async () => {
+  await browser?.close()
+})
 const phone = { width: 390, height: 844 }
 
 /** Opens a page on a phone as `email`: the page must not scroll sideways, and `last` (its
  *  right-most control or heading) must be on screen. */
-async function fitsPhone(email: string, path: string, last: (page: Page) => ReturnType<Page['getByRole']>, shotName: string) {
+async function fitsPhone(
+  email: string,
+  path: string,
+  last: (page: Page) => ReturnType<Page['getByRole']>,
+  shotName: string,
+) {
   const ctx = await browser.newContext({ viewport: phone })
   const page = await ctx.newPage()
   await signInThroughPage(page, email)
   await gotoReady(page, path)
   await page.locator('h1').waitFor()
-  expect(await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth)).toBe(0)
+  expect(
+    await page.evaluate(
+      () => document.documentElement.scrollWidth - document.documentElement.clientWidth,
+    ),
+  ).toBe(0)
   const box = (await last(page).boundingBox())!
   expect(box.x + box.width).toBeLessThanOrEqual(phone.width)
   await page.screenshot({ path: resolve(shots, `${shotName}.png`), fullPage: true })
@@ -37,7 +50,13 @@ describe('the admin catalog form', () => {
     await page.getByRole('button', { name: 'Add a product' }).click()
     await page.getByRole('button', { name: 'Save' }).click()
     const form = page.locator('form')
-    for (const text of ['Enter the name.', 'Enter a slug.', 'Enter a one-line summary.', 'Enter a price like 24.50.']) await form.getByText(text).waitFor()
+    for (const text of [
+      'Enter the name.',
+      'Enter a slug.',
+      'Enter a one-line summary.',
+      'Enter a price like 24.50.',
+    ])
+      await form.getByText(text).waitFor()
     await page.getByLabel('Each ($)').fill('24.50')
     await expect.poll(() => form.getByText('Enter a price like 24.50.').count()).toBe(0)
     await page.getByLabel('Name').fill('QA Spare Bracket')
@@ -56,7 +75,9 @@ describe('the admin catalog form', () => {
     await table.getByText('1–5').waitFor()
     await table.getByText('6+').waitFor()
     await table.getByText('$22.00').waitFor()
-    const sent = page.waitForRequest((r) => r.url().endsWith('/api/admin/products') && r.method() === 'POST')
+    const sent = page.waitForRequest(
+      r => r.url().endsWith('/api/admin/products') && r.method() === 'POST',
+    )
     await page.getByRole('button', { name: 'Publish these prices' }).click()
     await sent
     await page.getByText('QA Spare Bracket saved.').waitFor()
@@ -64,51 +85,60 @@ describe('the admin catalog form', () => {
   })
 
   it('fits a phone without sideways scrolling', async () => {
-    await fitsPhone('admin@tiltwright.test', '/admin/catalog', (page) => page.getByRole('button', { name: 'Edit Classroom Rig Kit' }), 'admin-catalog-phone')
+    await fitsPhone(
+      'admin@tiltwright.test',
+      '/admin/catalog',
+      page => page.getByRole('button', { name: 'Edit Classroom Rig Kit' }),
+      'admin-catalog-phone',
+    )
   })
 })
 
 describe('the cart', () => {
-  it('keeps what the teacher typed, says what is wrong and blocks ordering until it is fixed', async () => {
-    const page = await browser.newPage()
-    await signInThroughPage(page, 'teacher@tiltwright.test')
-    await gotoReady(page, '/kits/steel-balls')
-    await page.getByLabel('How many?').fill('2')
-    await page.getByRole('button', { name: 'Add to cart' }).click()
-    await gotoReady(page, '/cart')
-    await page.getByTestId('total').waitFor()
-    const qty = page.getByLabel(/^Quantity of /)
-    const pay = page.getByRole('button', { name: 'Pay by card' })
-    for (const typed of ['0', '-2', '99999']) {
-      await qty.fill(typed)
+  it(
+    'keeps what the teacher typed, says what is wrong and blocks ordering until '
+    + 'it is fixed', async () => {
+      const page = await browser.newPage()
+      await signInThroughPage(page, 'teacher@tiltwright.test')
+      await gotoReady(page, '/kits/steel-balls')
+      await page.getByLabel('How many?').fill('2')
+      await page.getByRole('button', { name: 'Add to cart' }).click()
+      await gotoReady(page, '/cart')
+      await page.getByTestId('total').waitFor()
+      const qty = page.getByLabel(/^Quantity of /)
+      const pay = page.getByRole('button', { name: 'Pay by card' })
+      for (const typed of ['0', '-2', '99999']) {
+        await qty.fill(typed)
+        await qty.blur()
+        await page.getByText(/The quantity must be a whole number from 1 to 500\./).waitFor()
+        expect(await qty.inputValue()).toBe(typed)
+        expect(await pay.isDisabled()).toBe(true)
+        expect(
+          await page.getByRole('button', { name: 'Save as a formal quote (PDF)' }).isDisabled(),
+        ).toBe(true)
+      }
+      await qty.fill('500')
       await qty.blur()
-      await page.getByText(/The quantity must be a whole number from 1 to 500\./).waitFor()
-      expect(await qty.inputValue()).toBe(typed)
+      await page.getByText(/^Only \d+ left in stock: lower the quantity/).waitFor()
       expect(await pay.isDisabled()).toBe(true)
-      expect(await page.getByRole('button', { name: 'Save as a formal quote (PDF)' }).isDisabled()).toBe(true)
-    }
-    await qty.fill('500')
-    await qty.blur()
-    await page.getByText(/^Only \d+ left in stock: lower the quantity/).waitFor()
-    expect(await pay.isDisabled()).toBe(true)
-    await page.screenshot({ path: resolve(shots, 'cart-over-stock.png'), fullPage: true })
-    await qty.fill('3')
-    await qty.blur()
-    await expect.poll(() => pay.isDisabled()).toBe(false)
+      await page.screenshot({ path: resolve(shots, 'cart-over-stock.png'), fullPage: true })
+      await qty.fill('3')
+      await qty.blur()
+      await expect.poll(() => pay.isDisabled()).toBe(false)
 
-    // Checkout shows the lines and where they ship before the teacher commits.
-    await page.getByRole('link', { name: 'Pay by purchase order' }).click()
-    const lines = page.getByRole('table', { name: 'What you are ordering' })
-    await lines.getByText('Steel Ball Set').waitFor()
-    // One tier wording everywhere: the kit page's range, not "tier 1+".
-    await lines.getByText('price for 1–9').waitFor()
-    expect(await lines.getByRole('cell', { name: '3', exact: true }).count()).toBe(1)
-    expect((await page.getByTestId('ship-to').textContent())!.trim().length).toBeGreaterThan(10)
-    await page.screenshot({ path: resolve(shots, 'checkout-lines-desktop.png'), fullPage: true })
-    await gotoReady(page, '/cart')
-    await page.getByRole('button', { name: /^Remove / }).click()
-    await page.close()
-  })
+      // Checkout shows the lines and where they ship before the teacher commits.
+      await page.getByRole('link', { name: 'Pay by purchase order' }).click()
+      const lines = page.getByRole('table', { name: 'What you are ordering' })
+      await lines.getByText('Steel Ball Set').waitFor()
+      // One tier wording everywhere: the kit page's range, not "tier 1+".
+      await lines.getByText('price for 1–9').waitFor()
+      expect(await lines.getByRole('cell', { name: '3', exact: true }).count()).toBe(1)
+      expect((await page.getByTestId('ship-to').textContent())!.trim().length).toBeGreaterThan(10)
+      await page.screenshot({ path: resolve(shots, 'checkout-lines-desktop.png'), fullPage: true })
+      await gotoReady(page, '/cart')
+      await page.getByRole('button', { name: /^Remove / }).click()
+      await page.close()
+    })
 })
 
 describe('the admin orders table', () => {
@@ -118,7 +148,9 @@ describe('the admin orders table', () => {
     await gotoReady(page, '/admin/orders')
     await page.getByLabel('Status').selectOption('cancelled')
     await page.getByLabel('Search order, school or PO number').fill('TW')
-    await page.waitForURL((u) => u.searchParams.get('status') === 'cancelled' && u.searchParams.get('q') === 'TW')
+    await page.waitForURL(
+      u => u.searchParams.get('status') === 'cancelled' && u.searchParams.get('q') === 'TW',
+    )
     await page.reload()
     expect(await page.getByLabel('Status').inputValue()).toBe('cancelled')
     expect(await page.getByLabel('Search order, school or PO number').inputValue()).toBe('TW')
@@ -127,40 +159,49 @@ describe('the admin orders table', () => {
     await page.close()
   })
 
-  it('shows each order\'s number, status and total on a phone without scrolling the table', async () => {
-    const page = await browser.newPage({ viewport: { width: 390, height: 844 } })
-    await signInThroughPage(page, 'admin@tiltwright.test')
-    await gotoReady(page, '/admin/orders')
-    for (const name of ['Order', 'Status', 'Total']) {
-      const box = await page.getByRole('columnheader', { name }).boundingBox()
-      expect(box && box.x + box.width, name).toBeLessThanOrEqual(390)
-    }
-    await page.close()
-  })
+  it(
+    'shows each order\'s number, status and total on a phone without scrolling '
+    + 'the table', async () => {
+      const page = await browser.newPage({ viewport: { width: 390, height: 844 } })
+      await signInThroughPage(page, 'admin@tiltwright.test')
+      await gotoReady(page, '/admin/orders')
+      for (const name of ['Order', 'Status', 'Total']) {
+        const box = await page.getByRole('columnheader', { name }).boundingBox()
+        expect(box && box.x + box.width, name).toBeLessThanOrEqual(390)
+      }
+      await page.close()
+    })
 })
 
 describe('pages for the role', () => {
-  it('shows teachers\' shop pages only to teachers, and sends staff to their desk after sign-in', async () => {
-    for (const who of ['support', 'builder'] as const) {
-      const page = await browser.newPage()
-      await signInThroughPage(page, `${who}@tiltwright.test`)
-      if (who === 'support') expect(new URL(page.url()).pathname).toBe('/staff')
-      for (const path of ['/orders', '/quotes', '/cart', '/checkout']) {
-        const reply = await gotoReady(page, path)
-        expect({ who, path, status: reply?.status() }).toEqual({ who, path, status: 404 })
+  it(
+    'shows teachers\' shop pages only to teachers, and sends staff to their desk '
+    + 'after sign-in', async () => {
+      for (const who of ['support', 'builder'] as const) {
+        const page = await browser.newPage()
+        await signInThroughPage(page, `${who}@tiltwright.test`)
+        if (who === 'support') expect(new URL(page.url()).pathname).toBe('/staff')
+        for (const path of ['/orders', '/quotes', '/cart', '/checkout']) {
+          const reply = await gotoReady(page, path)
+          expect({ who, path, status: reply?.status() }).toEqual({ who, path, status: 404 })
+        }
+        await gotoReady(page, '/kits/rig-kit')
+        await page.locator('h1').waitFor()
+        expect(await page.getByRole('button', { name: 'Add to cart' }).count()).toBe(0)
+        await page.close()
       }
-      await gotoReady(page, '/kits/rig-kit')
-      await page.locator('h1').waitFor()
-      expect(await page.getByRole('button', { name: 'Add to cart' }).count()).toBe(0)
+      const page = await browser.newPage()
+      await signInThroughPage(page, 'teacher@tiltwright.test')
+      expect(new URL(page.url()).pathname).toBe('/')
       await page.close()
-    }
-    const page = await browser.newPage()
-    await signInThroughPage(page, 'teacher@tiltwright.test')
-    expect(new URL(page.url()).pathname).toBe('/')
-    await page.close()
-  })
+    })
 
   it('fits the teacher\'s orders on a phone', async () => {
-    await fitsPhone('teacher@tiltwright.test', '/orders', (page) => page.getByRole('columnheader', { name: 'Status' }), 'orders-phone-fit')
+    await fitsPhone(
+      'teacher@tiltwright.test',
+      '/orders',
+      page => page.getByRole('columnheader', { name: 'Status' }),
+      'orders-phone-fit',
+    )
   })
 })

@@ -12,8 +12,12 @@ import { newTeacher, poForm, productWithStock, signedIn } from '../helpers/shop'
 const shots = resolve(import.meta.dirname, '../.artifacts/shop')
 mkdirSync(shots, { recursive: true })
 let browser: Browser
-beforeAll(async () => { browser = await launch() })
-afterAll(async () => { await browser?.close() })
+beforeAll(async () => {
+  browser = await launch()
+})
+afterAll(async () => {
+  await browser?.close()
+})
 const PASSWORD = 'a-long-password-1' // newTeacher's
 
 describe('paperwork in the browser', () => {
@@ -21,8 +25,13 @@ describe('paperwork in the browser', () => {
     const admin = await signedIn('admin@tiltwright.test')
     const { productId, slug } = await productWithStock(admin, 30)
     const t = await newTeacher('wayback')
-    const po = await t.client.post('/api/checkout/purchase-order', poForm({ lines: [{ productId, quantity: 4 }], poNumber: 'UNSIGNED-9' }))
-    await admin.post(`/api/admin/orders/${po.body.orderId}/reject`, { reason: 'The PO is not signed.' })
+    const po = await t.client.post(
+      '/api/checkout/purchase-order',
+      poForm({ lines: [{ productId, quantity: 4 }], poNumber: 'UNSIGNED-9' }),
+    )
+    await admin.post(`/api/admin/orders/${po.body.orderId}/reject`, {
+      reason: 'The PO is not signed.',
+    })
 
     const page = await browser.newPage()
     await signInThroughPage(page, t.email, PASSWORD)
@@ -37,29 +46,42 @@ describe('paperwork in the browser', () => {
     await page.close()
   })
 
-  it('comes back from the payment page to the order with a working "Pay now", and keeps the cart', async () => {
-    const admin = await signedIn('admin@tiltwright.test')
-    const { productId } = await productWithStock(admin, 30)
-    const t = await newTeacher('abandon')
-    const page = await browser.newPage()
-    await signInThroughPage(page, t.email, PASSWORD)
-    await gotoReady(page, '/cart')
-    await page.evaluate((id) => localStorage.setItem('tiltwright-cart-v1', JSON.stringify([{ productId: id, quantity: 2 }])), productId)
-    await gotoReady(page, '/checkout?method=card')
-    await page.getByRole('button', { name: 'Continue to the payment page' }).click()
-    await page.waitForURL(/\/fake-pay\/checkout\//)
-    await page.getByRole('link', { name: 'Cancel and go back' }).click()
-    await page.waitForURL(/\/orders\/\d+\?card=cancelled/)
-    await page.getByText('The card payment was not completed.').waitFor()
-    expect(await page.evaluate(() => localStorage.getItem('tiltwright-cart-v1'))).toContain(String(productId))
-    await page.getByRole('link', { name: 'Pay now' }).click()
-    await page.waitForURL(/\/fake-pay\/checkout\//)
-    await page.getByRole('button', { name: 'Approve this payment' }).click()
-    await page.getByText('Payment received.').waitFor()
-    // Paid: the cart that held exactly these lines has done its work.
-    await expect.poll(() => page.evaluate(() => localStorage.getItem('tiltwright-cart-v1'))).toBe('[]')
-    await page.close()
-  })
+  it(
+    'comes back from the payment page to the order with a working "Pay now", and '
+    + 'keeps the cart', async () => {
+      const admin = await signedIn('admin@tiltwright.test')
+      const { productId } = await productWithStock(admin, 30)
+      const t = await newTeacher('abandon')
+      const page = await browser.newPage()
+      await signInThroughPage(page, t.email, PASSWORD)
+      await gotoReady(page, '/cart')
+      await page.evaluate(
+        id =>
+          localStorage.setItem(
+            'tiltwright-cart-v1',
+            JSON.stringify([{ productId: id, quantity: 2 }]),
+          ),
+        productId,
+      )
+      await gotoReady(page, '/checkout?method=card')
+      await page.getByRole('button', { name: 'Continue to the payment page' }).click()
+      await page.waitForURL(/\/fake-pay\/checkout\//)
+      await page.getByRole('link', { name: 'Cancel and go back' }).click()
+      await page.waitForURL(/\/orders\/\d+\?card=cancelled/)
+      await page.getByText('The card payment was not completed.').waitFor()
+      expect(await page.evaluate(() => localStorage.getItem('tiltwright-cart-v1'))).toContain(
+        String(productId),
+      )
+      await page.getByRole('link', { name: 'Pay now' }).click()
+      await page.waitForURL(/\/fake-pay\/checkout\//)
+      await page.getByRole('button', { name: 'Approve this payment' }).click()
+      await page.getByText('Payment received.').waitFor()
+      // Paid: the cart that held exactly these lines has done its work.
+      await expect
+        .poll(() => page.evaluate(() => localStorage.getItem('tiltwright-cart-v1')))
+        .toBe('[]')
+      await page.close()
+    })
 
   it('lets the teacher correct the school\'s address, field by field', async () => {
     const t = await newTeacher('moving')
@@ -73,7 +95,10 @@ describe('paperwork in the browser', () => {
     await page.getByLabel('State').selectOption('WA')
     await page.getByRole('button', { name: 'Save the school\'s address' }).click()
     await page.getByText('The school\'s address is saved.').waitFor()
-    expect((await t.client.get('/api/account')).body.school).toMatchObject({ region: 'WA', postalCode: '98101' })
+    expect((await t.client.get('/api/account')).body.school).toMatchObject({
+      region: 'WA',
+      postalCode: '98101',
+    })
     await page.screenshot({ path: resolve(shots, 'account-school-address.png'), fullPage: true })
     await page.close()
   })

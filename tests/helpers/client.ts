@@ -2,8 +2,15 @@
 // token the way a page does (from the rendered meta tag), and returns status + JSON.
 import { inject } from 'vitest'
 
-export interface Reply<T = any> { status: number; body: T; headers: Headers }
-export interface RequestOptions { csrf?: boolean; headers?: Record<string, string> }
+export interface Reply<T = any> {
+  status: number
+  body: T
+  headers: Headers
+}
+export interface RequestOptions {
+  csrf?: boolean
+  headers?: Record<string, string>
+}
 
 export class Client {
   readonly baseUrl = inject('baseUrl')
@@ -52,35 +59,69 @@ export class Client {
   /** The cookie and CSRF headers this client would send, for a raw node:http request. */
   async authHeaders(): Promise<Record<string, string>> {
     if (!this.csrf) await this.page('/')
-    return { cookie: this.cookieHeader(), 'csrf-token': this.csrf }
+    return { 'cookie': this.cookieHeader(), 'csrf-token': this.csrf }
   }
 
   cookie(name: string): string | undefined {
     return this.cookies.get(name)
   }
 
-  async request<T = any>(method: string, path: string, body?: unknown, opts: RequestOptions = {}): Promise<Reply<T>> {
+  async request<T = any>(
+    method: string,
+    path: string,
+    body?: unknown,
+    opts: RequestOptions = {},
+  ): Promise<Reply<T>> {
     if (method !== 'GET' && opts.csrf !== false && !this.csrf) await this.page('/')
     const headers: Record<string, string> = { ...opts.headers }
-    if (body !== undefined && !(body instanceof FormData)) headers['content-type'] = 'application/json'
+    if (body !== undefined && !(body instanceof FormData))
+      headers['content-type'] = 'application/json'
     if (method !== 'GET' && opts.csrf !== false) headers['csrf-token'] = this.csrf
-    const res = await this.raw(path, { method, headers, body: body === undefined ? undefined : body instanceof FormData ? body : typeof body === 'string' ? body : JSON.stringify(body) })
+    const res = await this.raw(path, {
+      method,
+      headers,
+      body:
+        body === undefined
+          ? undefined
+          : body instanceof FormData
+            ? body
+            : typeof body === 'string'
+              ? body
+              : JSON.stringify(body),
+    })
     const text = await res.text()
     let parsed: any = text
-    try { parsed = JSON.parse(text) } catch { /* not JSON */ }
+    try {
+      parsed = JSON.parse(text)
+    } catch {
+      /* not JSON */
+    }
     return { status: res.status, body: parsed, headers: res.headers }
   }
 
-  get<T = any>(path: string) { return this.request<T>('GET', path) }
-  post<T = any>(path: string, body?: unknown, opts?: RequestOptions) { return this.request<T>('POST', path, body ?? {}, opts) }
-  delete<T = any>(path: string) { return this.request<T>('DELETE', path) }
-  patch<T = any>(path: string, body?: unknown) { return this.request<T>('PATCH', path, body ?? {}) }
+  get<T = any>(path: string) {
+    return this.request<T>('GET', path)
+  }
+
+  post<T = any>(path: string, body?: unknown, opts?: RequestOptions) {
+    return this.request<T>('POST', path, body ?? {}, opts)
+  }
+
+  delete<T = any>(path: string) {
+    return this.request<T>('DELETE', path)
+  }
+
+  patch<T = any>(path: string, body?: unknown) {
+    return this.request<T>('PATCH', path, body ?? {})
+  }
 
   async signIn(email: string, password = 'tiltwright-demo') {
     const r = await this.post('/api/auth/login', { email, password })
-    if (r.status !== 200) throw new Error(`sign-in of ${email} failed: ${r.status} ${JSON.stringify(r.body)}`)
+    if (r.status !== 200)
+      throw new Error(`sign-in of ${email} failed: ${r.status} ${JSON.stringify(r.body)}`)
     return r.body.user
   }
 }
 
-export const uniqueEmail = (tag: string) => `${tag}-${Date.now().toString(36)}-${Math.random().toString(36).slice(2, 7)}@school.test`
+export const uniqueEmail = (tag: string) =>
+  `${tag}-${Date.now().toString(36)}-${Math.random().toString(36).slice(2, 7)}@school.test`

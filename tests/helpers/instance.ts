@@ -7,21 +7,38 @@ import { inject } from 'vitest'
 import { projectRoot, startMariaDb } from '../../scripts/lib/mariadb'
 import { SUFFIX, testDatabase } from '../setup/slot'
 
-
-export interface AppInstance { url: string; process: ChildProcess; log: () => string; kill: (signal?: NodeJS.Signals) => Promise<void> }
+export interface AppInstance {
+  url: string
+  process: ChildProcess
+  log: () => string
+  kill: (signal?: NodeJS.Signals) => Promise<void>
+}
 
 function spawnApp(port: number, change: Record<string, string | undefined> = {}) {
   const url = `http://localhost:${port}`
   const env: Record<string, string> = {
-    PATH: process.env.PATH ?? '', HOME: process.env.HOME ?? '/root', ...inject('appEnv'), PORT: String(port), NUXT_PUBLIC_URL: url,
+    PATH: process.env.PATH ?? '',
+    HOME: process.env.HOME ?? '/root',
+    ...inject('appEnv'),
+    PORT: String(port),
+    NUXT_PUBLIC_URL: url,
   }
   for (const [k, v] of Object.entries(change)) {
-    if (v === undefined) delete env[k]
+    if (v === undefined) Reflect.deleteProperty(env, k)
     else env[k] = v
   }
-  return { url, child: spawn(process.execPath, [resolve(projectRoot, `.output-test${SUFFIX}/server/index.mjs`)], {
-    cwd: projectRoot, env, stdio: ['ignore', 'pipe', 'pipe'],
-  }) }
+  return {
+    url,
+    child: spawn(
+      process.execPath,
+      [resolve(projectRoot, `.output-test${SUFFIX}/server/index.mjs`)],
+      {
+        cwd: projectRoot,
+        env,
+        stdio: ['ignore', 'pipe', 'pipe'],
+      },
+    ),
+  }
 }
 
 /** Starts the built app with the environment changed (undefined removes a variable) and
@@ -29,38 +46,58 @@ function spawnApp(port: number, change: Record<string, string | undefined> = {})
 export function runAppExpectingExit(port: number, change: Record<string, string | undefined>) {
   const { child } = spawnApp(port, change)
   let log = ''
-  child.stdout!.on('data', (d) => { log += d })
-  child.stderr!.on('data', (d) => { log += d })
-  return new Promise<{ code: number | null; log: string }>((done) => {
-    const t = setTimeout(() => { child.kill('SIGKILL') }, 20_000)
-    child.once('exit', (code) => { clearTimeout(t); done({ code, log }) })
+  child.stdout!.on('data', (d) => {
+    log += d
+  })
+  child.stderr!.on('data', (d) => {
+    log += d
+  })
+  return new Promise<{ code: number | null, log: string }>((done) => {
+    const t = setTimeout(() => {
+      child.kill('SIGKILL')
+    }, 20_000)
+    child.once('exit', (code) => {
+      clearTimeout(t)
+      done({ code, log })
+    })
   })
 }
 
-export async function startAppInstance(port: number, change: Record<string, string | undefined> = {}): Promise<AppInstance> {
+export async function startAppInstance(
+  port: number,
+  change: Record<string, string | undefined> = {},
+): Promise<AppInstance> {
   const { url, child } = spawnApp(port, change)
   let log = ''
-  child.stdout!.on('data', (d) => { log += d })
-  child.stderr!.on('data', (d) => { log += d })
+  child.stdout!.on('data', (d) => {
+    log += d
+  })
+  child.stderr!.on('data', (d) => {
+    log += d
+  })
   const deadline = Date.now() + 30_000
   for (;;) {
     if (child.exitCode !== null) throw new Error(`the second instance exited: ${log}`)
     try {
       if ((await fetch(`${url}/api/_auth/session`)).ok) break
-    } catch { /* not up yet */ }
+    } catch {
+      /* not up yet */
+    }
     if (Date.now() > deadline) throw new Error(`the second instance did not answer: ${log}`)
-    await new Promise((r) => setTimeout(r, 200))
+    await new Promise(r => setTimeout(r, 200))
   }
   return {
-    url, process: child, log: () => log,
-    kill: (signal = 'SIGKILL') => new Promise((done) => {
-      if (child.exitCode !== null || child.signalCode !== null) return done()
-      child.once('exit', () => done())
-      child.kill(signal)
-    }),
+    url,
+    process: child,
+    log: () => log,
+    kill: (signal = 'SIGKILL') =>
+      new Promise((done) => {
+        if (child.exitCode !== null || child.signalCode !== null) return done()
+        child.once('exit', () => done())
+        child.kill(signal)
+      }),
   }
 }
-
 
 /** Kills the test MariaDB at once (no clean shutdown), as a crash would. */
 export function killDatabase() {

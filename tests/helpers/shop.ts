@@ -1,5 +1,6 @@
-// Shop test helpers: fresh teachers of fresh (taxed, in California: 7.25 % in shared/data/us-sales-tax.ts) schools, a product with known stock,
-// the payment SDK pointed at the app's fake, and paying on the fake's hosted page.
+// Shop test helpers: fresh teachers of fresh (taxed, in California: 7.25 % in
+// shared/data/us-sales-tax.ts) schools, a product with known stock, the payment SDK pointed at the
+// app's fake, and paying on the fake's hosted page.
 import Stripe from 'stripe'
 import { inject } from 'vitest'
 import { Client, uniqueEmail } from './client'
@@ -12,7 +13,8 @@ export const webhookSecret = () => inject('webhookSecret')
 // The secrets an earlier version printed in its source: nothing may accept them now.
 export const PUBLISHED_KEY = 'sk_test_tiltwright_local_fake'
 export const PUBLISHED_WEBHOOK_SECRET = 'whsec_tiltwright_local_fake_signing_secret'
-// The answers the local payment simulator's page offers (DECISIONS in server/fake-payments/pages.ts).
+// The answers the local payment simulator's page offers (DECISIONS in
+// server/fake-payments/pages.ts).
 export const APPROVE = 'approve'
 export const DECLINE = 'decline'
 
@@ -23,14 +25,27 @@ export async function signedIn(email: string) {
 }
 
 /** A teacher of a new school (in California unless the region says otherwise), with the
- *  e-mail address confirmed through the mailed link (ordering needs it) unless `verified: false`. */
-export async function newTeacher(tag = 'shop', opts: { verified?: boolean; region?: string; postalCode?: string } = {}) {
+ *  e-mail address confirmed through the mailed link (ordering needs it) unless `verified: false`.
+ * */
+export async function newTeacher(
+  tag = 'shop',
+  opts: { verified?: boolean, region?: string, postalCode?: string } = {},
+) {
   const { verified: _v, ...school } = opts
   const c = new Client()
   const email = uniqueEmail(tag)
   const r = await c.post('/api/auth/register', {
-    name: `Teacher ${tag}`, email, password: 'a-long-password-1',
-    school: { name: `${tag} Academy ${Math.random().toString(36).slice(2, 6)}`, addressLine1: '1 Test Lane', city: 'Ridgeford', region: 'CA', postalCode: '95999', ...school },
+    name: `Teacher ${tag}`,
+    email,
+    password: 'a-long-password-1',
+    school: {
+      name: `${tag} Academy ${Math.random().toString(36).slice(2, 6)}`,
+      addressLine1: '1 Test Lane',
+      city: 'Ridgeford',
+      region: 'CA',
+      postalCode: '95999',
+      ...school,
+    },
   })
   if (r.status !== 201) throw new Error(`register failed: ${r.status} ${JSON.stringify(r.body)}`)
   if (opts.verified !== false) {
@@ -46,12 +61,32 @@ export async function newTeacher(tag = 'shop', opts: { verified?: boolean; regio
 
 let seq = 0
 /** A product of its own with one batch, so a test knows exactly how much stock there is. */
-export async function productWithStock(admin: Client, quantity: number, tiers = [{ minQuantity: 1, unitPriceCents: 2500 }, { minQuantity: 10, unitPriceCents: 2000 }]) {
+export async function productWithStock(
+  admin: Client,
+  quantity: number,
+  tiers = [
+    { minQuantity: 1, unitPriceCents: 2500 },
+    { minQuantity: 10, unitPriceCents: 2000 },
+  ],
+) {
   const slug = `test-part-${Date.now().toString(36)}-${++seq}`
-  const p = await admin.post('/api/admin/products', { slug, name: `Test part ${slug}`, kind: 'part', summary: 'A part made for one test.', weightGrams: 100, tiers })
-  if (p.status !== 201) throw new Error(`product create failed: ${p.status} ${JSON.stringify(p.body)}`)
-  const b = await admin.post('/api/admin/batches', { productId: p.body.id, code: `T-${slug.slice(-10)}`, quantity })
-  if (b.status !== 201) throw new Error(`batch create failed: ${b.status} ${JSON.stringify(b.body)}`)
+  const p = await admin.post('/api/admin/products', {
+    slug,
+    name: `Test part ${slug}`,
+    kind: 'part',
+    summary: 'A part made for one test.',
+    weightGrams: 100,
+    tiers,
+  })
+  if (p.status !== 201)
+    throw new Error(`product create failed: ${p.status} ${JSON.stringify(p.body)}`)
+  const b = await admin.post('/api/admin/batches', {
+    productId: p.body.id,
+    code: `T-${slug.slice(-10)}`,
+    quantity,
+  })
+  if (b.status !== 201)
+    throw new Error(`batch create failed: ${b.status} ${JSON.stringify(b.body)}`)
   return { productId: p.body.id as number, batchId: b.body.id as number, slug }
 }
 
@@ -64,7 +99,12 @@ export async function productBySlug(slug: string) {
 
 export function fakeStripe() {
   const base = new URL(inject('baseUrl'))
-  return new Stripe(paymentsKey(), { host: base.hostname, port: Number(base.port), protocol: 'http', telemetry: false })
+  return new Stripe(paymentsKey(), {
+    host: base.hostname,
+    port: Number(base.port),
+    protocol: 'http',
+    telemetry: false,
+  })
 }
 
 /** Presses "Approve this payment" or "Decline this payment" on the fake's hosted page, like a
@@ -73,28 +113,56 @@ export async function payOnPage(url: string, decision: typeof APPROVE | typeof D
   const page = await fetch(url)
   const html = await page.text()
   const action = html.match(/<form method="post" action="([^"]+)"/)?.[1]
-  if (!action || !html.includes(`name="decision" value="${decision}"`)) throw new Error(`no ${decision} button on ${url}: ${html.slice(0, 300)}`)
-  const res = await fetch(new URL(action, url), { method: 'POST', body: new URLSearchParams({ decision }), redirect: 'manual', headers: { 'content-type': 'application/x-www-form-urlencoded' } })
-  return { status: res.status, location: res.headers.get('location'), html: await res.text(), pageHtml: html }
+  if (!action || !html.includes(`name="decision" value="${decision}"`))
+    throw new Error(`no ${decision} button on ${url}: ${html.slice(0, 300)}`)
+  const res = await fetch(new URL(action, url), {
+    method: 'POST',
+    body: new URLSearchParams({ decision }),
+    redirect: 'manual',
+    headers: { 'content-type': 'application/x-www-form-urlencoded' },
+  })
+  return {
+    status: res.status,
+    location: res.headers.get('location'),
+    html: await res.text(),
+    pageHtml: html,
+  }
 }
 
 /** Sets the simulator's fault switch (server/fake-payments/simulator.ts). */
-export async function simulator(settings: { api?: 'normal' | 'fail' | 'slow'; webhooks?: 'deliver' | 'fail'; slowMs?: number }) {
+export async function simulator(settings: {
+  api?: 'normal' | 'fail' | 'slow'
+  webhooks?: 'deliver' | 'fail'
+  slowMs?: number
+}) {
   const body = new URLSearchParams(Object.entries(settings).map(([k, v]) => [k, String(v)]))
   const res = await fetch(new URL('/v1/simulator/settings', inject('baseUrl')), {
-    method: 'POST', body, headers: { authorization: `Bearer ${paymentsKey()}`, 'content-type': 'application/x-www-form-urlencoded' },
+    method: 'POST',
+    body,
+    headers: {
+      'authorization': `Bearer ${paymentsKey()}`,
+      'content-type': 'application/x-www-form-urlencoded',
+    },
   })
   if (!res.ok) throw new Error(`simulator settings: ${res.status} ${await res.text()}`)
   return res.json()
 }
 
-export async function waitForOrder(c: Client, id: number, done: (o: any) => boolean, timeoutMs = 10_000) {
+export async function waitForOrder(
+  c: Client,
+  id: number,
+  done: (o: any) => boolean,
+  timeoutMs = 10_000,
+) {
   const deadline = Date.now() + timeoutMs
   for (;;) {
     const r = await c.get(`/api/orders/${id}`)
     if (r.status === 200 && done(r.body)) return r.body
-    if (Date.now() > deadline) throw new Error(`order ${id} did not reach the expected state: ${JSON.stringify(r.body).slice(0, 500)}`)
-    await new Promise((ok) => setTimeout(ok, 150))
+    if (Date.now() > deadline)
+      throw new Error(
+        `order ${id} did not reach the expected state: ${JSON.stringify(r.body).slice(0, 500)}`,
+      )
+    await new Promise(ok => setTimeout(ok, 150))
   }
 }
 
@@ -112,17 +180,46 @@ export async function pdfText(bytes: Uint8Array) {
 }
 
 // Smallest real files whose first bytes file-type recognises (PDF header, PNG signature + IHDR).
-export const PDF_BYTES = Buffer.from('%PDF-1.4\n1 0 obj<</Type/Catalog/Pages 2 0 R>>endobj\n2 0 obj<</Type/Pages/Kids[]/Count 0>>endobj\ntrailer<</Root 1 0 R>>\n%%EOF\n')
-export const PNG_BYTES = Buffer.from('89504e470d0a1a0a0000000d49484452000000010000000108060000001f15c4890000000d4944415478da63f8ffff3f0005fe02fea7d6a4f20000000049454e44ae426082', 'hex')
+export const PDF_BYTES = Buffer.from(
+  '%PDF-1.4\n1 0 obj<</Type/Catalog/Pages 2 0 R>>endobj\n2 0 obj<</Type/Pages/Kids[]/Count '
+  + '0>>endobj\ntrailer<</Root 1 0 R>>\n%%EOF\n',
+)
+export const PNG_BYTES = Buffer.from(
+  '89504e470d0a1a0a0000000d49484452000000010000000108060000001f15c489'
+  + '0000000d4944415478da63f8ffff3f0005fe02fea7d6a4f20000000049454e44ae426082',
+  'hex',
+)
 
-export function poForm(fields: { lines?: unknown; quoteId?: number; poNumber?: string; apEmail?: string; poFile?: { data: Buffer; name: string; type?: string } | null; taxCertificate?: { data: Buffer; name: string; type?: string } }) {
+export function poForm(fields: {
+  lines?: unknown
+  quoteId?: number
+  poNumber?: string
+  apEmail?: string
+  poFile?: { data: Buffer, name: string, type?: string } | null
+  taxCertificate?: { data: Buffer, name: string, type?: string }
+}) {
   const f = new FormData()
   if (fields.lines !== undefined) f.set('lines', JSON.stringify(fields.lines))
   if (fields.quoteId !== undefined) f.set('quoteId', String(fields.quoteId))
   f.set('poNumber', fields.poNumber ?? `PO-${Math.floor(Math.random() * 1e6)}`)
   f.set('apEmail', fields.apEmail ?? 'payables@district.test')
-  const po = fields.poFile === undefined ? { data: PDF_BYTES, name: 'po.pdf', type: 'application/pdf' } : fields.poFile
-  if (po) f.set('poFile', new Blob([new Uint8Array(po.data)], { type: po.type ?? 'application/pdf' }), po.name)
-  if (fields.taxCertificate) f.set('taxCertificate', new Blob([new Uint8Array(fields.taxCertificate.data)], { type: fields.taxCertificate.type ?? 'image/png' }), fields.taxCertificate.name)
+  const po
+    = fields.poFile === undefined
+      ? { data: PDF_BYTES, name: 'po.pdf', type: 'application/pdf' }
+      : fields.poFile
+  if (po)
+    f.set(
+      'poFile',
+      new Blob([new Uint8Array(po.data)], { type: po.type ?? 'application/pdf' }),
+      po.name,
+    )
+  if (fields.taxCertificate)
+    f.set(
+      'taxCertificate',
+      new Blob([new Uint8Array(fields.taxCertificate.data)], {
+        type: fields.taxCertificate.type ?? 'image/png',
+      }),
+      fields.taxCertificate.name,
+    )
   return f
 }

@@ -14,24 +14,45 @@ import { APP_PORT, MAIL_HTTP_PORT, SMTP_PORT, SUFFIX, testDatabase } from './slo
 
 declare module 'vitest' {
   export interface ProvidedContext {
-    baseUrl: string; mailUrl: string; dbUrl: string; chromium: string; appPid: number
-    paymentsKey: string; webhookSecret: string; appEnv: Record<string, string>
+    baseUrl: string
+    mailUrl: string
+    dbUrl: string
+    chromium: string
+    appPid: number
+    paymentsKey: string
+    webhookSecret: string
+    appEnv: Record<string, string>
   }
 }
 
 export default async function setup(project: TestProject) {
-  const chromium = ensureDebianPackage('chromium', 'chromium', 'the browser tests drive Debian\'s Chromium')
+  const chromium = ensureDebianPackage(
+    'chromium',
+    'chromium',
+    'the browser tests drive Debian\'s Chromium',
+  )
   const db = await startMariaDb(testDatabase(), { fresh: true })
   await migrateDatabase(db.db.url)
   await seedDemo(db.db.url)
-  const catcher = await startMailCatcher({ smtpPort: SMTP_PORT, httpPort: MAIL_HTTP_PORT, name: `test${SUFFIX}`, quiet: true })
+  const catcher = await startMailCatcher({
+    smtpPort: SMTP_PORT,
+    httpPort: MAIL_HTTP_PORT,
+    name: `test${SUFFIX}`,
+    quiet: true,
+  })
   await fetch(`http://127.0.0.1:${MAIL_HTTP_PORT}/messages`, { method: 'DELETE' })
 
   const buildEnv = {
-    ...process.env, TILTWRIGHT_BUILD_DIR: `.nuxt-test${SUFFIX}`, TILTWRIGHT_OUTPUT_DIR: `.output-test${SUFFIX}`,
+    ...process.env,
+    TILTWRIGHT_BUILD_DIR: `.nuxt-test${SUFFIX}`,
+    TILTWRIGHT_OUTPUT_DIR: `.output-test${SUFFIX}`,
     TILTWRIGHT_UPLOAD_DIR: resolve(projectRoot, `data/uploads-test${SUFFIX}`),
   }
-  const build = spawnSync(resolve(projectRoot, 'node_modules/.bin/nuxt'), ['build'], { cwd: projectRoot, env: buildEnv, encoding: 'utf8' })
+  const build = spawnSync(resolve(projectRoot, 'node_modules/.bin/nuxt'), ['build'], {
+    cwd: projectRoot,
+    env: buildEnv,
+    encoding: 'utf8',
+  })
   if (build.status !== 0) {
     await catcher.close()
     db.stop()
@@ -43,11 +64,23 @@ export default async function setup(project: TestProject) {
   const secrets = newSecrets()
   // The app is a production server, not a test process: without vitest's variables, so that
   // Nitro's scheduled tasks (the job runner) start as they do in production.
-  const { VITEST: _v, VITEST_MODE: _vm, VITEST_POOL_ID: _vp, VITEST_WORKER_ID: _vw, TEST: _t, ...parentEnv } = process.env
+  const {
+    VITEST: _v,
+    VITEST_MODE: _vm,
+    VITEST_POOL_ID: _vp,
+    VITEST_WORKER_ID: _vw,
+    TEST: _t,
+    ...parentEnv
+  } = process.env
   const appEnv: Record<string, string> = {
-    PORT: String(APP_PORT), HOST: '127.0.0.1', NODE_ENV: 'production',
-    NUXT_DATABASE_URL: db.db.url, NUXT_SMTP_HOST: '127.0.0.1', NUXT_SMTP_PORT: String(SMTP_PORT),
-    NUXT_MAIL_CATCHER_URL: `http://127.0.0.1:${MAIL_HTTP_PORT}`, NUXT_PUBLIC_URL: baseUrl,
+    PORT: String(APP_PORT),
+    HOST: '127.0.0.1',
+    NODE_ENV: 'production',
+    NUXT_DATABASE_URL: db.db.url,
+    NUXT_SMTP_HOST: '127.0.0.1',
+    NUXT_SMTP_PORT: String(SMTP_PORT),
+    NUXT_MAIL_CATCHER_URL: `http://127.0.0.1:${MAIL_HTTP_PORT}`,
+    NUXT_PUBLIC_URL: baseUrl,
     // Retry failed jobs quickly, so the outage test need not wait 15 s.
     NUXT_OUTBOX_RETRY_BASE_MS: '400',
     // Sweep stale card orders every second, so the hold test need not wait 10 minutes.
@@ -56,14 +89,22 @@ export default async function setup(project: TestProject) {
     NUXT_TRUSTED_PROXIES: '127.0.0.2',
     ...secretsEnv(secrets, true, {}),
   }
-  const app: ChildProcess = spawn(process.execPath, [resolve(projectRoot, `.output-test${SUFFIX}/server/index.mjs`)], {
-    cwd: projectRoot,
-    env: { ...parentEnv, ...appEnv },
-    stdio: ['ignore', 'pipe', 'pipe'],
-  })
+  const app: ChildProcess = spawn(
+    process.execPath,
+    [resolve(projectRoot, `.output-test${SUFFIX}/server/index.mjs`)],
+    {
+      cwd: projectRoot,
+      env: { ...parentEnv, ...appEnv },
+      stdio: ['ignore', 'pipe', 'pipe'],
+    },
+  )
   let log = ''
-  app.stdout!.on('data', (d) => { log += d })
-  app.stderr!.on('data', (d) => { log += d })
+  app.stdout!.on('data', (d) => {
+    log += d
+  })
+  app.stderr!.on('data', (d) => {
+    log += d
+  })
   const deadline = Date.now() + 60_000
   // A failed start must not leave the database, the mail catcher or the app running.
   const abandon = async (why: string) => {
@@ -76,9 +117,11 @@ export default async function setup(project: TestProject) {
     if (app.exitCode !== null) throw await abandon(`the app exited during start-up:\n${log}`)
     try {
       if ((await fetch(`${baseUrl}/api/_auth/session`)).ok) break
-    } catch { /* not up yet */ }
+    } catch {
+      /* not up yet */
+    }
     if (Date.now() > deadline) throw await abandon(`the app did not answer within 60 s:\n${log}`)
-    await new Promise((r) => setTimeout(r, 250))
+    await new Promise(r => setTimeout(r, 250))
   }
 
   project.provide('baseUrl', baseUrl)
@@ -92,9 +135,16 @@ export default async function setup(project: TestProject) {
 
   return async () => {
     app.kill('SIGTERM')
-    await new Promise((r) => { const t = setTimeout(r, 5000); app.once('exit', () => { clearTimeout(t); r(null) }) })
+    await new Promise((r) => {
+      const t = setTimeout(r, 5000)
+      app.once('exit', () => {
+        clearTimeout(t)
+        r(null)
+      })
+    })
     if (process.env.TILTWRIGHT_TEST_LOG) console.log(`[tests] the app's log:\n${log}`)
-    else if (/\[request error\]|\[unhandled\]/.test(log)) console.warn(`[tests] the app logged errors during the run:\n${log.slice(-4000)}`)
+    else if (/\[request error\]|\[unhandled\]/.test(log))
+      console.warn(`[tests] the app logged errors during the run:\n${log.slice(-4000)}`)
     await catcher.close()
     db.stop()
   }

@@ -1,15 +1,33 @@
 import { describe, expect, it } from 'vitest'
 import {
-  ORDER_ACTIONS, ORDER_FLOW, ORDER_STATUSES, findTransition, flowWording, openActions, type Actor, type OrderAction,
+  ORDER_ACTIONS,
+  ORDER_FLOW,
+  ORDER_STATUSES,
+  findTransition,
+  flowWording,
+  openActions,
+  type Actor,
+  type OrderAction,
   type OrderFacts,
 } from '../../shared/utils/order-flow'
 
-const po = (status: OrderFacts['status'], more: Partial<OrderFacts> = {}): OrderFacts =>
-  ({ status, paymentMethod: 'purchase-order', allocated: false, paid: false, ...more })
-const card = (status: OrderFacts['status'], more: Partial<OrderFacts> = {}): OrderFacts =>
-  ({ status, paymentMethod: 'card', allocated: false, paid: false, ...more })
+const po = (status: OrderFacts['status'], more: Partial<OrderFacts> = {}): OrderFacts => ({
+  status,
+  paymentMethod: 'purchase-order',
+  allocated: false,
+  paid: false,
+  ...more,
+})
+const card = (status: OrderFacts['status'], more: Partial<OrderFacts> = {}): OrderFacts => ({
+  status,
+  paymentMethod: 'card',
+  allocated: false,
+  paid: false,
+  ...more,
+})
 
-// The whole table, case by case: the order, the action, who asks, and where it ends (null: refused).
+// The whole table, case by case: the order, the action, who asks, and where it ends (null:
+// refused).
 const CASES: [string, OrderFacts, OrderAction, Actor, string | null][] = [
   ['a teacher places a card order', card(null), 'placeCard', 'teacher', 'awaiting payment'],
   ['a teacher places a purchase order', po(null), 'placePurchaseOrder', 'teacher', 'po review'],
@@ -17,36 +35,132 @@ const CASES: [string, OrderFacts, OrderAction, Actor, string | null][] = [
   ['an admin approves a PO in review', po('po review'), 'approve', 'admin', 'awaiting payment'],
   ['a teacher cannot approve their own PO', po('po review'), 'approve', 'teacher', null],
   ['an approved PO cannot be approved again', po('awaiting payment'), 'approve', 'admin', null],
-  ['an admin rejects a PO in review: rejected, not cancelled', po('po review'), 'reject', 'admin', 'rejected'],
+  [
+    'an admin rejects a PO in review: rejected, not cancelled',
+    po('po review'),
+    'reject',
+    'admin',
+    'rejected',
+  ],
   ['a card order is never "rejected"', card('awaiting payment'), 'reject', 'admin', null],
-  ['an approved PO is allocated, keeping its state', po('awaiting payment'), 'allocate', 'admin', 'awaiting payment'],
+  [
+    'an approved PO is allocated, keeping its state',
+    po('awaiting payment'),
+    'allocate',
+    'admin',
+    'awaiting payment',
+  ],
   ['a PO in review is not packed yet', po('po review'), 'allocate', 'admin', null],
   ['an unpaid card order is not packed yet', card('awaiting payment'), 'allocate', 'admin', null],
-  ['allocation happens once', card('paid', { allocated: true, paid: true }), 'allocate', 'admin', null],
+  [
+    'allocation happens once',
+    card('paid', { allocated: true, paid: true }),
+    'allocate',
+    'admin',
+    null,
+  ],
   ['a cancelled order is not allocated', card('cancelled'), 'allocate', 'admin', null],
-  ['a paid, allocated card order ships', card('paid', { allocated: true, paid: true }), 'ship', 'admin', 'shipped'],
-  ['an unpaid card order does not ship', card('awaiting payment', { allocated: true }), 'ship', 'admin', null],
+  [
+    'a paid, allocated card order ships',
+    card('paid', { allocated: true, paid: true }),
+    'ship',
+    'admin',
+    'shipped',
+  ],
+  [
+    'an unpaid card order does not ship',
+    card('awaiting payment', { allocated: true }),
+    'ship',
+    'admin',
+    null,
+  ],
   ['nothing ships unallocated', card('paid', { paid: true }), 'ship', 'admin', null],
-  ['an approved PO ships on net terms', po('awaiting payment', { allocated: true }), 'ship', 'admin', 'shipped'],
+  [
+    'an approved PO ships on net terms',
+    po('awaiting payment', { allocated: true }),
+    'ship',
+    'admin',
+    'shipped',
+  ],
   ['a PO in review does not ship', po('po review', { allocated: true }), 'ship', 'admin', null],
-  ['a cheque is recorded for an approved PO', po('awaiting payment'), 'recordPayment', 'admin', 'paid'],
-  ['a cheque after shipping keeps it shipped', po('shipped', { allocated: true }), 'recordPayment', 'admin', 'shipped'],
-  ['a paid order takes no second payment', po('shipped', { allocated: true, paid: true }), 'recordPayment', 'admin', null],
-  ['card money is never recorded by hand', card('awaiting payment'), 'recordPayment', 'admin', null],
+  [
+    'a cheque is recorded for an approved PO',
+    po('awaiting payment'),
+    'recordPayment',
+    'admin',
+    'paid',
+  ],
+  [
+    'a cheque after shipping keeps it shipped',
+    po('shipped', { allocated: true }),
+    'recordPayment',
+    'admin',
+    'shipped',
+  ],
+  [
+    'a paid order takes no second payment',
+    po('shipped', { allocated: true, paid: true }),
+    'recordPayment',
+    'admin',
+    null,
+  ],
+  [
+    'card money is never recorded by hand',
+    card('awaiting payment'),
+    'recordPayment',
+    'admin',
+    null,
+  ],
   ['the provider marks a card order paid', card('awaiting payment'), 'markPaid', 'system', 'paid'],
-  ['an admin cannot mark paid as the provider', card('awaiting payment'), 'markPaid', 'admin', null],
-  ['a payment for a cancelled order does not revive it', card('cancelled'), 'markPaid', 'system', null],
+  [
+    'an admin cannot mark paid as the provider',
+    card('awaiting payment'),
+    'markPaid',
+    'admin',
+    null,
+  ],
+  [
+    'a payment for a cancelled order does not revive it',
+    card('cancelled'),
+    'markPaid',
+    'system',
+    null,
+  ],
   ['a payment for a rejected PO does not revive it', po('rejected'), 'markPaid', 'system', null],
-  ['a shipped order is delivered', card('shipped', { allocated: true, paid: true }), 'markDelivered', 'admin', 'delivered'],
+  [
+    'a shipped order is delivered',
+    card('shipped', { allocated: true, paid: true }),
+    'markDelivered',
+    'admin',
+    'delivered',
+  ],
   ['a teacher cancels an unpaid order', card('awaiting payment'), 'cancel', 'teacher', 'cancelled'],
   ['an admin cancels a PO in review', po('po review'), 'cancel', 'admin', 'cancelled'],
   ['a paid order is not cancelled here', card('paid', { paid: true }), 'cancel', 'admin', null],
   ['a shipped PO is not cancelled', po('shipped', { allocated: true }), 'cancel', 'admin', null],
-  ['the sweep expires an unpaid card order', card('awaiting payment'), 'expire', 'system', 'cancelled'],
+  [
+    'the sweep expires an unpaid card order',
+    card('awaiting payment'),
+    'expire',
+    'system',
+    'cancelled',
+  ],
   ['the sweep never expires a purchase order', po('awaiting payment'), 'expire', 'system', null],
-  ['late money for a cancelled order is refunded', card('cancelled'), 'refund', 'system', 'cancelled'],
+  [
+    'late money for a cancelled order is refunded',
+    card('cancelled'),
+    'refund',
+    'system',
+    'cancelled',
+  ],
   ['late money for a rejected PO is refunded', po('rejected'), 'refund', 'system', 'rejected'],
-  ['a live order is not refunded by the flow', card('paid', { paid: true }), 'refund', 'system', null],
+  [
+    'a live order is not refunded by the flow',
+    card('paid', { paid: true }),
+    'refund',
+    'system',
+    null,
+  ],
 ]
 
 describe('the order flow, as a table', () => {
@@ -59,17 +173,19 @@ describe('the order flow, as a table', () => {
       if (r.from !== null) expect(ORDER_STATUSES).toContain(r.from)
       expect(ORDER_STATUSES).toContain(r.to)
     }
-    for (const a of ORDER_ACTIONS) expect(ORDER_FLOW.some((r) => r.action === a)).toBe(true)
+    for (const a of ORDER_ACTIONS) expect(ORDER_FLOW.some(r => r.action === a)).toBe(true)
   })
 
   it('never has two rows that could both apply', () => {
     for (const a of ORDER_FLOW) {
       for (const b of ORDER_FLOW) {
         if (a === b || a.action !== b.action || a.from !== b.from) continue
-        const overlap = a.who.some((w) => b.who.includes(w))
-          && (a.method === undefined || b.method === undefined || a.method === b.method)
-          && (a.allocated === undefined || b.allocated === undefined || a.allocated === b.allocated)
-          && (a.paid === undefined || b.paid === undefined || a.paid === b.paid)
+        const overlap
+          = a.who.some(w => b.who.includes(w))
+            && (a.method === undefined || b.method === undefined || a.method === b.method)
+            && (a.allocated === undefined || b.allocated === undefined
+              || a.allocated === b.allocated)
+            && (a.paid === undefined || b.paid === undefined || a.paid === b.paid)
         expect(overlap, `${a.action} from ${a.from}`).toBe(false)
       }
     }
@@ -87,8 +203,11 @@ describe('the order flow, as a table', () => {
 
   it('fills the timeline wording', () => {
     const row = findTransition(po('po review'), 'reject', 'admin')!
-    expect(flowWording(row, { actor: 'Ada Admin', reason: 'PO unsigned!' }))
-      .toBe('Purchase order rejected by Ada Admin: PO unsigned.')
-    expect(flowWording(row, { actor: 'Ada Admin' })).toBe('Purchase order rejected by Ada Admin: no reason given.')
+    expect(flowWording(row, { actor: 'Ada Admin', reason: 'PO unsigned!' })).toBe(
+      'Purchase order rejected by Ada Admin: PO unsigned.',
+    )
+    expect(flowWording(row, { actor: 'Ada Admin' })).toBe(
+      'Purchase order rejected by Ada Admin: no reason given.',
+    )
   })
 })

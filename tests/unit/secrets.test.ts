@@ -22,12 +22,26 @@ describe('per-install secrets', () => {
     const s = installSecrets(join(mkdtempSync(join(tmpdir(), 'tw-secrets-')), 'secrets.json'))
     expect(secretsEnv(s, false, {}).NUXT_PAYMENTS_SECRET_KEY).toBe('')
     expect(secretsEnv(s, true, {}).NUXT_PAYMENTS_SECRET_KEY).toBe(s.paymentsSecretKey)
-    expect(secretsEnv(s, false, { NUXT_PAYMENTS_SECRET_KEY: 'sk_live_x' }).NUXT_PAYMENTS_SECRET_KEY).toBe('sk_live_x')
+    expect(
+      secretsEnv(s, false, { NUXT_PAYMENTS_SECRET_KEY: 'sk_live_x' }).NUXT_PAYMENTS_SECRET_KEY,
+    ).toBe('sk_live_x')
   })
 
   it('names every missing secret by the variable that sets it', () => {
-    const all = { sessionPassword: 'x'.repeat(32), csrfSecretFromEnv: 'y'.repeat(32), paymentsSecretKey: 'k', paymentsWebhookSecret: 'w' }
+    const all = {
+      sessionPassword: 'x'.repeat(32),
+      csrfSecretFromEnv: 'y'.repeat(32),
+      paymentsSecretKey: 'k',
+      paymentsWebhookSecret: 'w',
+    }
     expect(missingSecrets(all)).toEqual([])
-    expect(missingSecrets({ sessionPassword: '', csrfSecretFromEnv: '', paymentsSecretKey: '', paymentsWebhookSecret: '' })).toHaveLength(4)
+    expect(
+      missingSecrets({
+        sessionPassword: '',
+        csrfSecretFromEnv: '',
+        paymentsSecretKey: '',
+        paymentsWebhookSecret: '',
+      }),
+    ).toHaveLength(4)
   })
 })

@@ -1,5 +1,12 @@
 import { describe, expect, it } from 'vitest'
-import { canCancelOrder, canSeeOrder, canSeeOrderDocuments, canSeeQuote, isQuoteValid, unitsLeft } from '../../shared/utils/shop-rules'
+import {
+  canCancelOrder,
+  canSeeOrder,
+  canSeeOrderDocuments,
+  canSeeQuote,
+  isQuoteValid,
+  unitsLeft,
+} from '../../shared/utils/shop-rules'
 
 const teacherA = { role: 'teacher' as const, schoolId: 1 }
 const teacherB = { role: 'teacher' as const, schoolId: 2 }
@@ -28,7 +35,9 @@ describe('order steps', () => {
     expect(canCancelOrder(teacherA, order)).toBe(true)
     expect(canCancelOrder(teacherB, order)).toBe(false)
     expect(canCancelOrder(teacherA, { ...order, status: 'paid' })).toBe(false)
-    expect(canCancelOrder({ role: 'admin', schoolId: null }, { ...order, status: 'awaiting payment' })).toBe(true)
+    expect(
+      canCancelOrder({ role: 'admin', schoolId: null }, { ...order, status: 'awaiting payment' }),
+    ).toBe(true)
     expect(canCancelOrder({ role: 'support', schoolId: null }, order)).toBe(false)
     expect(canCancelOrder(teacherA, { ...order, status: 'rejected' })).toBe(false)
   })
@@ -49,14 +58,18 @@ describe('quotes and stock', () => {
 })
 
 describe('shop links in the header', () => {
-  it('shows the shop to visitors and teachers, not to builders, and the cart only to buyers', async () => {
-    const { navigationFor } = await import('../../shared/utils/roles')
-    const labels = (u: Parameters<typeof navigationFor>[0]) => navigationFor(u).map((l) => l.label)
-    expect(labels(null)).toEqual(expect.arrayContaining(['Kits', 'Cart']))
-    expect(labels(null)).not.toContain('Orders')
-    expect(labels({ role: 'teacher' })).toEqual(expect.arrayContaining(['Kits', 'Cart', 'Quotes', 'Orders']))
-    expect(labels({ role: 'builder' })).not.toEqual(expect.arrayContaining(['Kits']))
-    expect(labels({ role: 'builder' })).not.toContain('Cart')
-    expect(labels({ role: 'admin' })).not.toContain('Cart')
-  })
+  it(
+    'shows the shop to visitors and teachers, not to builders, and the cart only '
+    + 'to buyers', async () => {
+      const { navigationFor } = await import('../../shared/utils/roles')
+      const labels = (u: Parameters<typeof navigationFor>[0]) => navigationFor(u).map(l => l.label)
+      expect(labels(null)).toEqual(expect.arrayContaining(['Kits', 'Cart']))
+      expect(labels(null)).not.toContain('Orders')
+      expect(labels({ role: 'teacher' })).toEqual(
+        expect.arrayContaining(['Kits', 'Cart', 'Quotes', 'Orders']),
+      )
+      expect(labels({ role: 'builder' })).not.toEqual(expect.arrayContaining(['Kits']))
+      expect(labels({ role: 'builder' })).not.toContain('Cart')
+      expect(labels({ role: 'admin' })).not.toContain('Cart')
+    })
 })

@@ -3,6 +3,8 @@ import { schools } from '../../database/schema'
 
 export default defineEventHandler(async (event) => {
   const user = await requireUser(event)
-  const [school] = user.schoolId ? await useDb().select().from(schools).where(eq(schools.id, user.schoolId)).limit(1) : []
+  const [school] = user.schoolId
+    ? await useDb().select().from(schools).where(eq(schools.id, user.schoolId)).limit(1)
+    : []
   return { user, school: school ?? null }
 })

@@ -19,7 +19,12 @@ export default defineEventHandler(async (event) => {
     await revokeSessions(tx, user.id, sessionId)
     await spendResetLinks(tx, user.id)
     await enqueueMail(tx, 'password-changed', user.email, passwordChangedMail(user.name))
-    await audit(tx, { actorId: user.id, action: 'account.password-changed', subjectType: 'user', subjectId: user.id })
+    await audit(tx, {
+      actorId: user.id,
+      action: 'account.password-changed',
+      subjectType: 'user',
+      subjectId: user.id,
+    })
   })
   return { ok: true }
 })

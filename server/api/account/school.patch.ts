@@ -10,7 +10,12 @@ export default defineEventHandler(async (event) => {
   if (!user.schoolId) throw notFound('Your school')
   const school = await useDb().transaction(async (tx) => {
     await tx.update(schools).set(input).where(eq(schools.id, user.schoolId!))
-    await audit(tx, { actorId: user.id, action: 'school.address-changed', subjectType: 'school', subjectId: user.schoolId! })
+    await audit(tx, {
+      actorId: user.id,
+      action: 'school.address-changed',
+      subjectType: 'school',
+      subjectId: user.schoolId!,
+    })
     return loadSchool(tx, user.schoolId!)
   })
   return { user, school }

@@ -7,10 +7,14 @@ export const FORGOT_PASSWORD_FLOOR_MS = 600
 
 export default defineEventHandler(async (event) => {
   const { email } = await readBodyAs(event, forgotPasswordSchema)
-  await withTimingFloor(FORGOT_PASSWORD_FLOOR_MS, () => useDb().transaction(async (tx) => {
-    const user = await findUserByEmail(tx, email)
-    if (user && !user.disabledAt) await sendPasswordReset(tx, user)
-  }))
+  await withTimingFloor(FORGOT_PASSWORD_FLOOR_MS, () =>
+    useDb().transaction(async (tx) => {
+      const user = await findUserByEmail(tx, email)
+      if (user && !user.disabledAt) await sendPasswordReset(tx, user)
+    }),
+  )
   setResponseStatus(event, 202)
-  return { message: 'If an account uses that address, a reset link is on its way. It expires in 1 hour.' }
+  return {
+    message: 'If an account uses that address, a reset link is on its way. It expires in 1 hour.',
+  }
 })

@@ -6,11 +6,14 @@ export default defineEventHandler(async (event) => {
   await claimSignInAttempt(event, email, address)
   const row = await findUserByEmail(useDb(), email)
   // Verify against a dummy hash when there is no such account, so timing does not tell.
-  const ok = await verifyPassword(row?.passwordHash ?? await dummyPasswordHash(), password)
+  const ok = await verifyPassword(row?.passwordHash ?? (await dummyPasswordHash()), password)
   if (!row || !ok || row.disabledAt) {
     const message = 'That e-mail and password do not match an account.'
     throw createError({
-      statusCode: 401, statusMessage: 'Unauthorized', message, data: { code: 'bad-credentials', fields: { password: message } },
+      statusCode: 401,
+      statusMessage: 'Unauthorized',
+      message,
+      data: { code: 'bad-credentials', fields: { password: message } },
     })
   }
   await clearSignInAttempts(email, address)

@@ -3,6 +3,6 @@
 export default defineEventHandler(async (event) => {
   const user = await requireUser(event)
   if (user.verified) return { sent: false, verified: true }
-  const sent = await useDb().transaction((tx) => sendVerification(tx, user))
+  const sent = await useDb().transaction(tx => sendVerification(tx, user))
   return { sent, verified: false }
 })

@@ -19,10 +19,19 @@ export default defineEventHandler(async (event) => {
     await revokeSessions(tx, id)
     await clearSignInThrottles(tx, u!.email)
     await enqueueMail(tx, 'password-changed', u!.email, passwordChangedMail(u!.name))
-    await audit(tx, { actorId: id, action: 'account.password-reset', subjectType: 'user', subjectId: id })
+    await audit(tx, {
+      actorId: id,
+      action: 'account.password-reset',
+      subjectType: 'user',
+      subjectId: id,
+    })
     await startSession(event, tx, toSessionUser(u!))
     return true
   })
-  if (!done) throw badRequest('This reset link has expired or was already used. Ask for a new one.', 'token-invalid')
+  if (!done)
+    throw badRequest(
+      'This reset link has expired or was already used. Ask for a new one.',
+      'token-invalid',
+    )
   return { ok: true }
 })

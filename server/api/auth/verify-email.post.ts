@@ -12,10 +12,14 @@ export default defineEventHandler(async (event) => {
     return id
   })
   if (userId === null) {
-    throw badRequest('This confirmation link has expired or was already used. Sign in and ask for a new one.', 'token-invalid')
+    throw badRequest(
+      'This confirmation link has expired or was already used. Sign in and ask for a new one.',
+      'token-invalid',
+    )
   }
   // Every other signed-in tab and device reads the new state on its next session fetch.
   const live = await liveSession(event)
-  if (live?.row.id === userId) await refreshSessionUser(event, { ...toSessionUser(live.row), verified: true })
+  if (live?.row.id === userId)
+    await refreshSessionUser(event, { ...toSessionUser(live.row), verified: true })
   return { verified: true }
 })

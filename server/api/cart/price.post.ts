@@ -16,10 +16,15 @@ const body = z.object({
 export default defineEventHandler(async (event): Promise<PricedCart> => {
   const session = await getUserSession(event)
   const user = session.user ? await requireUser(event) : null
-  if (user && !canSeePrices(user)) throw forbidden('A builder\'s account shows no prices; your teacher orders the kits.')
+  if (user && !canSeePrices(user))
+    throw forbidden('A builder\'s account shows no prices; your teacher orders the kits.')
   const input = await readBodyAs(event, body)
-  const merged = [...input.lines.reduce((m, l) => m.set(l.productId, (m.get(l.productId) ?? 0) + l.quantity), new Map<number, number>())]
-    .map(([productId, quantity]) => ({ productId, quantity }))
+  const merged = [
+    ...input.lines.reduce(
+      (m, l) => m.set(l.productId, (m.get(l.productId) ?? 0) + l.quantity),
+      new Map<number, number>(),
+    ),
+  ].map(([productId, quantity]) => ({ productId, quantity }))
   const school = user?.schoolId ? await loadSchool(useDb(), user.schoolId) : null
   const priced = await priceLines(useDb(), merged, schoolTaxBasis(school, input.shipToState))
   const { byId, ...rest } = priced

@@ -16,8 +16,11 @@ export default defineEventHandler(async (event) => {
     console.error('[checkout] the payment service failed:', run.error)
     await giveUpJob(placed.jobId, run.error ?? 'the payment service failed')
     throw createError({
-      statusCode: 502, data: { code: 'payments-down' },
-      message: 'The payment service did not answer. Nothing was ordered or charged; please try again in a minute.',
+      statusCode: 502,
+      data: { code: 'payments-down' },
+      message:
+        'The payment service did not answer. Nothing was ordered or charged; please try again '
+        + 'in a minute.',
     })
   }
   const order = await loadOrder(useDb(), placed.id)

@@ -6,5 +6,10 @@ export default defineEventHandler(async (event): Promise<ProductDetail> => {
   const [entry] = await loadCatalog(useDb(), { activeOnly: true, slug })
   if (!entry) throw notFound('That product')
   const view = withoutPricesIf(await hidePricesFor(event), productView(entry))
-  return { ...view, description: entry.row.description, specs: entry.row.specs, weightGrams: entry.row.weightGrams }
+  return {
+    ...view,
+    description: entry.row.description,
+    specs: entry.row.specs,
+    weightGrams: entry.row.weightGrams,
+  }
 })

@@ -3,5 +3,5 @@
 export default defineEventHandler(async (event) => {
   const catalog = await loadCatalog(useDb(), { activeOnly: true })
   const hide = await hidePricesFor(event)
-  return { data: catalog.map((e) => withoutPricesIf(hide, productView(e))) }
+  return { data: catalog.map(e => withoutPricesIf(hide, productView(e))) }
 })

@@ -6,8 +6,21 @@ import { isQuoteValid } from '../../../shared/utils/shop-rules'
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'teacher')
   if (!user.schoolId) return { data: [] }
-  const rows = await useDb().select().from(quotes).where(eq(quotes.schoolId, user.schoolId)).orderBy(desc(quotes.createdAt), desc(quotes.id)).limit(200)
+  const rows = await useDb()
+    .select()
+    .from(quotes)
+    .where(eq(quotes.schoolId, user.schoolId))
+    .orderBy(desc(quotes.createdAt), desc(quotes.id))
+    .limit(200)
   return {
-    data: rows.map((q) => ({ id: q.id, number: q.number!, createdAt: q.createdAt.toISOString(), validUntil: q.validUntil.toISOString(), totalCents: q.totalCents, orderId: q.orderId, valid: isQuoteValid(q) })),
+    data: rows.map(q => ({
+      id: q.id,
+      number: q.number!,
+      createdAt: q.createdAt.toISOString(),
+      validUntil: q.validUntil.toISOString(),
+      totalCents: q.totalCents,
+      orderId: q.orderId,
+      valid: isQuoteValid(q),
+    })),
   }
 })

@@ -15,14 +15,26 @@ export default defineEventHandler(async (event) => {
     const src = await resolveCheckout(tx, user, { lines: input.lines })
     const now = new Date()
     const validUntil = addDays(now, QUOTE_VALID_DAYS)
-    const [row] = await tx.insert(quotes).values({ schoolId: user.schoolId!, createdById: user.id, ...src.totals, validUntil }).$returningId()
+    const [row] = await tx
+      .insert(quotes)
+      .values({ schoolId: user.schoolId!, createdById: user.id, ...src.totals, validUntil })
+      .$returningId()
     const number = quoteNumberFor(row!.id, now)
     await tx.update(quotes).set({ number }).where(eq(quotes.id, row!.id))
-    await tx.insert(quoteLines).values(src.lines.map((l) => ({ quoteId: row!.id, ...l })))
+    await tx.insert(quoteLines).values(src.lines.map(l => ({ quoteId: row!.id, ...l })))
     const [q] = await tx.select().from(quotes).where(eq(quotes.id, row!.id)).limit(1)
-    const mail = quoteIssuedMail(user.name, { number, totalCents: q!.totalCents, validUntil: toDate(validUntil) }, appUrl(`/quotes/${q!.id}`))
+    const mail = quoteIssuedMail(
+      user.name,
+      { number, totalCents: q!.totalCents, validUntil: toDate(validUntil) },
+      appUrl(`/quotes/${q!.id}`),
+    )
     await enqueueMail(tx, 'quote-issued', user.email, mail, [{ document: 'quote', quoteId: q!.id }])
-    await audit(tx, { actorId: user.id, action: 'quote.issued', subjectType: 'quote', subjectId: q!.id })
+    await audit(tx, {
+      actorId: user.id,
+      action: 'quote.issued',
+      subjectType: 'quote',
+      subjectId: q!.id,
+    })
     return { id: q!.id, number, totalCents: q!.totalCents, validUntil: validUntil.toISOString() }
   })
   setResponseStatus(event, 201)

@@ -15,6 +15,7 @@ export default defineEventHandler(async (event) => {
     ...(input.title ? { title: input.title } : {}),
     ...(input.note !== undefined ? { note: input.note } : {}),
   }
-  if (Object.keys(changes).length) await useDb().update(tuningSheets).set(changes).where(eq(tuningSheets.id, id))
+  if (Object.keys(changes).length)
+    await useDb().update(tuningSheets).set(changes).where(eq(tuningSheets.id, id))
   return await loadVisibleSheet(user, id)
 })

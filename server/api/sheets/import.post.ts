@@ -5,7 +5,12 @@ import { sheetResults } from '../../../shared/utils/sheets'
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'teacher', 'builder')
   const file = await readBodyAs(event, sheetFileSchema)
-  const id = await insertSheet(user.id, { title: file.title, note: file.note ?? null, inputs: file.inputs, results: sheetResults(file.inputs) })
+  const id = await insertSheet(user.id, {
+    title: file.title,
+    note: file.note ?? null,
+    inputs: file.inputs,
+    results: sheetResults(file.inputs),
+  })
   setResponseStatus(event, 201)
   return { id }
 })

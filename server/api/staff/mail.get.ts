@@ -2,7 +2,11 @@
 // single-use link masked, so the viewer cannot be used to take over a customer's account.
 import { maskSingleUseLinks } from '../../../shared/utils/mask-links'
 
-interface Caught { text?: string; html?: string | null; [k: string]: unknown }
+interface Caught {
+  text?: string
+  html?: string | null
+  [k: string]: unknown
+}
 
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'admin')
@@ -12,11 +16,17 @@ export default defineEventHandler(async (event) => {
   try {
     caught = await $fetch<{ data: Caught[] }>('/messages', { baseURL: cfg.mailCatcherUrl })
   } catch {
-    throw createError({ statusCode: 503, message: 'The local mail catcher is not running.', data: { code: 'catcher-down' } })
+    throw createError({
+      statusCode: 503,
+      message: 'The local mail catcher is not running.',
+      data: { code: 'catcher-down' },
+    })
   }
   return {
-    data: caught.data.map((m) => ({
-      ...m, text: maskSingleUseLinks(m.text ?? ''), html: m.html ? maskSingleUseLinks(m.html) : null,
+    data: caught.data.map(m => ({
+      ...m,
+      text: maskSingleUseLinks(m.text ?? ''),
+      html: m.html ? maskSingleUseLinks(m.html) : null,
     })),
   }
 })

@@ -8,8 +8,12 @@ import { verifyWebhook, type PaymentEvent } from '../../services/payments'
 
 /** The order the object belongs to: by the id stored on the order, else the one its
  *  metadata names (only so a mismatch can be shown on that order's timeline). */
-async function orderFor(tx: Tx, column: typeof orders.checkoutSessionId | typeof orders.invoiceId, objectId: string,
-  metadata: Record<string, string> | null | undefined) {
+async function orderFor(
+  tx: Tx,
+  column: typeof orders.checkoutSessionId | typeof orders.invoiceId,
+  objectId: string,
+  metadata: Record<string, string> | null | undefined,
+) {
   const [own] = await tx.select({ id: orders.id }).from(orders).where(eq(column, objectId)).limit(1)
   if (own) return own.id
   const named = Number(metadata?.orderId)
@@ -24,8 +28,12 @@ async function handle(tx: Tx, evt: PaymentEvent) {
     if (!orderId) return 'unknown-order'
     const intent = typeof s.payment_intent === 'string' ? s.payment_intent : null
     return receivePayment(tx, orderId, {
-      objectId: s.id, via: 'checkout', amountCents: s.amount_total ?? 0, currency: s.currency ?? '',
-      paymentIntent: intent, reference: intent ?? s.id,
+      objectId: s.id,
+      via: 'checkout',
+      amountCents: s.amount_total ?? 0,
+      currency: s.currency ?? '',
+      paymentIntent: intent,
+      reference: intent ?? s.id,
     })
   }
   if (evt.type === 'invoice.paid') {
@@ -35,8 +43,12 @@ async function handle(tx: Tx, evt: PaymentEvent) {
     if ((inv as { paid_out_of_band?: boolean }).paid_out_of_band) return 'ignored'
     const intent = (inv as { payment_intent?: string | null }).payment_intent ?? null
     return receivePayment(tx, orderId, {
-      objectId: inv.id!, via: 'invoice', amountCents: inv.amount_paid, currency: inv.currency,
-      paymentIntent: intent, reference: `invoice ${inv.number ?? inv.id}`,
+      objectId: inv.id!,
+      via: 'invoice',
+      amountCents: inv.amount_paid,
+      currency: inv.currency,
+      paymentIntent: intent,
+      reference: `invoice ${inv.number ?? inv.id}`,
     })
   }
   return 'ignored'

@@ -1,7 +1,12 @@
 // Checking a set of gains (DOMAIN.md §4): margins on the continuous loop with its 1.5·T delay,
 // exact stability of the sampled loop, and step metrics of the sampled loop.
 import { filterTimeConstant } from './design'
-import { analyzeFrequency, closedLoopBandwidth, type LoopParams, type PlantTable } from './frequency'
+import {
+  analyzeFrequency,
+  closedLoopBandwidth,
+  type LoopParams,
+  type PlantTable,
+} from './frequency'
 import { plantOf, type Plant } from './plant'
 import { diskStable, sampledCharacteristicW, sampledStepMetrics, type SampledLoop } from './sampled'
 import type { Discretization, Gains, Rig } from './schema'
@@ -16,9 +21,15 @@ export interface LoopAnalysis {
   nyquistStable: boolean
   /** Every root of the sampled loop's characteristic polynomial inside the unit circle. */
   sampledStable: boolean
-  /** dB; null = no phase crossover (unbounded). See FrequencyAnalysis for conditionally stable loops. */
+  /**
+   * dB; null = no phase crossover (unbounded). See FrequencyAnalysis for conditionally stable
+   * loops.
+   */
   gainMarginDb: number | null
-  /** dB (≤ 0) a gain reduction tolerated, for loops with a low-frequency phase crossover (PID); else null. */
+  /**
+   * dB (≤ 0) a gain reduction tolerated, for loops with a low-frequency phase crossover (PID); else
+   * null.
+   */
   gainReductionMarginDb: number | null
   /** Degrees; null = no gain crossover. */
   phaseMarginDeg: number | null
@@ -62,7 +73,11 @@ export function loopParamsOf(plant: Plant, gains: Gains): LoopParams {
   }
 }
 
-export function sampledLoopOf(plant: Plant, gains: Gains, discretization: Discretization = 'backward-euler'): SampledLoop {
+export function sampledLoopOf(
+  plant: Plant,
+  gains: Gains,
+  discretization: Discretization = 'backward-euler',
+): SampledLoop {
   return {
     kb: plant.kb,
     servoLag: plant.servoLag,
@@ -93,20 +108,24 @@ export function quickVerdict(
   loop: LoopParams,
   sampled: SampledLoop,
   table?: PlantTable,
-  plantW?: { num: number[]; den: number[] },
+  plantW?: { num: number[], den: number[] },
 ) {
   const f = analyzeFrequency(loop, table)
   const sampledOk = diskStable(sampledCharacteristicW(sampled, plantW))
-  const stable =
-    f.nyquistStable &&
-    sampledOk &&
-    (f.gainMarginDb === null || f.gainMarginDb > 0) &&
-    f.phaseMarginDeg !== null &&
-    f.phaseMarginDeg > 0
+  const stable
+    = f.nyquistStable
+      && sampledOk
+      && (f.gainMarginDb === null || f.gainMarginDb > 0)
+      && f.phaseMarginDeg !== null
+      && f.phaseMarginDeg > 0
   return { f, sampledOk, stable }
 }
 
-export function analyzePlantLoop(plant: Plant, gains: Gains, options: AnalyzeOptions = {}): LoopAnalysis {
+export function analyzePlantLoop(
+  plant: Plant,
+  gains: Gains,
+  options: AnalyzeOptions = {},
+): LoopAnalysis {
   const loop = loopParamsOf(plant, gains)
   const sampled = sampledLoopOf(plant, gains, options.discretization)
   const { f, sampledOk, stable: marginsOk } = quickVerdict(loop, sampled)

@@ -10,14 +10,14 @@ export interface CalibrationPair {
   position: number
 }
 
-export type CalibrationIssueCode =
-  | 'reading-at-zero'
-  | 'reading-at-full-scale'
-  | 'reading-outside-adc-range'
-  | 'too-few-readings'
-  | 'readings-identical'
-  | 'poor-fit'
-  | 'outlier'
+export type CalibrationIssueCode
+  = | 'reading-at-zero'
+    | 'reading-at-full-scale'
+    | 'reading-outside-adc-range'
+    | 'too-few-readings'
+    | 'readings-identical'
+    | 'poor-fit'
+    | 'outlier'
 
 export interface CalibrationIssue {
   code: CalibrationIssueCode
@@ -42,7 +42,7 @@ export interface CalibrationFit {
   /** position − fitted position per pair, m; null for a reading left out. */
   residuals: (number | null)[]
   /** Largest |residual| among the readings used. */
-  worstResidual: { index: number; residual: number } | null
+  worstResidual: { index: number, residual: number } | null
   /** Readings used in the fit. */
   used: number
   issues: CalibrationIssue[]
@@ -60,23 +60,29 @@ export function fitCalibration(pairs: readonly CalibrationPair[], adcBits: numbe
       issues.push({
         code: 'reading-outside-adc-range',
         index: i,
-        message: `Reading ${fmt(p.reading)} at ${where} is outside what a ${adcBits}-bit ADC can give (0 to ${fullScale}); check it was typed right.`,
+        message:
+          `Reading ${fmt(p.reading)} at ${where} is outside what a ${adcBits}-bit ADC can `
+          + `give (0 to ${fullScale}); check it was typed right.`,
       })
     } else if (p.reading <= 0) {
       issues.push({
         code: 'reading-at-zero',
         index: i,
         message:
-          `Reading 0 at ${where}: the sensor sees no ball there. The ball is off the rails or not touching both, ` +
-          'or it does not conduct (glass and plastic balls cannot be sensed). Left out of the fit.',
+          `Reading 0 at ${where}: the sensor sees no ball there. The ball is off the rails or `
+          + `not touching both, `
+          + 'or it does not conduct (glass and plastic balls cannot be sensed). Left out of the '
+          + 'fit.',
       })
     } else if (p.reading >= fullScale) {
       issues.push({
         code: 'reading-at-full-scale',
         index: i,
         message:
-          `Reading ${fullScale} (full scale) at ${where}: the sensor sees no ball there, or the rail is wired ` +
-          'with the wrong reference. A ball that does not conduct reads like this too. Left out of the fit.',
+          `Reading ${fullScale} (full scale) at ${where}: the sensor sees no ball there, or `
+          + `the rail is wired `
+          + 'with the wrong reference. A ball that does not conduct reads like this too. Left '
+          + 'out of the fit.',
       })
     } else {
       use.push(i)
@@ -97,7 +103,12 @@ export function fitCalibration(pairs: readonly CalibrationPair[], adcBits: numbe
     issues,
   }
   if (use.length < 2) {
-    issues.push({ code: 'too-few-readings', index: null, message: 'At least two good readings at different positions are needed for a calibration line.' })
+    issues.push({
+      code: 'too-few-readings',
+      index: null,
+      message:
+        'At least two good readings at different positions are needed for a calibration line.',
+    })
     return empty
   }
   let mx = 0
@@ -119,25 +130,34 @@ export function fitCalibration(pairs: readonly CalibrationPair[], adcBits: numbe
     syy += dy * dy
   }
   if (!(sxx > 0)) {
-    issues.push({ code: 'readings-identical', index: null, message: 'Every good reading is the same, so no line can be fitted: move the ball further between readings.' })
+    issues.push({
+      code: 'readings-identical',
+      index: null,
+      message:
+        'Every good reading is the same, so no line can be fitted: move the ball further '
+        + 'between readings.',
+    })
     return empty
   }
   const slope = sxy / sxx
   const offset = my - slope * mx
   let sse = 0
-  let worst: { index: number; residual: number } | null = null
+  let worst: { index: number, residual: number } | null = null
   for (const i of use) {
     const res = pairs[i]!.position - (slope * pairs[i]!.reading + offset)
     residuals[i] = res
     sse += res * res
-    if (worst === null || Math.abs(res) > Math.abs(worst.residual)) worst = { index: i, residual: res }
+    if (worst === null || Math.abs(res) > Math.abs(worst.residual))
+      worst = { index: i, residual: res }
   }
   const r2 = syy > 0 ? 1 - sse / syy : 1
   if (r2 < R2_MIN) {
     issues.push({
       code: 'poor-fit',
       index: null,
-      message: `The readings do not lie on a straight line (R² = ${fmt(r2, 4)}): a rail may be dirty or loose, or a position was misread.`,
+      message:
+        `The readings do not lie on a straight line (R² = ${fmt(r2, 4)}): a rail may be dirty `
+        + `or loose, or a position was misread.`,
     })
   }
   if (use.length >= 4 && worst !== null) {
@@ -149,7 +169,10 @@ export function fitCalibration(pairs: readonly CalibrationPair[], adcBits: numbe
       issues.push({
         code: 'outlier',
         index: worst.index,
-        message: `The reading at ${fmt(pairs[worst.index]!.position * 1000)} mm is ${fmt(Math.abs(worst.residual) * 1000, 2)} mm off the line, far more than the others: measure it again.`,
+        message:
+          `The reading at ${fmt(pairs[worst.index]!.position * 1000)} mm is `
+          + `${fmt(Math.abs(worst.residual) * 1000, 2)} mm off the line, far more than the `
+          + `others: measure it again.`,
       })
     }
   }

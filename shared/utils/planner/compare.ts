@@ -5,7 +5,12 @@ import { analyzePlantLoop, sampledLoopOf, type LoopAnalysis } from './analyze'
 import { designGains } from './design'
 import { plantOf } from './plant'
 import { polynomialRoots } from './roots'
-import { sampledCharacteristicW, sampledStepResponse, type SampledLoop, type StepResponse } from './sampled'
+import {
+  sampledCharacteristicW,
+  sampledStepResponse,
+  type SampledLoop,
+  type StepResponse,
+} from './sampled'
 import type { Gains, Rig, Targets } from './schema'
 
 export interface ProportionalOscillation {
@@ -26,12 +31,27 @@ export interface ProportionalOscillation {
  * sampled loop itself (its characteristic polynomial, roots by Aberth's method, s = ln z / T);
  * with T = 0 the continuous loop K_b·Kp/(s²(τ_s s + 1)), roots of τ_s s³ + s² + K_b·Kp.
  */
-export function proportionalOscillation(kb: number, kp: number, servoLag: number, period: number): ProportionalOscillation {
+export function proportionalOscillation(
+  kb: number,
+  kp: number,
+  servoLag: number,
+  period: number,
+): ProportionalOscillation {
   const w0 = Math.sqrt(kb * kp)
   let growthRate = 0
   let frequency = w0
   if (period > 0) {
-    const loop: SampledLoop = { kb, servoLag, period, kp, ki: 0, kd: 0, tf: 0, derivativeOn: 'measurement', discretization: 'backward-euler' }
+    const loop: SampledLoop = {
+      kb,
+      servoLag,
+      period,
+      kp,
+      ki: 0,
+      kd: 0,
+      tf: 0,
+      derivativeOn: 'measurement',
+      discretization: 'backward-euler',
+    }
     let best = -Infinity
     for (const w of polynomialRoots(sampledCharacteristicW(loop))) {
       const zr = 1 + w.re
@@ -80,14 +100,24 @@ export interface ProportionalVsPd {
  * The suggested PD next to P only with the same Kp (or Kp = ω_n²/K_b when no PD suggestion
  * exists), both as the sampled loop responds to a unit step.
  */
-export function compareProportionalAndPd(rig: Rig, targets: Targets, duration?: number): ProportionalVsPd {
+export function compareProportionalAndPd(
+  rig: Rig,
+  targets: Targets,
+  duration?: number,
+): ProportionalVsPd {
   const plant = plantOf(rig)
   const pdTargets: Targets = { ...targets, form: 'PD' }
   const design = designGains(plant, pdTargets)
   const kp = design.kp ?? (design.wn * design.wn) / plant.kb
   const oscillation = proportionalOscillation(plant.kb, kp, plant.servoLag, plant.period)
   const length = duration ?? Math.max(3 * targets.settlingTime, 2 * oscillation.idealPeriod)
-  const pGains: Gains = { kp, kd: 0, ki: 0, n: targets.derivativeFilterN, derivativeOn: targets.derivativeOn }
+  const pGains: Gains = {
+    kp,
+    kd: 0,
+    ki: 0,
+    n: targets.derivativeFilterN,
+    derivativeOn: targets.derivativeOn,
+  }
   const pOnly = {
     gains: pGains,
     analysis: analyzePlantLoop(plant, pGains),
@@ -96,7 +126,13 @@ export function compareProportionalAndPd(rig: Rig, targets: Targets, duration?: 
   }
   let pd: ControllerShowing = { gains: null, analysis: null, response: null }
   if (design.feasible && design.kp !== null && design.kd !== null) {
-    const g: Gains = { kp: design.kp, kd: design.kd, ki: 0, n: targets.derivativeFilterN, derivativeOn: targets.derivativeOn }
+    const g: Gains = {
+      kp: design.kp,
+      kd: design.kd,
+      ki: 0,
+      n: targets.derivativeFilterN,
+      derivativeOn: targets.derivativeOn,
+    }
     pd = {
       gains: g,
       analysis: analyzePlantLoop(plant, g),

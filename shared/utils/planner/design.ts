@@ -75,10 +75,11 @@ export function settlingTimeBounds(
   zeta: number,
   form: Targets['form'],
   integralPole?: number,
-): { fastest: number | null; recommended: number | null } {
+): { fastest: number | null, recommended: number | null } {
   const tau = effectiveLag
   if (form !== 'PID') return { fastest: 8 * tau, recommended: 28 * tau }
-  if (integralPole === undefined) return { fastest: tau * (8 + 1 / zeta), recommended: tau * (28 + 1 / zeta) }
+  if (integralPole === undefined)
+    return { fastest: tau * (8 + 1 / zeta), recommended: tau * (28 + 1 / zeta) }
   const room = 1 / tau - integralPole
   if (room <= 0) return { fastest: null, recommended: null }
   return { fastest: 8 / room, recommended: 28 / room }
@@ -105,7 +106,15 @@ export function designGains(plant: Plant, targets: Targets): GainDesign {
   const pi = targets.form === 'PID' ? (targets.integralPole ?? 0.25 * wn) : 0
   if (targets.method === 'ideal') {
     if (targets.form === 'PD') {
-      return { ...base, feasible: true, kp: w2 / kb, kd: sw / kb, ki: 0, p3: null, integralPole: null }
+      return {
+        ...base,
+        feasible: true,
+        kp: w2 / kb,
+        kd: sw / kb,
+        ki: 0,
+        p3: null,
+        integralPole: null,
+      }
     }
     return {
       ...base,

@@ -32,7 +32,10 @@ export interface FirmwareConstants {
   kiTDegPerCount: number
   /** Kd in servo degrees per mm/s of ball speed, for people rather than firmware. */
   kdDegPerMmPerS: number
-  /** Clamp the command to ±this, degrees: half the servo travel, or less where a lever linkage folds back. */
+  /**
+   * Clamp the command to ±this, degrees: half the servo travel, or less where a lever linkage folds
+   * back.
+   */
   servoLimitDeg: number
   /** A C block to paste into the sketch. */
   cSource: string
@@ -51,7 +54,16 @@ export interface FirmwareJson {
   kiTDegPerCount: number
   servoLimitDeg: number
   countsPerMeter: number
-  units: Record<'kpDegPerCount' | 'dA' | 'dBDegPerCount' | 'kiTDegPerCount' | 'servoLimitDeg' | 'countsPerMeter' | 'loopRateHz', string>
+  units: Record<
+    | 'kpDegPerCount'
+    | 'dA'
+    | 'dBDegPerCount'
+    | 'kiTDegPerCount'
+    | 'servoLimitDeg'
+    | 'countsPerMeter'
+    | 'loopRateHz',
+    string
+  >
 }
 
 export interface FirmwareOptions {
@@ -65,7 +77,11 @@ function c(value: number): string {
   return `${s}f`
 }
 
-export function firmwareConstants(rig: Rig, gains: Gains, options: FirmwareOptions = {}): FirmwareConstants {
+export function firmwareConstants(
+  rig: Rig,
+  gains: Gains,
+  options: FirmwareOptions = {},
+): FirmwareConstants {
   const plant = plantOf(rig)
   const T = plant.period
   const ks = plant.countsPerMeter
@@ -78,9 +94,11 @@ export function firmwareConstants(rig: Rig, gains: Gains, options: FirmwareOptio
       code: 'tustin-refused',
       severity: 'warning',
       message:
-        `The Tustin form needs the derivative filter to be at least half a sample long (T_f ≥ ${fmt(T / 2 * 1000)} ms), ` +
-        `but it is ${fmt(tf * 1000)} ms: the derivative would flip sign every sample and make the servo buzz. ` +
-        'These constants use backward Euler instead, which is always stable.',
+        `The Tustin form needs the derivative filter to be at least half a sample long (T_f ≥ `
+        + `${fmt((T / 2) * 1000)} ms), `
+        + `but it is ${fmt(tf * 1000)} ms: the derivative would flip sign every sample and make `
+        + `the servo buzz. `
+        + 'These constants use backward Euler instead, which is always stable.',
     })
     discretization = 'backward-euler'
     coef = derivativeCoefficients(gains.kd, tf, T, discretization)
@@ -91,13 +109,15 @@ export function firmwareConstants(rig: Rig, gains: Gains, options: FirmwareOptio
   const kiTDegPerCount = (kiT * DEG) / ks
   // Clamp where the servo stops or, for a lever, where the linkage would start to fold back.
   const range = beamAngleRange(rig)
-  const servoLimitDeg = Math.min(Math.abs(range.maxAtServoAngle), Math.abs(range.minAtServoAngle)) * DEG
+  const servoLimitDeg
+    = Math.min(Math.abs(range.maxAtServoAngle), Math.abs(range.minAtServoAngle)) * DEG
   const loopRateHz = rig.loopRate
   const sSignal = gains.derivativeOn === 'measurement' ? '-reading' : 'error'
   const method = discretization === 'tustin' ? 'Tustin' : 'backward Euler'
   const cSource = [
     '/* Tiltwright Gain Planner: firmware constants.',
-    ` * Loop rate ${fmt(loopRateHz)} Hz (T = ${fmt(T * 1000)} ms), derivative on ${gains.derivativeOn}, ${method}.`,
+    ` * Loop rate ${fmt(loopRateHz)} Hz (T = ${fmt(T * 1000)} ms), derivative on `
+    + `${gains.derivativeOn}, ${method}.`,
     ' * Units: ADC counts in, servo degrees out (0 = beam level). Every sample:',
     ' *   error = setpoint - reading;                       counts',
     ` *   s = ${sSignal};`,
@@ -109,7 +129,8 @@ export function firmwareConstants(rig: Rig, gains: Gains, options: FirmwareOptio
     `#define TW_KP               ${c(kpDegPerCount)}  /* servo deg per count of error */`,
     `#define TW_D_A              ${c(coef.a)}  /* derivative filter pole, no unit */`,
     `#define TW_D_B              ${c(bDegPerCount)}  /* servo deg per count of change in s */`,
-    `#define TW_KI_T             ${c(kiTDegPerCount)}  /* servo deg per count of error per sample */`,
+    `#define TW_KI_T             ${c(kiTDegPerCount)}  /* servo deg per count of error per `
+    + `sample */`,
     `#define TW_SERVO_LIMIT_DEG  ${c(servoLimitDeg)}  /* deg either side of level */`,
     `#define TW_COUNTS_PER_M     ${c(ks)}  /* sensor counts per metre */`,
     '',

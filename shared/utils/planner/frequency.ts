@@ -42,18 +42,25 @@ export interface FrequencyAnalysis {
    * (negative when a crossover has |L| > 1). null = no phase crossover (unbounded).
    */
   gainMarginDb: number | null
-  /** Stable loops only: how far the gain may fall before a low-frequency crossover bites (≤ 0 dB). */
+  /**
+   * Stable loops only: how far the gain may fall before a low-frequency crossover bites (≤ 0 dB).
+   */
   gainReductionMarginDb: number | null
   /** Frequency of the gain-margin crossover, rad/s. */
   phaseCrossover: number | null
-  /** Minimum over gain crossovers of 180° + unwrapped phase, degrees (below 90°; negative when lacking). */
+  /**
+   * Minimum over gain crossovers of 180° + unwrapped phase, degrees (below 90°; negative when
+   * lacking).
+   */
   phaseMarginDeg: number | null
   /** Frequency of the phase-margin crossover, rad/s. */
   gainCrossover: number | null
-  /** Extra pure delay the loop tolerates, s: 0 for an unstable loop, null without a gain crossover. */
+  /**
+   * Extra pure delay the loop tolerates, s: 0 for an unstable loop, null without a gain crossover.
+   */
   delayMargin: number | null
   gainCrossovers: number[]
-  phaseCrossovers: { frequency: number; magnitude: number }[]
+  phaseCrossovers: { frequency: number, magnitude: number }[]
 }
 
 export const GRID_PER_DECADE = 16
@@ -117,7 +124,14 @@ function magnitudeBound2(p: LoopParams, w: number): number {
 }
 
 /** Brent's root finder on [a, b] with f(a), f(b) of opposite signs. */
-export function brent(f: (x: number) => number, a: number, b: number, fa: number, fb: number, tol = 1e-13): number {
+export function brent(
+  f: (x: number) => number,
+  a: number,
+  b: number,
+  fa: number,
+  fb: number,
+  tol = 1e-13,
+): number {
   if (fa === 0) return a
   if (fb === 0) return b
   let c = a
@@ -176,7 +190,7 @@ export function brent(f: (x: number) => number, a: number, b: number, fa: number
   return b
 }
 
-function characteristicRange(p: LoopParams): { lo: number; hi: number } | null {
+function characteristicRange(p: LoopParams): { lo: number, hi: number } | null {
   let lo = Infinity
   let hi = 0
   const consider = (f: number) => {
@@ -230,16 +244,16 @@ export function analyzeFrequency(p: LoopParams, table?: PlantTable): FrequencyAn
   // indentation and of (0, ω_k0] follows from the phase at ω_k0 alone, since |L| > 1 there.
   let k0 = Math.max(0, Math.floor(gridIndex(range.lo * 0.1)))
   const kEnd = Math.min(GRID_SIZE - 1, Math.ceil(gridIndex(range.hi * 1e3)))
-  while (k0 > 0 && loopMagnitude2(p, FREQUENCY_GRID[k0]!) <= 1) k0 = Math.max(0, k0 - GRID_PER_DECADE)
+  while (k0 > 0 && loopMagnitude2(p, FREQUENCY_GRID[k0]!) <= 1)
+    k0 = Math.max(0, k0 - GRID_PER_DECADE)
 
   const logMag = (u: number) => Math.log(loopMagnitude2(p, Math.exp(u)))
   const gainCrossovers: number[] = []
-  const phaseCrossovers: { frequency: number; magnitude: number }[] = []
+  const phaseCrossovers: { frequency: number, magnitude: number }[] = []
   let net = 0 // signed crossings of the negative real axis left of −1, ω > 0
   let bestBelow = -1 // largest |L|² < 1 at a phase crossover
   let bestBelowW = 0
   let worstAbove = Infinity // smallest |L|² > 1 at a phase crossover
-  let worstAboveW = 0
 
   let prevPh = 0
   let prevM2 = 0
@@ -266,7 +280,13 @@ export function analyzeFrequency(p: LoopParams, table?: PlantTable): FrequencyAn
       arc = -fl
     } else {
       if ((prevM2 - 1) * (m2 - 1) < 0 || (m2 === 1 && prevM2 !== 1)) {
-        const u = brent(logMag, Math.log(FREQUENCY_GRID[k - 1]!), Math.log(w), Math.log(prevM2), Math.log(m2))
+        const u = brent(
+          logMag,
+          Math.log(FREQUENCY_GRID[k - 1]!),
+          Math.log(w),
+          Math.log(prevM2),
+          Math.log(m2),
+        )
         gainCrossovers.push(Math.exp(u))
       }
       if (fl !== prevFl) {
@@ -277,7 +297,13 @@ export function analyzeFrequency(p: LoopParams, table?: PlantTable): FrequencyAn
           // crossing of ξ = j, i.e. phase = 2πj − π
           const target = TWO_PI * j - Math.PI
           const f = (u: number) => loopPhase(p, Math.exp(u)) - target
-          const u = brent(f, Math.log(FREQUENCY_GRID[k - 1]!), Math.log(w), prevPh - target, ph - target)
+          const u = brent(
+            f,
+            Math.log(FREQUENCY_GRID[k - 1]!),
+            Math.log(w),
+            prevPh - target,
+            ph - target,
+          )
           const wc = Math.exp(u)
           const mc = loopMagnitude2(p, wc)
           phaseCrossovers.push({ frequency: wc, magnitude: Math.sqrt(mc) })
@@ -285,7 +311,6 @@ export function analyzeFrequency(p: LoopParams, table?: PlantTable): FrequencyAn
             net += down ? 1 : -1
             if (mc < worstAbove) {
               worstAbove = mc
-              worstAboveW = wc
             }
           } else if (mc > bestBelow) {
             bestBelow = mc

@@ -89,11 +89,25 @@ export function beamAngleRange(rig: Rig): BeamAngleRange {
   const half = rig.servoTravel / 2
   if (rig.drive === 'direct') {
     const a = half / (rig.gearRatio ?? 1)
-    return { max: a, min: -a, maxAtServoAngle: half, minAtServoAngle: -half, smallAngle: a, reachable: true }
+    return {
+      max: a,
+      min: -a,
+      maxAtServoAngle: half,
+      minAtServoAngle: -half,
+      smallAngle: a,
+      reachable: true,
+    }
   }
   const g = leverGeometryOf(rig)
   const c = lastRange
-  if (c !== null && c.d === g.leverArm && c.la === g.pivotToLink && c.l === g.pushrodLength && c.half === half) return c.range
+  if (
+    c !== null
+    && c.d === g.leverArm
+    && c.la === g.pivotToLink
+    && c.l === g.pushrodLength
+    && c.half === half
+  )
+    return c.range
   const [lo, hi] = reachableServoRange(g, half)
   const top = extremeAngle(g, 0, hi, 1)
   const bottom = extremeAngle(g, 0, lo, -1)
@@ -110,10 +124,19 @@ export function beamAngleRange(rig: Rig): BeamAngleRange {
 }
 
 // One planner call asks for the same range several times (limits, firmware, simulation).
-let lastRange: { d: number; la: number; l: number; half: number; range: BeamAngleRange } | null = null
+let lastRange: { d: number, la: number, l: number, half: number, range: BeamAngleRange } | null
+  = null
 
-/** The extreme (sign·α largest) of the linkage between servo angles 0 and `end`: a scan, then golden-section refinement. */
-function extremeAngle(g: LeverGeometry, start: number, end: number, sign: 1 | -1): { theta: number; alpha: number } {
+/**
+ * The extreme (sign·α largest) of the linkage between servo angles 0 and `end`: a scan, then
+ * golden-section refinement.
+ */
+function extremeAngle(
+  g: LeverGeometry,
+  start: number,
+  end: number,
+  sign: 1 | -1,
+): { theta: number, alpha: number } {
   const f = (t: number) => sign * (leverBeamAngle(t, g) ?? 0)
   const steps = 32
   let best = end

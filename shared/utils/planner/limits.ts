@@ -20,7 +20,10 @@ export interface PlannerLimits {
   maxStep: number | null
   /** ±travel/2, rad. */
   servoHalfTravel: number
-  /** The command range that still tilts the beam further: ±travel/2, or less where the lever linkage folds back, rad. */
+  /**
+   * The command range that still tilts the beam further: ±travel/2, or less where the lever linkage
+   * folds back, rad.
+   */
   usableServoTravel: number
   /** omega_max, rad/s. */
   servoSlewLimit: number
@@ -53,8 +56,12 @@ export function computeLimits(
   const usable = Math.min(Math.abs(range.maxAtServoAngle), Math.abs(range.minAtServoAngle))
   const maxStepTravel = peakU !== null && peakU > 0 ? usable / peakU : null
   const maxStepSlew = peakRate !== null && peakRate > 0 ? plant.slewLimit / peakRate : null
-  const maxStep =
-    maxStepTravel === null ? maxStepSlew : maxStepSlew === null ? maxStepTravel : Math.min(maxStepTravel, maxStepSlew)
+  const maxStep
+    = maxStepTravel === null
+      ? maxStepSlew
+      : maxStepSlew === null
+        ? maxStepTravel
+        : Math.min(maxStepTravel, maxStepSlew)
   const jump = (gains.kp * (1 + gains.n)) / plant.countsPerMeter
   const tf = filterTimeConstant(gains.kp, gains.kd, gains.n)
   const { b } = derivativeCoefficients(gains.kd, tf, plant.period, discretization)

@@ -53,7 +53,7 @@ function axis(range: [number, number], count: number, scale: 'linear' | 'log'): 
 export function stabilityMap(
   rig: Rig,
   options: StabilityMapOptions,
-  resolution: number | { kp: number; kd: number } = 60,
+  resolution: number | { kp: number, kd: number } = 60,
 ): StabilityMap {
   const plant = plantOf(rig)
   const nKp = Math.max(1, Math.round(typeof resolution === 'number' ? resolution : resolution.kp))
@@ -64,7 +64,15 @@ export function stabilityMap(
   const ki = options.ki ?? 0
   const table = plantTable(plant.kb, plant.servoLag, plant.delay)
   const zoh = discretizePlantW(plant.kb, plant.servoLag, plant.period)
-  const loop: LoopParams = { kb: plant.kb, servoLag: plant.servoLag, delay: plant.delay, kp: 0, ki, kd: 0, tf: 0 }
+  const loop: LoopParams = {
+    kb: plant.kb,
+    servoLag: plant.servoLag,
+    delay: plant.delay,
+    kp: 0,
+    ki,
+    kd: 0,
+    tf: 0,
+  }
   const sampled: SampledLoop = {
     kb: plant.kb,
     servoLag: plant.servoLag,
@@ -102,5 +110,12 @@ export function stabilityMap(
     pm.push(pRow)
     gm.push(gRow)
   }
-  return { kp: kps, kd: kds, stable, phaseMarginDeg: pm, gainMarginDb: gm, stableFraction: count / (nKp * nKd) }
+  return {
+    kp: kps,
+    kd: kds,
+    stable,
+    phaseMarginDeg: pm,
+    gainMarginDb: gm,
+    stableFraction: count / (nKp * nKd),
+  }
 }

@@ -8,8 +8,15 @@ import { plantOf, type Plant } from './plant'
 import type { Discretization, Gains, Rig, Targets } from './schema'
 import { collectWarnings, type PlannerWarning } from './warnings'
 
-/** The design's ζ, ω_n, third pole, integral pole and settling-time bounds, as designGains gives them. */
-export interface GainPlan extends Pick<GainDesign, 'zeta' | 'wn' | 'p3' | 'integralPole' | 'fastestSettlingTime' | 'recommendedSettlingTime'> {
+/**
+ * The design's ζ, ω_n, third pole, integral pole and settling-time bounds, as designGains gives
+ * them.
+ */
+export interface GainPlan
+  extends Pick<
+    GainDesign,
+    'zeta' | 'wn' | 'p3' | 'integralPole' | 'fastestSettlingTime' | 'recommendedSettlingTime'
+  > {
   plant: Plant
   /**
    * The targets can be met: the method yields gains (lag-aware: p3 > 0; P only: never) and those
@@ -52,7 +59,10 @@ export function planGains(rig: Rig, targets: Targets): GainPlan {
     }
     // Tustin is only honoured where it is stable; the check then matches what the firmware runs.
     let discretization: Discretization = targets.discretization ?? 'backward-euler'
-    if (discretization === 'tustin' && filterTimeConstant(gains.kp, gains.kd, gains.n) < plant.period / 2) {
+    if (
+      discretization === 'tustin'
+      && filterTimeConstant(gains.kp, gains.kd, gains.n) < plant.period / 2
+    ) {
       discretization = 'backward-euler'
     }
     analysis = analyzePlantLoop(plant, gains, {

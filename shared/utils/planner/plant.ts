@@ -54,7 +54,12 @@ export function countsPerMeter(adcBits: number, sensorLength: number, spanRatio 
 }
 
 /** K_b for a lever linkage (small angle): eta·g·d/L_a. */
-export function leverPlantGain(eta: number, gravity: number, leverArm: number, pivotToLink: number): number {
+export function leverPlantGain(
+  eta: number,
+  gravity: number,
+  leverArm: number,
+  pivotToLink: number,
+): number {
   return (eta * gravity * leverArm) / pivotToLink
 }
 
@@ -94,7 +99,8 @@ export function plantOf(rig: Rig): Plant {
   const radius = rig.ballDiameter / 2
   const kJ = shapeFactor(rig.ballShell)
   const eta = accelerationFactor(kJ, radius, rig.railGap)
-  const driveRatio = rig.drive === 'lever' ? rig.leverArm / rig.pivotToLink : 1 / (rig.gearRatio ?? 1)
+  const driveRatio
+    = rig.drive === 'lever' ? rig.leverArm / rig.pivotToLink : 1 / (rig.gearRatio ?? 1)
   const tauS = servoLag(rig.servoSecondsPer60)
   const period = 1 / rig.loopRate
   const delay = LOOP_DELAY_SAMPLES * period
@@ -199,12 +205,17 @@ export function psi3(z: number): number {
 }
 
 /**
- * The same ZOH plant in w = z − 1, highest power first: X/U = N(w)/(w²(w + ε)) with ε = 1 − e^(−T/τ_s),
+ * The same ZOH plant in w = z − 1, highest power first: X/U = N(w)/(w²(w + ε)) with ε = 1 −
+ * e^(−T/τ_s),
  * N(w) = K_b T²[ψ(T/τ_s) w² + ((T/τ_s)·φ₂(T/τ_s) + ε/2) w + ε]. Written in w the coefficients keep
  * their precision when the closed-loop poles crowd z = 1 (fast loop, slow response); expanding in z
  * loses it.
  */
-export function discretizePlantW(kb: number, tauS: number, period: number): { num: Polynomial; den: Polynomial } {
+export function discretizePlantW(
+  kb: number,
+  tauS: number,
+  period: number,
+): { num: Polynomial, den: Polynomial } {
   const T = period
   const z = tauS > 0 ? T / tauS : Infinity
   const eps = tauS > 0 ? -Math.expm1(-z) : 1
@@ -213,7 +224,10 @@ export function discretizePlantW(kb: number, tauS: number, period: number): { nu
   return { num: [g * psi3(z), g * mid, g * eps], den: [1, eps, 0, 0] }
 }
 
-function mul3(m: DiscretePlant['phi'], v: readonly [number, number, number]): [number, number, number] {
+function mul3(
+  m: DiscretePlant['phi'],
+  v: readonly [number, number, number],
+): [number, number, number] {
   return [
     m[0][0] * v[0] + m[0][1] * v[1] + m[0][2] * v[2],
     m[1][0] * v[0] + m[1][1] * v[1] + m[1][2] * v[2],

@@ -29,32 +29,50 @@ const KIT_COMMON = {
   pushrodLength: 0.09,
 } as const satisfies Partial<Rig>
 
-const CLASSROOM = { ...KIT_COMMON, beamLength: 0.4, pivotToLink: 0.2, ballDiameter: 0.019, sensorLength: 0.36 } as const
-const LONG_BEAM = { ...KIT_COMMON, beamLength: 0.6, pivotToLink: 0.3, ballDiameter: 0.025, sensorLength: 0.56 } as const
+const CLASSROOM = {
+  ...KIT_COMMON,
+  beamLength: 0.4,
+  pivotToLink: 0.2,
+  ballDiameter: 0.019,
+  sensorLength: 0.36,
+} as const
+const LONG_BEAM = {
+  ...KIT_COMMON,
+  beamLength: 0.6,
+  pivotToLink: 0.3,
+  ballDiameter: 0.025,
+  sensorLength: 0.56,
+} as const
 
 export const KIT_PRESETS: readonly KitPreset[] = [
   {
     id: 'classroom-20',
     name: 'Classroom Rig Kit, middle hole (20 mm)',
-    description: '40 cm beam, centre pivot, pushrod at the beam end, lever arm in its 20 mm hole, 19 mm ball.',
+    description:
+      '40 cm beam, centre pivot, pushrod at the beam end, lever arm in its 20 mm hole, 19 mm ball.',
     rig: { ...CLASSROOM, leverArm: 0.02 },
   },
   {
     id: 'classroom-12',
     name: 'Classroom Rig Kit, inner hole (12 mm)',
-    description: 'The classroom rig with the lever in its inner hole: a gentler beam for first tuning sessions.',
+    description:
+      'The classroom rig with the lever in its inner hole: a gentler beam for first tuning '
+      + 'sessions.',
     rig: { ...CLASSROOM, leverArm: 0.012 },
   },
   {
     id: 'classroom-30',
     name: 'Classroom Rig Kit, outer hole (30 mm)',
-    description: 'The classroom rig with the lever in its outer hole: a livelier beam that needs smaller gains.',
+    description:
+      'The classroom rig with the lever in its outer hole: a livelier beam that needs smaller '
+      + 'gains.',
     rig: { ...CLASSROOM, leverArm: 0.03 },
   },
   {
     id: 'long-beam-20',
     name: 'Long-Beam Rig Kit, middle hole (20 mm)',
-    description: '60 cm beam, centre pivot, pushrod at the beam end, lever in its 20 mm hole, 25 mm ball.',
+    description:
+      '60 cm beam, centre pivot, pushrod at the beam end, lever in its 20 mm hole, 25 mm ball.',
     rig: { ...LONG_BEAM, leverArm: 0.02 },
   },
 ]

@@ -14,7 +14,7 @@ export function polynomialRoots(poly: Polynomial): Complex[] {
   const n = p.length - 1
   if (n < 1) return []
   const lead = p[0]!
-  const c = p.map((x) => x / lead)
+  const c = p.map(x => x / lead)
   // Fujiwara's bound on the root moduli sets the starting circle.
   let radius = 0
   for (let k = 1; k <= n; k++) radius = Math.max(radius, Math.abs(c[k]!) ** (1 / k))

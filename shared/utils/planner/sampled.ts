@@ -30,13 +30,30 @@ export interface DerivativeCoefficients {
   ok: boolean
 }
 
-/** Backward Euler a = T_f/(T_f+T), b = Kd/(T_f+T); Tustin a = (2T_f−T)/(2T_f+T), b = 2Kd/(2T_f+T). */
-export function derivativeCoefficients(kd: number, tf: number, period: number, method: Discretization): DerivativeCoefficients {
+/**
+ * Backward Euler a = T_f/(T_f+T), b = Kd/(T_f+T); Tustin a = (2T_f−T)/(2T_f+T), b = 2Kd/(2T_f+T).
+ */
+export function derivativeCoefficients(
+  kd: number,
+  tf: number,
+  period: number,
+  method: Discretization,
+): DerivativeCoefficients {
   if (method === 'tustin') {
     const d = 2 * tf + period
-    return { a: (2 * tf - period) / d, b: (2 * kd) / d, oneMinusA: (2 * period) / d, ok: tf >= period / 2 }
+    return {
+      a: (2 * tf - period) / d,
+      b: (2 * kd) / d,
+      oneMinusA: (2 * period) / d,
+      ok: tf >= period / 2,
+    }
   }
-  return { a: tf / (tf + period), b: kd / (tf + period), oneMinusA: period / (tf + period), ok: true }
+  return {
+    a: tf / (tf + period),
+    b: kd / (tf + period),
+    oneMinusA: period / (tf + period),
+    ok: true,
+  }
 }
 
 function polyMul(p: Polynomial, q: Polynomial): Polynomial {
@@ -58,7 +75,11 @@ function polyAdd(p: Polynomial, q: Polynomial): Polynomial {
  * but its coefficients lose the poles' precision when they crowd z = 1 (fast loop, slow
  * response); stability is judged on sampledCharacteristicW instead.
  */
-export function sampledCharacteristic(loop: SampledLoop, plantNum?: Polynomial, plantDen?: Polynomial): Polynomial {
+export function sampledCharacteristic(
+  loop: SampledLoop,
+  plantNum?: Polynomial,
+  plantDen?: Polynomial,
+): Polynomial {
   let num = plantNum
   let den = plantDen
   if (num === undefined || den === undefined) {
@@ -73,7 +94,10 @@ export function sampledCharacteristic(loop: SampledLoop, plantNum?: Polynomial, 
   let cDen: Polynomial
   if (kiT > 0) {
     cDen = [1, -(a + 1), a]
-    cNum = polyAdd(polyAdd(polyMul([loop.kp], cDen), polyMul([b], [1, -2, 1])), polyMul([kiT], [1, -a, 0]))
+    cNum = polyAdd(
+      polyAdd(polyMul([loop.kp], cDen), polyMul([b], [1, -2, 1])),
+      polyMul([kiT], [1, -a, 0]),
+    )
   } else {
     cDen = [1, -a]
     cNum = [loop.kp + b, -(loop.kp * a + b)]
@@ -81,7 +105,10 @@ export function sampledCharacteristic(loop: SampledLoop, plantNum?: Polynomial, 
   return polyAdd(polyMul([1, 0], polyMul(den, cDen)), polyMul(num, cNum))
 }
 
-/** Schur–Cohn–Jury on a polynomial in z: every root strictly inside the unit circle (see the caveat above). */
+/**
+ * Schur–Cohn–Jury on a polynomial in z: every root strictly inside the unit circle (see the caveat
+ * above).
+ */
 export function schurStable(poly: Polynomial): boolean {
   let p = poly.slice()
   while (p.length > 1 && p[0] === 0) p = p.slice(1)
@@ -102,9 +129,17 @@ export function schurStable(poly: Polynomial): boolean {
  * (w + 1)·D_p(w)·D_c(w) + N_p(w)·N_c(w), with the controller
  * C = Kp + b·w/(w + 1 − a) + Ki·T·(w + 1)/w.
  */
-export function sampledCharacteristicW(loop: SampledLoop, plantW?: { num: Polynomial; den: Polynomial }): Polynomial {
+export function sampledCharacteristicW(
+  loop: SampledLoop,
+  plantW?: { num: Polynomial, den: Polynomial },
+): Polynomial {
   const p = plantW ?? discretizePlantW(loop.kb, loop.servoLag, loop.period)
-  const { b, oneMinusA: al } = derivativeCoefficients(loop.kd, loop.tf, loop.period, loop.discretization)
+  const { b, oneMinusA: al } = derivativeCoefficients(
+    loop.kd,
+    loop.tf,
+    loop.period,
+    loop.discretization,
+  )
   const kiT = loop.ki * loop.period
   const kp = loop.kp
   let cNum: Polynomial
@@ -148,7 +183,9 @@ export function diskStable(polyW: Polynomial): boolean {
   return hurwitzStable(q)
 }
 
-/** Routh–Hurwitz: every root of the polynomial (highest power first) in the open left half-plane. */
+/**
+ * Routh–Hurwitz: every root of the polynomial (highest power first) in the open left half-plane.
+ */
 export function hurwitzStable(poly: ArrayLike<number>): boolean {
   let first = 0
   while (first < poly.length - 1 && poly[first] === 0) first++
@@ -213,7 +250,15 @@ export interface StepOptions {
 const BAND = 0.02
 
 /** x(t) within a hold interval: x0, v0, θ0 at its start, u held, a = 1/τ_s. */
-function xAt(x0: number, v0: number, th0: number, u: number, kb: number, a: number, t: number): number {
+function xAt(
+  x0: number,
+  v0: number,
+  th0: number,
+  u: number,
+  kb: number,
+  a: number,
+  t: number,
+): number {
   return x0 + v0 * t + kb * t * t * (u * 0.5 + (th0 - u) * phi2(a * t))
 }
 
@@ -226,7 +271,15 @@ function vAt(v0: number, th0: number, u: number, kb: number, a: number, t: numbe
  * `out`; returns their count. v' = K_b·θ and θ moves monotonically from θ0 towards u, so v has
  * at most one turning point (where θ = 0) and at most two zeros.
  */
-function monotonePieces(v0: number, th0: number, u: number, kb: number, a: number, T: number, out: Float64Array): number {
+function monotonePieces(
+  v0: number,
+  th0: number,
+  u: number,
+  kb: number,
+  a: number,
+  T: number,
+  out: Float64Array,
+): number {
   let n = 0
   out[n++] = 0
   let ts = -1
@@ -286,7 +339,12 @@ class LoopStepper {
     this.cxU = cxU!
     this.cvU = cvU!
     this.cthU = cthU!
-    const { a: da, b: db } = derivativeCoefficients(loop.kd, loop.tf, loop.period, loop.discretization)
+    const { a: da, b: db } = derivativeCoefficients(
+      loop.kd,
+      loop.tf,
+      loop.period,
+      loop.discretization,
+    )
     this.da = da
     this.db = db
     this.kiT = loop.ki * loop.period
@@ -388,7 +446,11 @@ export function sampledStepMetrics(loop: SampledLoop, opts: StepOptions = {}): S
       break
     }
     if (lastOut < k && k + 1 >= 2 * (lastOut + 1) && k >= 20) {
-      const q = Math.abs(x1 - 1) + Math.abs(v1) / wc + rest * (Math.abs(loopState.th) + Math.abs(u) + Math.abs(loopState.D) + Math.abs(loopState.I))
+      const q
+        = Math.abs(x1 - 1)
+          + Math.abs(v1) / wc
+          + rest
+          * (Math.abs(loopState.th) + Math.abs(u) + Math.abs(loopState.D) + Math.abs(loopState.I))
       if (q < 1e-4) {
         quiet = true
         k++
@@ -398,7 +460,15 @@ export function sampledStepMetrics(loop: SampledLoop, opts: StepOptions = {}): S
   }
   const simulatedTime = k * T
   if (diverged) {
-    return { overshootPct: null, peakTime: null, settlingTime: null, peakCommand, peakServoRate, diverged, simulatedTime }
+    return {
+      overshootPct: null,
+      peakTime: null,
+      settlingTime: null,
+      peakCommand,
+      peakServoRate,
+      diverged,
+      simulatedTime,
+    }
   }
   // Proven settled by the quiet test, or at the horizon after staying inside 3× as long as it took.
   const settled = quiet || (lastOut < k - 1 && k >= 4 * (lastOut + 1))
@@ -416,7 +486,11 @@ export function sampledStepMetrics(loop: SampledLoop, opts: StepOptions = {}): S
 }
 
 /** Re-run to interval `index` and find, inside it, the last moment x re-enters the band. */
-function lastExit(loop: SampledLoop, index: number, plant: ReturnType<typeof discretizePlant>): number {
+function lastExit(
+  loop: SampledLoop,
+  index: number,
+  plant: ReturnType<typeof discretizePlant>,
+): number {
   const { kb, period: T } = loop
   const loopState = new LoopStepper(loop, plant)
   for (let k = 0; k < index; k++) loopState.advance(loopState.control())
@@ -448,8 +522,14 @@ export interface StepResponse {
   servoAngle: number[]
 }
 
-/** The sampled loop's linear unit-step response on a fine time grid, for plotting and comparison. */
-export function sampledStepResponse(loop: SampledLoop, duration: number, pointsPerSample = 4): StepResponse {
+/**
+ * The sampled loop's linear unit-step response on a fine time grid, for plotting and comparison.
+ */
+export function sampledStepResponse(
+  loop: SampledLoop,
+  duration: number,
+  pointsPerSample = 4,
+): StepResponse {
   const { kb, period: T } = loop
   const loopState = new LoopStepper(loop)
   const { a } = loopState
@@ -468,7 +548,7 @@ export function sampledStepResponse(loop: SampledLoop, duration: number, pointsP
     loopState.advance(u)
     if (!(Math.abs(loopState.x) < 1e9)) break
   }
-  out.t.push(out.t.length / pointsPerSample * T)
+  out.t.push((out.t.length / pointsPerSample) * T)
   out.x.push(loopState.x)
   out.command.push(loopState.uHeld)
   out.servoAngle.push(loopState.th)

@@ -16,8 +16,12 @@ function positive(field: string, label: string, unit: string, max: number) {
     .max(max, { error: `${label} (${field}) must be at most ${max} ${unit}` })
 }
 
-function oneOf<const T extends readonly [string, ...string[]]>(field: string, label: string, values: T) {
-  const list = values.map((v) => `"${v}"`).join(' or ')
+function oneOf<const T extends readonly [string, ...string[]]>(
+  field: string,
+  label: string,
+  values: T,
+) {
+  const list = values.map(v => `"${v}"`).join(' or ')
   return z.enum(values, { error: `${label} (${field}) must be ${list}` })
 }
 
@@ -59,7 +63,9 @@ const rigShape = z.object({
   /** V_span / V_ref: the share of the ADC's range the rail's voltage actually spans. */
   sensorSpanRatio: finite('sensorSpanRatio', 'Sensor span ratio')
     .positive({ error: 'Sensor span ratio (sensorSpanRatio) must be greater than 0' })
-    .max(1, { error: 'Sensor span ratio (sensorSpanRatio) must be at most 1 (V_span cannot exceed V_ref)' })
+    .max(1, {
+      error: 'Sensor span ratio (sensorSpanRatio) must be at most 1 (V_span cannot exceed V_ref)',
+    })
     .optional(),
   sensorLength: positive('sensorLength', 'Sensor length', 'm', 5).optional(),
   gravity: positive('gravity', 'Gravity', 'm/s²', 30).optional(),
@@ -86,11 +92,18 @@ export const rigSchema = rigShape.superRefine((rig, ctx) => {
       message: 'Lever arm (leverArm) cannot be longer than the beam (beamLength)',
     })
   }
-  if (valid(rig.railGap) && valid(rig.ballDiameter) && rig.ballDiameter > 0 && rig.railGap >= rig.ballDiameter) {
+  if (
+    valid(rig.railGap)
+    && valid(rig.ballDiameter)
+    && rig.ballDiameter > 0
+    && rig.railGap >= rig.ballDiameter
+  ) {
     ctx.addIssue({
       code: 'custom',
       path: ['railGap'],
-      message: 'Rail gap (railGap) must be smaller than the ball diameter (ballDiameter), or the ball falls through',
+      message:
+        'Rail gap (railGap) must be smaller than the ball diameter (ballDiameter), or the '
+        + 'ball falls through',
     })
   }
   if (beamOk && valid(rig.sensorLength) && rig.sensorLength > rig.beamLength) {

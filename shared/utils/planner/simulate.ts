@@ -1,6 +1,7 @@
 // The drawn response (DOMAIN.md §4): a nonlinear simulation of the rig as built.
 //   ball     x'' = eta·g·sin(alpha), stopped (inelastically) at the beam ends
-//   linkage  alpha(theta): exact lever geometry (default for a lever drive) or d/L_a·theta; theta/N_g direct
+//   linkage  alpha(theta): exact lever geometry (default for a lever drive) or d/L_a·theta;
+//            theta/N_g direct
 //   servo    first-order lag tau_s towards the held command, speed limited to omega_max, command
 //            clamped as the generated firmware does (±travel/2, or the lever linkage's fold point)
 //   sensor   ADC counts: floor(x·k_s) clamped to [0, 2^bits − 1], read back at the count's centre
@@ -9,7 +10,13 @@
 // Within a hold the servo angle is known in closed form (slew phase, then exponential), so only
 // the ball is integrated, by RK4 on sub-steps of T/subSteps.
 import { filterTimeConstant } from './design'
-import { beamAngleRange, leverBeamAngle, leverGeometryOf, reachableServoRange, smallAngleBeamAngle } from './geometry'
+import {
+  beamAngleRange,
+  leverBeamAngle,
+  leverGeometryOf,
+  reachableServoRange,
+  smallAngleBeamAngle,
+} from './geometry'
 import { plantOf } from './plant'
 import { derivativeCoefficients } from './sampled'
 import type { Discretization, Gains, Rig } from './schema'
@@ -22,10 +29,13 @@ export interface SimulateOptions {
   /** The nudge: ball speed at t = 0, m/s; default 0. */
   initialSpeed?: number
   /** A further nudge: extra ball speed (m/s) added at `time` (s). */
-  nudge?: { time: number; speed: number } | null
+  nudge?: { time: number, speed: number } | null
   /** Setpoint before the change, m; default the start position. */
   initialSetpoint?: number
-  /** Setpoint after the change, m; default a quarter of the sensor past the start (or before it, near the end). */
+  /**
+   * Setpoint after the change, m; default a quarter of the sensor past the start (or before it,
+   * near the end).
+   */
   setpoint?: number
   /** When the setpoint changes, s; default 0.5. */
   setpointTime?: number
@@ -72,7 +82,13 @@ export interface SimulationResult {
 }
 
 /** Servo angle a time t into a hold with command c, from theta0: slew-limited first-order lag. */
-export function servoAngleAt(theta0: number, c: number, t: number, tau: number, slew: number): number {
+export function servoAngleAt(
+  theta0: number,
+  c: number,
+  t: number,
+  tau: number,
+  slew: number,
+): number {
   const gap = c - theta0
   const dir = gap >= 0 ? 1 : -1
   const mag = Math.abs(gap)
@@ -113,11 +129,11 @@ export function simulate(rig: Rig, gains: Gains, options: SimulateOptions = {}):
   let linkageLimited = false
   if (rig.drive === 'direct') {
     const ng = rig.gearRatio ?? 1
-    alphaOf = (theta) => theta / ng
+    alphaOf = theta => theta / ng
   } else {
     const g = leverGeometryOf(rig)
     if ((options.linkage ?? 'exact') === 'small-angle') {
-      alphaOf = (theta) => smallAngleBeamAngle(theta, g)
+      alphaOf = theta => smallAngleBeamAngle(theta, g)
     } else {
       const [lo, hi] = reachableServoRange(g, Math.min(Math.PI, Math.max(plant.halfTravel, 0)))
       alphaOf = (theta) => {
@@ -145,7 +161,12 @@ export function simulate(rig: Rig, gains: Gains, options: SimulateOptions = {}):
   const nudge = options.nudge ?? null
 
   const tf = filterTimeConstant(gains.kp, gains.kd, gains.n)
-  const { a: da, b: db } = derivativeCoefficients(gains.kd, tf, T, options.discretization ?? 'backward-euler')
+  const { a: da, b: db } = derivativeCoefficients(
+    gains.kd,
+    tf,
+    T,
+    options.discretization ?? 'backward-euler',
+  )
   const kiT = gains.ki * T
   const onMeasurement = gains.derivativeOn === 'measurement'
 
@@ -157,7 +178,13 @@ export function simulate(rig: Rig, gains: Gains, options: SimulateOptions = {}):
     setpoint: [],
     command: [],
     speed: [],
-    events: { travelSaturated: false, slewLimited: false, hitEnd: false, linkageLimited: false, sensorOutOfRange: false },
+    events: {
+      travelSaturated: false,
+      slewLimited: false,
+      hitEnd: false,
+      linkageLimited: false,
+      sensorOutOfRange: false,
+    },
   }
   const record = (t: number, x: number, v: number, th: number, r: number, c: number) => {
     out.t.push(t)
@@ -211,7 +238,8 @@ export function simulate(rig: Rig, gains: Gains, options: SimulateOptions = {}):
     const acc = (tt: number) => ag * Math.sin(alphaOf(servoAngleAt(thStart, c, tt, tau, slew)))
     for (let j = 0; j < subSteps; j++) {
       const ta = j * h
-      if (j % outputEvery === 0) record(t0 + ta, x, v, servoAngleAt(thStart, c, ta, tau, slew), r, c)
+      if (j % outputEvery === 0)
+        record(t0 + ta, x, v, servoAngleAt(thStart, c, ta, tau, slew), r, c)
       if (!nudged && nudge !== null && t0 + ta >= nudge.time) {
         v += nudge.speed
         nudged = true

@@ -90,8 +90,9 @@ export function collectWarnings(ctx: WarningContext): PlannerWarning[] {
     add(
       'ball-not-sensed',
       'danger',
-      `A ${rig.ballMaterial} ball does not conduct, so the resistive two-rail sensor cannot see it: the reading ` +
-        'stays at 0 or at full scale wherever the ball is. Use a steel ball.',
+      `A ${rig.ballMaterial} ball does not conduct, so the resistive two-rail sensor cannot `
+      + `see it: the reading `
+      + 'stays at 0 or at full scale wherever the ball is. Use a steel ball.',
     )
   }
 
@@ -101,10 +102,12 @@ export function collectWarnings(ctx: WarningContext): PlannerWarning[] {
     add(
       'p-only-cannot-settle',
       'danger',
-      `A P-only controller cannot settle a ball on a beam. With no lag at all it swings for ever ` +
-        `(Kp = ${fmt(kp)} rad/m would swing at ${fmt(w)} rad/s, one swing every ${fmt((2 * Math.PI) / w)} s); ` +
-        `the servo's lag and the loop's delay (${ms(plant.effectiveLag)} together) make every swing bigger. ` +
-        'Add a derivative term: choose PD.',
+      `A P-only controller cannot settle a ball on a beam. With no lag at all it swings for ever `
+      + `(Kp = ${fmt(kp)} rad/m would swing at ${fmt(w)} rad/s, one swing every `
+      + `${fmt((2 * Math.PI) / w)} s); `
+      + `the servo's lag and the loop's delay (${ms(plant.effectiveLag)} together) make every `
+      + `swing bigger. `
+      + 'Add a derivative term: choose PD.',
     )
   } else if (!design.feasible) {
     const fastest = design.fastestSettlingTime
@@ -112,13 +115,16 @@ export function collectWarnings(ctx: WarningContext): PlannerWarning[] {
     add(
       'targets-infeasible',
       'danger',
-      `No gains can make this rig settle in ${fmt(targets.settlingTime)} s. The servo and the loop add about ` +
-        `${ms(plant.effectiveLag)} of lag` +
-        (fastest !== null ? `, and nothing settles faster than about ${fmt(fastest)} s with that lag` : '') +
-        '. ' +
-        (rec !== null
-          ? `Ask for ${fmt(rec)} s or more, or use a faster servo or a higher loop rate.`
-          : 'The integral pole asked for is too fast for this lag; use a smaller one.'),
+      `No gains can make this rig settle in ${fmt(targets.settlingTime)} s. The servo and the `
+      + `loop add about `
+      + `${ms(plant.effectiveLag)} of lag`
+      + (fastest !== null
+        ? `, and nothing settles faster than about ${fmt(fastest)} s with that lag`
+        : '')
+      + '. '
+      + (rec !== null
+        ? `Ask for ${fmt(rec)} s or more, or use a faster servo or a higher loop rate.`
+        : 'The integral pole asked for is too fast for this lag; use a smaller one.'),
     )
   }
 
@@ -128,12 +134,14 @@ export function collectWarnings(ctx: WarningContext): PlannerWarning[] {
       add(
         'real-pole-close',
         'warning',
-        `This settling time is close to what the servo and loop rate can do. The planner's third pole ` +
-          `(${fmt(design.p3)} rad/s) is less than ${THRESHOLDS.realPoleRatio} × ζω_n (${fmt(THRESHOLDS.realPoleRatio * sigma)} rad/s), ` +
-          'so the real ball will move more slowly and wobble more than the targets say.' +
-          (design.recommendedSettlingTime !== null
-            ? ` ${fmt(design.recommendedSettlingTime)} s or more gives a cleaner result.`
-            : ''),
+        `This settling time is close to what the servo and loop rate can do. The planner's `
+        + `third pole `
+        + `(${fmt(design.p3)} rad/s) is less than ${THRESHOLDS.realPoleRatio} × ζω_n `
+        + `(${fmt(THRESHOLDS.realPoleRatio * sigma)} rad/s), `
+        + 'so the real ball will move more slowly and wobble more than the targets say.'
+        + (design.recommendedSettlingTime !== null
+          ? ` ${fmt(design.recommendedSettlingTime)} s or more gives a cleaner result.`
+          : ''),
       )
     }
   }
@@ -142,13 +150,16 @@ export function collectWarnings(ctx: WarningContext): PlannerWarning[] {
     add(
       'suggestion-unstable',
       'danger',
-      `The formulas give gains for ${fmt(targets.settlingTime)} s, but checked with the real delays, the derivative ` +
-        'filter and the sampling they are unstable: the ball would swing further every time. No gains are suggested. ' +
-        (design.recommendedSettlingTime !== null && targets.settlingTime < design.recommendedSettlingTime
-          ? `Ask for ${fmt(design.recommendedSettlingTime)} s or more`
-          : 'Ask for a longer settling time or less overshoot') +
-        (targets.method === 'ideal' ? ', use the lag-aware method,' : '') +
-        ` or raise the derivative filter N (now ${fmt(targets.derivativeFilterN)}).`,
+      `The formulas give gains for ${fmt(targets.settlingTime)} s, but checked with the real `
+      + `delays, the derivative `
+      + 'filter and the sampling they are unstable: the ball would swing further every time. No '
+      + 'gains are suggested. '
+      + (design.recommendedSettlingTime !== null
+        && targets.settlingTime < design.recommendedSettlingTime
+        ? `Ask for ${fmt(design.recommendedSettlingTime)} s or more`
+        : 'Ask for a longer settling time or less overshoot')
+      + (targets.method === 'ideal' ? ', use the lag-aware method,' : '')
+      + ` or raise the derivative filter N (now ${fmt(targets.derivativeFilterN)}).`,
     )
   }
 
@@ -156,8 +167,9 @@ export function collectWarnings(ctx: WarningContext): PlannerWarning[] {
     add(
       'ideal-ignores-lag',
       'info',
-      `The ideal method ignores the servo's lag and the loop's delay (${ms(plant.effectiveLag)} together). ` +
-        'The lag-aware method accounts for them and is the safer starting point.',
+      `The ideal method ignores the servo's lag and the loop's delay `
+      + `(${ms(plant.effectiveLag)} together). `
+      + 'The lag-aware method accounts for them and is the safer starting point.',
     )
   }
 
@@ -168,8 +180,10 @@ export function collectWarnings(ctx: WarningContext): PlannerWarning[] {
         add(
           'low-gain-margin',
           'warning',
-          `The gain margin is only ${fmt(gm, 2)} dB (aim for ${THRESHOLDS.gainMarginDb} dB or more): if the rig is just ` +
-            `${fmt(10 ** (gm / 20), 2)} × livelier than measured — a longer horn, a different ball — it starts to oscillate.`,
+          `The gain margin is only ${fmt(gm, 2)} dB (aim for ${THRESHOLDS.gainMarginDb} dB or `
+          + `more): if the rig is just `
+          + `${fmt(10 ** (gm / 20), 2)} × livelier than measured — a longer horn, a different `
+          + `ball — it starts to oscillate.`,
         )
       }
       const pm = analysis.phaseMarginDeg
@@ -177,9 +191,12 @@ export function collectWarnings(ctx: WarningContext): PlannerWarning[] {
         add(
           'low-phase-margin',
           'warning',
-          `The phase margin is only ${fmt(pm, 2)}° (aim for ${THRESHOLDS.phaseMarginDeg}° or more): the ball will ring ` +
-            'after every move' +
-            (analysis.delayMargin !== null ? `, and ${ms(analysis.delayMargin)} more delay would make it unstable.` : '.'),
+          `The phase margin is only ${fmt(pm, 2)}° (aim for ${THRESHOLDS.phaseMarginDeg}° or `
+          + `more): the ball will ring `
+          + 'after every move'
+          + (analysis.delayMargin !== null
+            ? `, and ${ms(analysis.delayMargin)} more delay would make it unstable.`
+            : '.'),
         )
       }
       const os = analysis.step.overshootPct
@@ -190,10 +207,13 @@ export function collectWarnings(ctx: WarningContext): PlannerWarning[] {
         add(
           'targets-missed',
           'warning',
-          `The predicted response misses the targets: ${os === null ? '?' : fmt(os, 2)} % overshoot and ` +
-            (ts === null ? 'no settling' : `settling in ${fmt(ts)} s`) +
-            `, against ${fmt(targets.overshootPct)} % and ${fmt(targets.settlingTime)} s asked for.` +
-            (targets.form === 'PID' && osMiss ? ' The integral term adds overshoot; a smaller integral pole reduces it.' : ''),
+          `The predicted response misses the targets: ${os === null ? '?' : fmt(os, 2)} % `
+          + `overshoot and `
+          + (ts === null ? 'no settling' : `settling in ${fmt(ts)} s`)
+          + `, against ${fmt(targets.overshootPct)} % and ${fmt(targets.settlingTime)} s asked for.`
+          + (targets.form === 'PID' && osMiss
+            ? ' The integral term adds overshoot; a smaller integral pole reduces it.'
+            : ''),
         )
       }
 
@@ -204,9 +224,12 @@ export function collectWarnings(ctx: WarningContext): PlannerWarning[] {
           add(
             'loop-rate-low',
             'warning',
-            `The loop runs at ${fmt(rig.loopRate)} Hz but the ball loop's bandwidth is ${fmt(fBw)} Hz; sample at least ` +
-              `${THRESHOLDS.samplesPerBandwidth}–${THRESHOLDS.samplesPerBandwidthComfortable} × faster than that ` +
-              `(${fmt(THRESHOLDS.samplesPerBandwidth * fBw)} Hz or more), or ask for a slower response.`,
+            `The loop runs at ${fmt(rig.loopRate)} Hz but the ball loop's bandwidth is `
+            + `${fmt(fBw)} Hz; sample at least `
+            + `${THRESHOLDS.samplesPerBandwidth}–${THRESHOLDS.samplesPerBandwidthComfortable} × `
+            + `faster than that `
+            + `(${fmt(THRESHOLDS.samplesPerBandwidth * fBw)} Hz or more), or ask for a slower `
+            + `response.`,
           )
         }
         const servoBw = 1 / plant.servoLag
@@ -215,38 +238,51 @@ export function collectWarnings(ctx: WarningContext): PlannerWarning[] {
           add(
             'servo-too-slow',
             ratio < THRESHOLDS.servoBandwidthRatio ? 'warning' : 'info',
-            `The servo (about ${fmt(hz(servoBw))} Hz) is only ${fmt(ratio, 2)} × faster than the ball loop ` +
-              `(${fmt(fBw)} Hz); it should be ${THRESHOLDS.servoBandwidthRatio}–${THRESHOLDS.servoBandwidthRatioComfortable} × faster. ` +
-              'Expect a slower, wobblier response than planned; a faster servo or a longer settling time helps.',
+            `The servo (about ${fmt(hz(servoBw))} Hz) is only ${fmt(ratio, 2)} × faster than `
+            + `the ball loop `
+            + `(${fmt(fBw)} Hz); it should be `
+            + `${THRESHOLDS.servoBandwidthRatio}–${THRESHOLDS.servoBandwidthRatioComfortable} × `
+            + `faster. `
+            + 'Expect a slower, wobblier response than planned; a faster servo or a longer '
+            + 'settling time helps.',
           )
         }
       }
 
-      if ((rig.servoType ?? 'analog') === 'analog' && analysis.delayMargin !== null && analysis.delayMargin < THRESHOLDS.analogServoFrame) {
+      if (
+        (rig.servoType ?? 'analog') === 'analog'
+        && analysis.delayMargin !== null
+        && analysis.delayMargin < THRESHOLDS.analogServoFrame
+      ) {
         add(
           'analog-servo-delay',
           'warning',
-          `This loop tolerates only ${ms(analysis.delayMargin)} of extra delay, and an analog servo's 20 ms update ` +
-            'can add that much. Use a digital servo or ask for a longer settling time.',
+          `This loop tolerates only ${ms(analysis.delayMargin)} of extra delay, and an analog `
+          + `servo's 20 ms update `
+          + 'can add that much. Use a digital servo or ask for a longer settling time.',
         )
       }
     }
 
-    if (targets.derivativeOn === 'error' && (gains.kd > 0)) {
+    if (targets.derivativeOn === 'error' && gains.kd > 0) {
       add(
         'derivative-on-error',
         'info',
-        'The derivative acts on the error, so every setpoint step kicks the servo and the extra zero raises the ' +
-          `overshoot${analysis.step.overshootPct !== null ? ` (${fmt(analysis.step.overshootPct, 2)} % predicted)` : ''}. ` +
-          'Derivative on measurement avoids both.',
+        'The derivative acts on the error, so every setpoint step kicks the servo and the '
+        + 'extra zero raises the overshoot'
+        + (analysis.step.overshootPct !== null
+          ? ` (${fmt(analysis.step.overshootPct, 2)} % predicted)`
+          : '')
+        + '. Derivative on measurement avoids both.',
       )
     }
     if (gains.ki > 0) {
       add(
         'integral-windup',
         'info',
-        'With an integral term, stop integrating while the servo sits at its limit (anti-windup), or the ball ' +
-          'overshoots badly after a big move.',
+        'With an integral term, stop integrating while the servo sits at its limit '
+        + '(anti-windup), or the ball '
+        + 'overshoots badly after a big move.',
       )
     }
   }
@@ -255,8 +291,10 @@ export function collectWarnings(ctx: WarningContext): PlannerWarning[] {
     add(
       'analog-servo-frame',
       'info',
-      `Analog hobby servos only take a new position about every 20 ms (50 Hz), so running the loop at ` +
-        `${fmt(rig.loopRate)} Hz does not make them faster, and they add up to 20 ms more delay than planned.`,
+      `Analog hobby servos only take a new position about every 20 ms (50 Hz), so running the `
+      + `loop at `
+      + `${fmt(rig.loopRate)} Hz does not make them faster, and they add up to 20 ms more delay `
+      + `than planned.`,
     )
   }
 
@@ -265,33 +303,41 @@ export function collectWarnings(ctx: WarningContext): PlannerWarning[] {
       add(
         'step-exceeds-travel',
         'warning',
-        `A ${mm(ctx.stepSize)} setpoint step asks the servo for more than the ±${fmt(limits.usableServoTravel * DEG)}° it can usefully turn; ` +
-          `the largest step that stays inside is about ${mm(limits.maxStepTravel)}. Bigger steps hit the end stop and ` +
-          'overshoot more than predicted.',
+        `A ${mm(ctx.stepSize)} setpoint step asks the servo for more than the `
+        + `±${fmt(limits.usableServoTravel * DEG)}° it can usefully turn; `
+        + `the largest step that stays inside is about ${mm(limits.maxStepTravel)}. Bigger steps `
+        + `hit the end stop and `
+        + 'overshoot more than predicted.',
       )
     }
     if (limits.maxStepSlew !== null && ctx.stepSize > limits.maxStepSlew) {
       add(
         'step-exceeds-slew',
         ctx.stepSize > 2 * limits.maxStepSlew ? 'warning' : 'info',
-        `A ${mm(ctx.stepSize)} step needs the servo to turn faster than its ${fmt(limits.servoSlewLimit * DEG)} °/s; ` +
-          `the largest step it can follow is about ${mm(limits.maxStepSlew)}. Bigger steps are slower and overshoot more.`,
+        `A ${mm(ctx.stepSize)} step needs the servo to turn faster than its `
+        + `${fmt(limits.servoSlewLimit * DEG)} °/s; `
+        + `the largest step it can follow is about ${mm(limits.maxStepSlew)}. Bigger steps are `
+        + `slower and overshoot more.`,
       )
     }
     if (limits.servoJumpPerCountDeg > THRESHOLDS.servoJumpDeg) {
       add(
         'servo-jump-per-count',
         'warning',
-        `Each count of sensor noise jolts the servo by about ${fmt(limits.servoJumpPerCountDeg, 2)}°, so it will twitch ` +
-          'and buzz. Lower the derivative filter N, average several ADC readings, or use a finer ADC.',
+        `Each count of sensor noise jolts the servo by about `
+        + `${fmt(limits.servoJumpPerCountDeg, 2)}°, so it will twitch `
+        + 'and buzz. Lower the derivative filter N, average several ADC readings, or use a '
+        + 'finer ADC.',
       )
     }
     if (!limits.linkageReachable) {
       add(
         'linkage-unreachable',
         'warning',
-        'With this pushrod length the linkage cannot follow the servo over its whole travel: near the ends the ' +
-          'rod would have to stretch. Limit the servo travel in the firmware or change the pushrod.',
+        'With this pushrod length the linkage cannot follow the servo over its whole travel: '
+        + 'near the ends the '
+        + 'rod would have to stretch. Limit the servo travel in the firmware or change the '
+        + 'pushrod.',
       )
     }
   }

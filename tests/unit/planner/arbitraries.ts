@@ -2,9 +2,13 @@
 import fc from 'fast-check'
 import type { Rig, Targets } from '../../../shared/utils/planner'
 
-const real = (min: number, max: number) => fc.double({ min, max, noNaN: true, noDefaultInfinity: true })
+const real = (min: number, max: number) =>
+  fc.double({ min, max, noNaN: true, noDefaultInfinity: true })
 
-/** Any rig a careful builder could measure: every cross-field rule of rigSchema holds by construction. */
+/**
+ * Any rig a careful builder could measure: every cross-field rule of rigSchema holds by
+ * construction.
+ */
 export const validRig: fc.Arbitrary<Rig> = fc
   .record({
     beamLength: real(0.15, 1.5),
@@ -52,11 +56,18 @@ export const validRig: fc.Arbitrary<Rig> = fc
  */
 export function targetsFor(
   effectiveLag: number,
-  opts: { minRatio: number; maxRatio: number; minN?: number; maxN?: number; maxOvershoot?: number; forms?: Targets['form'][] },
+  opts: {
+    minRatio: number
+    maxRatio: number
+    minN?: number
+    maxN?: number
+    maxOvershoot?: number
+    forms?: Targets['form'][]
+  },
 ): fc.Arbitrary<Targets> {
   return fc.record({
     overshootPct: real(0, opts.maxOvershoot ?? 40),
-    settlingTime: real(opts.minRatio, opts.maxRatio).map((k) => k * effectiveLag),
+    settlingTime: real(opts.minRatio, opts.maxRatio).map(k => k * effectiveLag),
     form: fc.constantFrom(...(opts.forms ?? (['PD', 'PID'] as const))),
     derivativeFilterN: real(opts.minN ?? 2, opts.maxN ?? 50),
     method: fc.constant('lag-aware' as const),

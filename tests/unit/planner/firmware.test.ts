@@ -1,6 +1,11 @@
 import { describe, expect, it } from 'vitest'
 import { REFERENCE_RIG } from './fixtures'
-import { beamAngleRange, derivativeCoefficients, firmwareConstants, type Gains } from '../../../shared/utils/planner'
+import {
+  beamAngleRange,
+  derivativeCoefficients,
+  firmwareConstants,
+  type Gains,
+} from '../../../shared/utils/planner'
 
 const rig = REFERENCE_RIG // 50 Hz, 2560 counts/m
 const DEG = 180 / Math.PI
@@ -23,14 +28,18 @@ describe('firmwareConstants', () => {
     // The lever folds back at about 79°, before the servo's 90°: the clamp sits at the fold.
     expect(fw.servoLimitDeg).toBeCloseTo(beamAngleRange(rig).maxAtServoAngle * DEG, 12)
     expect(fw.servoLimitDeg).toBeLessThan(90)
-    expect(firmwareConstants({ ...rig, drive: 'direct', gearRatio: 20 }, gains).servoLimitDeg).toBeCloseTo(90, 12)
+    expect(
+      firmwareConstants({ ...rig, drive: 'direct', gearRatio: 20 }, gains).servoLimitDeg,
+    ).toBeCloseTo(90, 12)
     expect(fw.warnings).toEqual([])
   })
 
   it('writes a C block and a JSON object that state the loop rate and units', () => {
     const fw = firmwareConstants(rig, gains)
     expect(fw.cSource).toContain('#define TW_LOOP_RATE_HZ     50.0f')
-    expect(fw.cSource).toContain(`#define TW_KP               ${Number(fw.kpDegPerCount.toPrecision(7))}f`)
+    expect(fw.cSource).toContain(
+      `#define TW_KP               ${Number(fw.kpDegPerCount.toPrecision(7))}f`,
+    )
     expect(fw.cSource).toContain(`#define TW_D_A              ${Number(fw.a.toPrecision(7))}f`)
     expect(fw.cSource).toMatch(/derivative on measurement, backward Euler/)
     expect(fw.cSource).toMatch(/s = -reading/)
@@ -56,7 +65,7 @@ describe('firmwareConstants', () => {
     const fw = firmwareConstants(rig, sharp, { discretization: 'tustin' })
     expect(derivativeCoefficients(0.05, 0.05 / (20 * 7.2), 0.02, 'tustin').ok).toBe(false)
     expect(fw.discretization).toBe('backward-euler')
-    expect(fw.warnings.map((w) => w.code)).toEqual(['tustin-refused'])
+    expect(fw.warnings.map(w => w.code)).toEqual(['tustin-refused'])
     expect(fw.a).toBeGreaterThanOrEqual(0)
     expect(fw.cSource).toMatch(/backward Euler/)
   })

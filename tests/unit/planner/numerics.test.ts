@@ -24,8 +24,13 @@ import { referenceMargins, referenceStep } from './reference'
 
 describe('margins and step metrics equal the straightforward versions', () => {
   it('on random rigs with their lag-aware PD suggestions', () => {
-    const arb = validRig.chain((rig) =>
-      targetsFor(plantOf(rig).effectiveLag, { minRatio: 12, maxRatio: 60, minN: 5, forms: ['PD'] }).map((targets) => ({ rig, targets })),
+    const arb = validRig.chain(rig =>
+      targetsFor(plantOf(rig).effectiveLag, {
+        minRatio: 12,
+        maxRatio: 60,
+        minN: 5,
+        forms: ['PD'],
+      }).map(targets => ({ rig, targets })),
     )
     let checked = 0
     fc.assert(
@@ -43,7 +48,8 @@ describe('margins and step metrics equal the straightforward versions', () => {
         const step = referenceStep(sampledLoopOf(plant, plan.gains!), horizon, 40)
         // sub-steps of T/40 miss the true peak by at most ½·ẍ·(T/80)²
         expect(a.step.overshootPct!).toBeCloseTo(step.overshootPct, 2)
-        if (step.settlingTime !== null && step.tail < 0.01) expect(a.step.settlingTime!).toBeCloseTo(step.settlingTime, 3)
+        if (step.settlingTime !== null && step.tail < 0.01)
+          expect(a.step.settlingTime!).toBeCloseTo(step.settlingTime, 3)
         checked++
       }),
       { seed: 21, numRuns: 12 },
@@ -53,8 +59,17 @@ describe('margins and step metrics equal the straightforward versions', () => {
 
   it('on a PID loop with a low-frequency phase crossover (a conditionally stable loop)', () => {
     const rig: Rig = {
-      beamLength: 0.4, pivotToLink: 0.2, leverArm: 0.025, drive: 'lever', ballDiameter: 0.019,
-      ballShell: 'solid', railGap: 0.01, servoSecondsPer60: 0.12, servoTravel: Math.PI, loopRate: 50, adcBits: 10,
+      beamLength: 0.4,
+      pivotToLink: 0.2,
+      leverArm: 0.025,
+      drive: 'lever',
+      ballDiameter: 0.019,
+      ballShell: 'solid',
+      railGap: 0.01,
+      servoSecondsPer60: 0.12,
+      servoTravel: Math.PI,
+      loopRate: 50,
+      adcBits: 10,
     }
     const gains: Gains = { kp: 9.2, kd: 4.4, ki: 4.6, n: 10, derivativeOn: 'measurement' }
     const plant = plantOf(rig)
@@ -70,7 +85,12 @@ describe('margins and step metrics equal the straightforward versions', () => {
     expect(f.phaseMarginDeg!).toBeCloseTo(ref.phaseMarginDeg!, 6)
     // Scaling the gain by the reported margins lands on the stability boundary.
     const up = 10 ** (f.gainMarginDb! / 20)
-    const scaled = (k: number) => ({ ...loopParamsOf(plant, gains), kp: k * gains.kp, kd: k * gains.kd, ki: k * gains.ki })
+    const scaled = (k: number) => ({
+      ...loopParamsOf(plant, gains),
+      kp: k * gains.kp,
+      kd: k * gains.kd,
+      ki: k * gains.ki,
+    })
     expect(analyzeFrequency(scaled(up * 0.999)).nyquistStable).toBe(true)
     expect(analyzeFrequency(scaled(up * 1.001)).nyquistStable).toBe(false)
     const down = 10 ** (f.gainReductionMarginDb! / 20)
@@ -80,7 +100,8 @@ describe('margins and step metrics equal the straightforward versions', () => {
 })
 
 describe('sampled-loop stability', () => {
-  const maxRootModulus = (w: number[]) => Math.max(...polynomialRoots(w).map((r) => Math.hypot(1 + r.re, r.im)))
+  const maxRootModulus = (w: number[]) =>
+    Math.max(...polynomialRoots(w).map(r => Math.hypot(1 + r.re, r.im)))
 
   it('agrees with the roots of the characteristic polynomial on random loops', () => {
     fc.assert(
@@ -92,8 +113,21 @@ describe('sampled-loop stability', () => {
         fc.double({ min: 2, max: 30, noNaN: true }),
         (rig, kpScale, kdScale, kiScale, n) => {
           const plant = plantOf(rig)
-          const base = planGains(rig, { overshootPct: 10, settlingTime: 30 * plant.effectiveLag, form: 'PD', derivativeFilterN: 10, method: 'lag-aware', derivativeOn: 'measurement' }).gains!
-          const gains: Gains = { kp: base.kp * kpScale, kd: base.kd * kdScale, ki: base.kp * kiScale, n, derivativeOn: 'measurement' }
+          const base = planGains(rig, {
+            overshootPct: 10,
+            settlingTime: 30 * plant.effectiveLag,
+            form: 'PD',
+            derivativeFilterN: 10,
+            method: 'lag-aware',
+            derivativeOn: 'measurement',
+          }).gains!
+          const gains: Gains = {
+            kp: base.kp * kpScale,
+            kd: base.kd * kdScale,
+            ki: base.kp * kiScale,
+            n,
+            derivativeOn: 'measurement',
+          }
           const w = sampledCharacteristicW(sampledLoopOf(plant, gains))
           const m = maxRootModulus(w)
           if (Math.abs(m - 1) < 1e-6) return // too close to call either way
@@ -104,23 +138,42 @@ describe('sampled-loop stability', () => {
     )
   })
 
-  it('stays right where the z-domain Schur–Cohn test loses its precision (fast loop, slow response)', () => {
+  it(
+    'stays right where the z-domain Schur–Cohn test loses its precision (fast loop, '
+    + 'slow response)', () => {
     // 500 Hz loop, a response of tens of seconds: every closed-loop pole crowds z = 1.
-    const rig: Rig = {
-      beamLength: 0.8, pivotToLink: 0.6, leverArm: 0.02, drive: 'lever', ballDiameter: 0.02,
-      ballShell: 'solid', railGap: 0, servoSecondsPer60: 0.28, servoTravel: Math.PI, loopRate: 500, adcBits: 12,
-    }
-    const plant = plantOf(rig)
-    const plan = planGains(rig, { overshootPct: 5, settlingTime: 25, form: 'PID', derivativeFilterN: 15, method: 'lag-aware', derivativeOn: 'measurement' })
-    expect(plan.feasible).toBe(true)
-    const loop = sampledLoopOf(plant, plan.gains!)
-    const w = sampledCharacteristicW(loop)
-    expect(maxRootModulus(w)).toBeLessThan(1)
-    expect(diskStable(w)).toBe(true)
-    expect(schurStable(sampledCharacteristic(loop))).toBe(false) // the z-form's rounding, not the loop
-    // and the loop really does settle
-    expect(plan.analysis!.step.settlingTime).not.toBeNull()
-  })
+      const rig: Rig = {
+        beamLength: 0.8,
+        pivotToLink: 0.6,
+        leverArm: 0.02,
+        drive: 'lever',
+        ballDiameter: 0.02,
+        ballShell: 'solid',
+        railGap: 0,
+        servoSecondsPer60: 0.28,
+        servoTravel: Math.PI,
+        loopRate: 500,
+        adcBits: 12,
+      }
+      const plant = plantOf(rig)
+      const plan = planGains(rig, {
+        overshootPct: 5,
+        settlingTime: 25,
+        form: 'PID',
+        derivativeFilterN: 15,
+        method: 'lag-aware',
+        derivativeOn: 'measurement',
+      })
+      expect(plan.feasible).toBe(true)
+      const loop = sampledLoopOf(plant, plan.gains!)
+      const w = sampledCharacteristicW(loop)
+      expect(maxRootModulus(w)).toBeLessThan(1)
+      expect(diskStable(w)).toBe(true)
+      // the z-form's rounding, not the loop
+      expect(schurStable(sampledCharacteristic(loop))).toBe(false)
+      // and the loop really does settle
+      expect(plan.analysis!.step.settlingTime).not.toBeNull()
+    })
 
   it('Routh–Hurwitz on known polynomials', () => {
     expect(hurwitzStable([1, 6, 11, 6])).toBe(true) // (s+1)(s+2)(s+3)
@@ -134,8 +187,17 @@ describe('sampled-loop stability', () => {
 describe('analyzeLoop', () => {
   it('reports none as null, never Infinity or NaN', () => {
     const rig: Rig = {
-      beamLength: 0.4, pivotToLink: 0.2, leverArm: 0.025, drive: 'lever', ballDiameter: 0.019,
-      ballShell: 'solid', railGap: 0.01, servoSecondsPer60: 0.12, servoTravel: Math.PI, loopRate: 50, adcBits: 10,
+      beamLength: 0.4,
+      pivotToLink: 0.2,
+      leverArm: 0.025,
+      drive: 'lever',
+      ballDiameter: 0.019,
+      ballShell: 'solid',
+      railGap: 0.01,
+      servoSecondsPer60: 0.12,
+      servoTravel: Math.PI,
+      loopRate: 50,
+      adcBits: 10,
     }
     for (const gains of [
       { kp: 7.2, kd: 3.8, ki: 0, n: 10, derivativeOn: 'measurement' as const },

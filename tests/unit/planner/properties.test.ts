@@ -17,7 +17,9 @@ import {
 import { targetsFor, validRig } from './arbitraries'
 
 const rigAndTargets = (opts: Parameters<typeof targetsFor>[1]) =>
-  validRig.chain((rig) => targetsFor(plantOf(rig).effectiveLag, opts).map((targets) => ({ rig, targets })))
+  validRig.chain(rig =>
+    targetsFor(plantOf(rig).effectiveLag, opts).map(targets => ({ rig, targets })),
+  )
 
 describe('properties over random valid rigs', () => {
   it('rigSchema accepts every generated rig', () => {
@@ -30,54 +32,71 @@ describe('properties over random valid rigs', () => {
     )
   })
 
-  it('every feasible lag-aware suggestion is stable with positive margins, from hard targets to easy ones', () => {
-    let feasible = 0
-    fc.assert(
-      fc.property(rigAndTargets({ minRatio: 5, maxRatio: 200 }), ({ rig, targets }) => {
-        const plan = planGains(rig, targets)
-        if (!plan.feasible) {
-          expect(plan.gains).toBeNull()
-          expect(plan.analysis).toBeNull()
-          expect(plan.warnings.some((w) => w.severity === 'danger')).toBe(true)
-          return
-        }
-        feasible++
-        const a = plan.analysis!
-        expect(a.stable).toBe(true)
-        expect(a.sampledStable).toBe(true)
-        expect(a.phaseMarginDeg!).toBeGreaterThan(0)
-        if (a.gainMarginDb !== null) expect(a.gainMarginDb).toBeGreaterThan(0)
-        expect(a.delayMargin!).toBeGreaterThan(0)
-        // Stable but not settled within the horizon (a lightly damped loop) is called out.
-        if (a.step.settlingTime === null) expect(plan.warnings.map((w) => w.code)).toContain('targets-missed')
-        expect(plan.firmware).not.toBeNull()
-        // analysis is analyzeLoop of the suggestion
-        expect(analyzeLoop(rig, plan.gains!, { discretization: plan.firmware!.discretization, horizon: 10 * targets.settlingTime })).toEqual(a)
-      }),
-      { seed: 12, numRuns: 300 },
-    )
-    expect(feasible).toBeGreaterThan(100)
-  })
+  it(
+    'every feasible lag-aware suggestion is stable with positive margins, from hard '
+    + 'targets to easy ones', () => {
+      let feasible = 0
+      fc.assert(
+        fc.property(rigAndTargets({ minRatio: 5, maxRatio: 200 }), ({ rig, targets }) => {
+          const plan = planGains(rig, targets)
+          if (!plan.feasible) {
+            expect(plan.gains).toBeNull()
+            expect(plan.analysis).toBeNull()
+            expect(plan.warnings.some(w => w.severity === 'danger')).toBe(true)
+            return
+          }
+          feasible++
+          const a = plan.analysis!
+          expect(a.stable).toBe(true)
+          expect(a.sampledStable).toBe(true)
+          expect(a.phaseMarginDeg!).toBeGreaterThan(0)
+          if (a.gainMarginDb !== null) expect(a.gainMarginDb).toBeGreaterThan(0)
+          expect(a.delayMargin!).toBeGreaterThan(0)
+          // Stable but not settled within the horizon (a lightly damped loop) is called out.
+          if (a.step.settlingTime === null)
+            expect(plan.warnings.map(w => w.code)).toContain('targets-missed')
+          expect(plan.firmware).not.toBeNull()
+          // analysis is analyzeLoop of the suggestion
+          expect(
+            analyzeLoop(rig, plan.gains!, {
+              discretization: plan.firmware!.discretization,
+              horizon: 10 * targets.settlingTime,
+            }),
+          ).toEqual(a)
+        }),
+        { seed: 12, numRuns: 300 },
+      )
+      expect(feasible).toBeGreaterThan(100)
+    })
 
-  it('from the recommended T_s (28·τ_eff for PD) up, with N ≥ 5, the §3 formulas themselves give stable loops', () => {
-    const arb = fc
-      .tuple(rigAndTargets({ minRatio: 1, maxRatio: 1, minN: 5, maxOvershoot: 30 }), fc.double({ min: 1.001, max: 10, noNaN: true }))
-      .map(([{ rig, targets }, factor]) => {
-        const lag = plantOf(rig).effectiveLag
-        const rec = settlingTimeBounds(lag, zetaFromOvershoot(targets.overshootPct), targets.form).recommended!
-        return { rig, targets: { ...targets, settlingTime: factor * rec } }
-      })
-    fc.assert(
-      fc.property(arb, ({ rig, targets }) => {
-        const plan = planGains(rig, targets)
-        expect(plan.rejectedGains).toBeNull()
-        expect(plan.feasible).toBe(true)
-        expect(plan.analysis!.stable).toBe(true)
-        expect(plan.warnings.map((w) => w.code)).not.toContain('real-pole-close')
-      }),
-      { seed: 13, numRuns: 300 },
-    )
-  })
+  it(
+    'from the recommended T_s (28·τ_eff for PD) up, with N ≥ 5, the §3 formulas '
+    + 'themselves give stable loops', () => {
+      const arb = fc
+        .tuple(
+          rigAndTargets({ minRatio: 1, maxRatio: 1, minN: 5, maxOvershoot: 30 }),
+          fc.double({ min: 1.001, max: 10, noNaN: true }),
+        )
+        .map(([{ rig, targets }, factor]) => {
+          const lag = plantOf(rig).effectiveLag
+          const rec = settlingTimeBounds(
+            lag,
+            zetaFromOvershoot(targets.overshootPct),
+            targets.form,
+          ).recommended!
+          return { rig, targets: { ...targets, settlingTime: factor * rec } }
+        })
+      fc.assert(
+        fc.property(arb, ({ rig, targets }) => {
+          const plan = planGains(rig, targets)
+          expect(plan.rejectedGains).toBeNull()
+          expect(plan.feasible).toBe(true)
+          expect(plan.analysis!.stable).toBe(true)
+          expect(plan.warnings.map(w => w.code)).not.toContain('real-pole-close')
+        }),
+        { seed: 13, numRuns: 300 },
+      )
+    })
 
   it('P only is never stable once there is any lag, and its swing grows', () => {
     fc.assert(
@@ -88,32 +107,50 @@ describe('properties over random valid rigs', () => {
         expect(a.nyquistStable).toBe(false)
         expect(a.phaseMarginDeg!).toBeLessThan(0)
         const p = plantOf(rig)
-        expect(proportionalOscillation(p.kb, kp, p.servoLag, p.period).growthRate).toBeGreaterThan(0)
+        expect(proportionalOscillation(p.kb, kp, p.servoLag, p.period).growthRate).toBeGreaterThan(
+          0,
+        )
       }),
       { seed: 14, numRuns: 300 },
     )
   })
 
-  it('every plan survives JSON unchanged and its messages carry no NaN, Infinity or undefined', () => {
-    fc.assert(
-      fc.property(rigAndTargets({ minRatio: 2, maxRatio: 150, forms: ['P', 'PD', 'PID'] }), ({ rig, targets }) => {
-        const plan = planGains(rig, targets)
-        expect(JSON.parse(JSON.stringify(plan))).toEqual(plan)
-        for (const w of plan.warnings) {
-          expect(WARNING_CODES).toContain(w.code)
-          expect(w.message).not.toMatch(/NaN|Infinity|undefined|null/)
-        }
-      }),
-      { seed: 15, numRuns: 200 },
-    )
-  })
+  it(
+    'every plan survives JSON unchanged and its messages carry no NaN, Infinity or '
+    + 'undefined', () => {
+      fc.assert(
+        fc.property(
+          rigAndTargets({ minRatio: 2, maxRatio: 150, forms: ['P', 'PD', 'PID'] }),
+          ({ rig, targets }) => {
+            const plan = planGains(rig, targets)
+            expect(JSON.parse(JSON.stringify(plan))).toEqual(plan)
+            for (const w of plan.warnings) {
+              expect(WARNING_CODES).toContain(w.code)
+              expect(w.message).not.toMatch(/NaN|Infinity|undefined|null/)
+            }
+          },
+        ),
+        { seed: 15, numRuns: 200 },
+      )
+    })
 
   it('a stability map cell says what analyzeLoop says about the same gains', () => {
     fc.assert(
       fc.property(validRig, (rig) => {
-        const plan = planGains(rig, { overshootPct: 10, settlingTime: 40 * plantOf(rig).effectiveLag, form: 'PD', derivativeFilterN: 10, method: 'lag-aware', derivativeOn: 'measurement' })
+        const plan = planGains(rig, {
+          overshootPct: 10,
+          settlingTime: 40 * plantOf(rig).effectiveLag,
+          form: 'PD',
+          derivativeFilterN: 10,
+          method: 'lag-aware',
+          derivativeOn: 'measurement',
+        })
         const g = plan.gains!
-        const map = stabilityMap(rig, { kpRange: [0, 4 * g.kp], kdRange: [0, 4 * g.kd], n: 10, derivativeOn: 'measurement' }, 7)
+        const map = stabilityMap(
+          rig,
+          { kpRange: [0, 4 * g.kp], kdRange: [0, 4 * g.kd], n: 10, derivativeOn: 'measurement' },
+          7,
+        )
         map.kd.forEach((kd, j) =>
           map.kp.forEach((kp, i) => {
             if (kp === 0) {

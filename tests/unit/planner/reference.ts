@@ -37,7 +37,12 @@ export function referenceMargins(p: LoopParams, wLo = 1e-3, wHi = 1e4): Referenc
   let prevPh = Math.atan2(prevL[1], prevL[0])
   // The double integrator starts at −180°: pick the branch of the first point near −180°.
   while (prevPh > 0) prevPh -= 2 * Math.PI
-  let best: ReferenceMargins = { gainCrossover: null, phaseMarginDeg: null, gainMarginDb: null, phaseCrossover: null }
+  let best: ReferenceMargins = {
+    gainCrossover: null,
+    phaseMarginDeg: null,
+    gainMarginDb: null,
+    phaseCrossover: null,
+  }
   const mag = (w: number) => Math.hypot(...loopAt(p, w))
   const unwrapped = (w: number, near: number) => {
     const l = loopAt(p, w)
@@ -62,7 +67,8 @@ export function referenceMargins(p: LoopParams, wLo = 1e-3, wHi = 1e4): Referenc
       }
       const wc = Math.sqrt(a * b)
       const pmDeg = 180 + (unwrapped(wc, ph) * 180) / Math.PI
-      if (best.phaseMarginDeg === null || pmDeg < best.phaseMarginDeg) best = { ...best, phaseMarginDeg: pmDeg, gainCrossover: wc }
+      if (best.phaseMarginDeg === null || pmDeg < best.phaseMarginDeg)
+        best = { ...best, phaseMarginDeg: pmDeg, gainCrossover: wc }
     }
     // phase crossing −180° − k·360°
     const kPrev = Math.floor((prevPh + Math.PI) / (2 * Math.PI))
@@ -83,7 +89,8 @@ export function referenceMargins(p: LoopParams, wLo = 1e-3, wHi = 1e4): Referenc
       }
       const wc = Math.sqrt(a * b)
       const gm = -20 * Math.log10(mag(wc))
-      if (best.gainMarginDb === null || gm < best.gainMarginDb) best = { ...best, gainMarginDb: gm, phaseCrossover: wc }
+      if (best.gainMarginDb === null || gm < best.gainMarginDb)
+        best = { ...best, gainMarginDb: gm, phaseCrossover: wc }
     }
     prevW = w
     prevL = l
@@ -130,9 +137,18 @@ export function referenceStep(loop: SampledLoop, horizon: number, sub = 50): Ref
     const u = loop.kp * e + I + D
     for (let j = 0; j < sub; j++) {
       const k1 = f(y, held)
-      const k2 = f(y.map((v, i) => v + (h / 2) * k1[i]!), held)
-      const k3 = f(y.map((v, i) => v + (h / 2) * k2[i]!), held)
-      const k4 = f(y.map((v, i) => v + h * k3[i]!), held)
+      const k2 = f(
+        y.map((v, i) => v + (h / 2) * k1[i]!),
+        held,
+      )
+      const k3 = f(
+        y.map((v, i) => v + (h / 2) * k2[i]!),
+        held,
+      )
+      const k4 = f(
+        y.map((v, i) => v + h * k3[i]!),
+        held,
+      )
       y = y.map((v, i) => v + (h / 6) * (k1[i]! + 2 * k2[i]! + 2 * k3[i]! + k4[i]!))
       const t = k * T + (j + 1) * h
       const x = y[0]!
@@ -150,5 +166,9 @@ export function referenceStep(loop: SampledLoop, horizon: number, sub = 50): Ref
     held = u
   }
   const settled = Math.abs(prevX - 1) <= 0.02
-  return { overshootPct: Math.max(0, 100 * (xMax - 1)), settlingTime: settled ? lastOut : null, tail }
+  return {
+    overshootPct: Math.max(0, 100 * (xMax - 1)),
+    settlingTime: settled ? lastOut : null,
+    tail,
+  }
 }

@@ -11,7 +11,10 @@ import {
 
 const rig: Rig = REFERENCE_RIG
 
-function issuesOf(result: { success: boolean; error?: { issues: { path: PropertyKey[]; message: string }[] } }) {
+function issuesOf(result: {
+  success: boolean
+  error?: { issues: { path: PropertyKey[], message: string }[] }
+}) {
   expect(result.success).toBe(false)
   return result.error!.issues
 }
@@ -19,7 +22,7 @@ function issuesOf(result: { success: boolean; error?: { issues: { path: Property
 /** The parse fails with an issue on `field` whose message names the field. */
 function expectFieldError(result: Parameters<typeof issuesOf>[0], field: string) {
   const issues = issuesOf(result)
-  const hit = issues.find((i) => i.path[0] === field)
+  const hit = issues.find(i => i.path[0] === field)
   expect(hit, `an issue on ${field}, got ${JSON.stringify(issues)}`).toBeDefined()
   expect(hit!.message).toContain(field)
 }
@@ -119,7 +122,10 @@ describe('gainsSchema', () => {
 
 describe('calibrationSchema', () => {
   it('needs two pairs and names the field', () => {
-    expectFieldError(calibrationSchema.safeParse({ adcBits: 10, pairs: [{ reading: 1, position: 0 }] }), 'pairs')
+    expectFieldError(
+      calibrationSchema.safeParse({ adcBits: 10, pairs: [{ reading: 1, position: 0 }] }),
+      'pairs',
+    )
   })
   it('rejects adcBits out of 6..24', () => {
     expectFieldError(calibrationSchema.safeParse({ adcBits: 30, pairs: [] }), 'adcBits')

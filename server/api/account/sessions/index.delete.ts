@@ -3,7 +3,12 @@ export default defineEventHandler(async (event) => {
   const user = await requireUser(event)
   await useDb().transaction(async (tx) => {
     await revokeSessions(tx, user.id)
-    await audit(tx, { actorId: user.id, action: 'account.signed-out-everywhere', subjectType: 'user', subjectId: user.id })
+    await audit(tx, {
+      actorId: user.id,
+      action: 'account.signed-out-everywhere',
+      subjectType: 'user',
+      subjectId: user.id,
+    })
   })
   await endSession(event)
   return { ok: true }

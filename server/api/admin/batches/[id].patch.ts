@@ -11,9 +11,23 @@ export default defineEventHandler(async (event) => {
   return useDb().transaction(async (tx) => {
     const [b] = await tx.select().from(batches).where(eq(batches.id, id)).limit(1).for('update')
     if (!b) throw notFound('That batch')
-    if (input.quantity < b.reserved) throw conflict(`Orders already hold ${b.reserved} units of this batch.`, 'below-reserved', { quantity: `At least ${b.reserved}: orders hold that many.` })
+    if (input.quantity < b.reserved)
+      throw conflict(`Orders already hold ${b.reserved} units of this batch.`, 'below-reserved', {
+        quantity: `At least ${b.reserved}: orders hold that many.`,
+      })
     await tx.update(batches).set({ quantityBuilt: input.quantity }).where(eq(batches.id, id))
-    await audit(tx, { actorId: admin.id, action: 'batch.recounted', subjectType: 'batch', subjectId: id, detail: { from: b.quantityBuilt, to: input.quantity } })
-    return { id, quantityBuilt: input.quantity, reserved: b.reserved, left: input.quantity - b.reserved }
+    await audit(tx, {
+      actorId: admin.id,
+      action: 'batch.recounted',
+      subjectType: 'batch',
+      subjectId: id,
+      detail: { from: b.quantityBuilt, to: input.quantity },
+    })
+    return {
+      id,
+      quantityBuilt: input.quantity,
+      reserved: b.reserved,
+      left: input.quantity - b.reserved,
+    }
   })
 })

@@ -5,12 +5,23 @@ import { unitsLeft } from '../../../../shared/utils/shop-rules'
 
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'admin')
-  const rows = await useDb().select({ b: batches, product: products.name, slug: products.slug }).from(batches)
-    .innerJoin(products, eq(products.id, batches.productId)).orderBy(desc(batches.builtOn), desc(batches.id)).limit(500)
+  const rows = await useDb()
+    .select({ b: batches, product: products.name, slug: products.slug })
+    .from(batches)
+    .innerJoin(products, eq(products.id, batches.productId))
+    .orderBy(desc(batches.builtOn), desc(batches.id))
+    .limit(500)
   return {
-    data: rows.map((r) => ({
-      id: r.b.id, productId: r.b.productId, product: r.product, slug: r.slug, code: r.b.code, quantityBuilt: r.b.quantityBuilt,
-      reserved: r.b.reserved, left: unitsLeft(r.b), builtOn: r.b.builtOn.toISOString(),
+    data: rows.map(r => ({
+      id: r.b.id,
+      productId: r.b.productId,
+      product: r.product,
+      slug: r.slug,
+      code: r.b.code,
+      quantityBuilt: r.b.quantityBuilt,
+      reserved: r.b.reserved,
+      left: unitsLeft(r.b),
+      builtOn: r.b.builtOn.toISOString(),
     })),
   }
 })

@@ -8,16 +8,37 @@ export default defineEventHandler(async (event) => {
   const input = await readBodyAs(event, batchSchema)
   try {
     const id = await useDb().transaction(async (tx) => {
-      const [p] = await tx.select({ id: products.id }).from(products).where(eq(products.id, input.productId)).limit(1)
+      const [p] = await tx
+        .select({ id: products.id })
+        .from(products)
+        .where(eq(products.id, input.productId))
+        .limit(1)
       if (!p) throw invalid({ productId: 'No such product.' })
-      const [row] = await tx.insert(batches).values({ productId: input.productId, code: input.code, quantityBuilt: input.quantity, builtOn: input.builtOn ?? new Date() }).$returningId()
-      await audit(tx, { actorId: admin.id, action: 'batch.created', subjectType: 'batch', subjectId: row!.id, detail: { quantity: input.quantity } })
+      const [row] = await tx
+        .insert(batches)
+        .values({
+          productId: input.productId,
+          code: input.code,
+          quantityBuilt: input.quantity,
+          builtOn: input.builtOn ?? new Date(),
+        })
+        .$returningId()
+      await audit(tx, {
+        actorId: admin.id,
+        action: 'batch.created',
+        subjectType: 'batch',
+        subjectId: row!.id,
+        detail: { quantity: input.quantity },
+      })
       return row!.id
     })
     setResponseStatus(event, 201)
     return { id }
   } catch (e) {
-    if (isDuplicateKey(e)) throw conflict('A batch with that code already exists.', 'code-taken', { code: 'A batch with that code already exists.' })
+    if (isDuplicateKey(e))
+      throw conflict('A batch with that code already exists.', 'code-taken', {
+        code: 'A batch with that code already exists.',
+      })
     throw e
   }
 })

@@ -6,19 +6,43 @@ import { orders, purchaseOrders, schools } from '../../../database/schema'
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'admin')
   const q = queryAs(event, adminOrderListQuery)
-  const term = q.q ? `%${q.q.replace(/[%_\\]/g, (c) => `\\${c}`)}%` : undefined
+  const term = q.q ? `%${q.q.replace(/[%_\\]/g, c => `\\${c}`)}%` : undefined
   const where = and(
     q.status ? eq(orders.status, q.status) : undefined,
     q.method ? eq(orders.paymentMethod, q.method) : undefined,
-    term ? or(like(orders.number, term), like(schools.name, term), like(purchaseOrders.poNumber, term)) : undefined,
+    term
+      ? or(like(orders.number, term), like(schools.name, term), like(purchaseOrders.poNumber, term))
+      : undefined,
   )
-  const column = { number: orders.id, createdAt: orders.createdAt, status: orders.status, totalCents: orders.totalCents, school: schools.name }[q.sort]
+  const column = {
+    number: orders.id,
+    createdAt: orders.createdAt,
+    status: orders.status,
+    totalCents: orders.totalCents,
+    school: schools.name,
+  }[q.sort]
   const db = useDb()
-  const base = () => db.select({ o: orders, school: schools.name, poNumber: purchaseOrders.poNumber }).from(orders)
-    .innerJoin(schools, eq(schools.id, orders.schoolId)).leftJoin(purchaseOrders, eq(purchaseOrders.orderId, orders.id))
+  const base = () =>
+    db
+      .select({ o: orders, school: schools.name, poNumber: purchaseOrders.poNumber })
+      .from(orders)
+      .innerJoin(schools, eq(schools.id, orders.schoolId))
+      .leftJoin(purchaseOrders, eq(purchaseOrders.orderId, orders.id))
   const [rows, [total]] = await Promise.all([
-    base().where(where).orderBy(q.dir === 'asc' ? asc(column) : desc(column), desc(orders.id)).limit(q.pageSize).offset((q.page - 1) * q.pageSize),
-    db.select({ n: count() }).from(orders).innerJoin(schools, eq(schools.id, orders.schoolId)).leftJoin(purchaseOrders, eq(purchaseOrders.orderId, orders.id)).where(where),
+    base()
+      .where(where)
+      .orderBy(q.dir === 'asc' ? asc(column) : desc(column), desc(orders.id))
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize),
+    db
+      .select({ n: count() })
+      .from(orders)
+      .innerJoin(schools, eq(schools.id, orders.schoolId))
+      .leftJoin(purchaseOrders, eq(purchaseOrders.orderId, orders.id))
+      .where(where),
   ])
-  return { data: rows.map(orderRowOf), meta: { total: total?.n ?? 0, page: q.page, pageSize: q.pageSize } }
+  return {
+    data: rows.map(orderRowOf),
+    meta: { total: total?.n ?? 0, page: q.page, pageSize: q.pageSize },
+  }
 })

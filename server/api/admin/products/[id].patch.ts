@@ -16,12 +16,21 @@ export default defineEventHandler(async (event) => {
       if (Object.keys(input).length) await tx.update(products).set(input).where(eq(products.id, id))
       if (tiers) {
         await tx.delete(priceTiers).where(eq(priceTiers.productId, id))
-        await tx.insert(priceTiers).values(tiers.map((t) => ({ productId: id, ...t })))
+        await tx.insert(priceTiers).values(tiers.map(t => ({ productId: id, ...t })))
       }
-      await audit(tx, { actorId: admin.id, action: 'product.updated', subjectType: 'product', subjectId: id, detail: { fields: Object.keys(input), tiers: !!tiers } })
+      await audit(tx, {
+        actorId: admin.id,
+        action: 'product.updated',
+        subjectType: 'product',
+        subjectId: id,
+        detail: { fields: Object.keys(input), tiers: !!tiers },
+      })
     })
   } catch (e) {
-    if (isDuplicateKey(e)) throw conflict('Another product already uses that slug.', 'slug-taken', { slug: 'Another product already uses that slug.' })
+    if (isDuplicateKey(e))
+      throw conflict('Another product already uses that slug.', 'slug-taken', {
+        slug: 'Another product already uses that slug.',
+      })
     throw e
   }
   const [entry] = await loadCatalog(useDb(), { activeOnly: false, ids: [id] })

@@ -3,8 +3,12 @@ export default defineEventHandler(async (event) => {
   await requireRole(event, 'admin')
   const catalog = await loadCatalog(useDb(), { activeOnly: false })
   return {
-    data: catalog.map((e) => ({
-      ...productView(e), batches: e.batches, description: e.row.description, specs: e.row.specs, weightGrams: e.row.weightGrams,
+    data: catalog.map(e => ({
+      ...productView(e),
+      batches: e.batches,
+      description: e.row.description,
+      specs: e.row.specs,
+      weightGrams: e.row.weightGrams,
     })),
   }
 })

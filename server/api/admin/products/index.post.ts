@@ -8,15 +8,26 @@ export default defineEventHandler(async (event) => {
   try {
     const id = await useDb().transaction(async (tx) => {
       const [last] = await tx.select({ n: max(products.sortOrder) }).from(products)
-      const [row] = await tx.insert(products).values({ ...input, sortOrder: (last?.n ?? 0) + 1 }).$returningId()
-      await tx.insert(priceTiers).values(tiers.map((t) => ({ productId: row!.id, ...t })))
-      await audit(tx, { actorId: admin.id, action: 'product.created', subjectType: 'product', subjectId: row!.id })
+      const [row] = await tx
+        .insert(products)
+        .values({ ...input, sortOrder: (last?.n ?? 0) + 1 })
+        .$returningId()
+      await tx.insert(priceTiers).values(tiers.map(t => ({ productId: row!.id, ...t })))
+      await audit(tx, {
+        actorId: admin.id,
+        action: 'product.created',
+        subjectType: 'product',
+        subjectId: row!.id,
+      })
       return row!.id
     })
     setResponseStatus(event, 201)
     return { id }
   } catch (e) {
-    if (isDuplicateKey(e)) throw conflict('Another product already uses that slug.', 'slug-taken', { slug: 'Another product already uses that slug.' })
+    if (isDuplicateKey(e))
+      throw conflict('Another product already uses that slug.', 'slug-taken', {
+        slug: 'Another product already uses that slug.',
+      })
     throw e
   }
 })

@@ -9,12 +9,28 @@ export default defineEventHandler(async (event) => {
     inArray(users.role, ['support', 'admin']),
     q.q ? or(like(users.name, `%${q.q}%`), like(users.email, `%${q.q}%`)) : undefined,
   )
-  const column = { name: users.name, email: users.email, role: users.role, createdAt: users.createdAt }[q.sort]
+  const column = {
+    name: users.name,
+    email: users.email,
+    role: users.role,
+    createdAt: users.createdAt,
+  }[q.sort]
   const db = useDb()
   const [rows, [total]] = await Promise.all([
-    db.select({ id: users.id, name: users.name, email: users.email, role: users.role, createdAt: users.createdAt, disabledAt: users.disabledAt })
-      .from(users).where(where).orderBy(q.dir === 'asc' ? asc(column) : desc(column), asc(users.id))
-      .limit(q.pageSize).offset((q.page - 1) * q.pageSize),
+    db
+      .select({
+        id: users.id,
+        name: users.name,
+        email: users.email,
+        role: users.role,
+        createdAt: users.createdAt,
+        disabledAt: users.disabledAt,
+      })
+      .from(users)
+      .where(where)
+      .orderBy(q.dir === 'asc' ? asc(column) : desc(column), asc(users.id))
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize),
     db.select({ n: count() }).from(users).where(where),
   ])
   return { data: rows, meta: { total: total?.n ?? 0, page: q.page, pageSize: q.pageSize } }

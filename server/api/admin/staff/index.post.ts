@@ -10,21 +10,41 @@ export default defineEventHandler(async (event) => {
   const passwordHash = await hashPassword(randomBytes(24).toString('base64url'))
   try {
     const id = await useDb().transaction(async (tx) => {
-      const [row] = await tx.insert(users).values({ ...input, passwordHash, verifiedAt: null }).$returningId()
+      const [row] = await tx
+        .insert(users)
+        .values({ ...input, passwordHash, verifiedAt: null })
+        .$returningId()
       // After the insert: its unique e-mail key keeps two invitations of one address apart.
       if (!(await takeMailQuota(tx, 'staff-invitation', input.email))) {
-        throw tooManyRequests('That address was sent several invitations this hour. Try again later.', 3600)
+        throw tooManyRequests(
+          'That address was sent several invitations this hour. Try again later.',
+          3600,
+        )
       }
       // The invitation is a password-setting link that lives 3 days, not a reset's 1 hour.
       const token = await issueToken(tx, row!.id, 'reset-password', 3 * 24 * 3600_000)
-      await enqueueMail(tx, 'staff-invitation', input.email, staffInvitationMail(input.name, admin.name, input.role, appUrl(`/reset-password/${token}`)))
-      await audit(tx, { actorId: admin.id, action: 'staff.created', subjectType: 'user', subjectId: row!.id, detail: { role: input.role } })
+      await enqueueMail(
+        tx,
+        'staff-invitation',
+        input.email,
+        staffInvitationMail(input.name, admin.name, input.role, appUrl(`/reset-password/${token}`)),
+      )
+      await audit(tx, {
+        actorId: admin.id,
+        action: 'staff.created',
+        subjectType: 'user',
+        subjectId: row!.id,
+        detail: { role: input.role },
+      })
       return row!.id
     })
     setResponseStatus(event, 201)
     return { id }
   } catch (e) {
-    if (isDuplicateKey(e)) throw conflict('Someone already uses that e-mail address.', 'email-taken', { email: 'Someone already uses that e-mail address.' })
+    if (isDuplicateKey(e))
+      throw conflict('Someone already uses that e-mail address.', 'email-taken', {
+        email: 'Someone already uses that e-mail address.',
+      })
     throw e
   }
 })

@@ -6,8 +6,17 @@ export default defineEventHandler(async (event) => {
   const user = await requireUser(event)
   const { id } = paramsAs(event, idParams)
   const sheet = await loadVisibleSheet(user, id)
-  const slug = sheet.title.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 60) || 'sheet'
+  const slug
+    = sheet.title
+      .toLowerCase()
+      .replace(/[^a-z0-9]+/g, '-')
+      .replace(/^-|-$/g, '')
+      .slice(0, 60) || 'sheet'
   setResponseHeader(event, 'content-type', 'application/json; charset=utf-8')
-  setResponseHeader(event, 'content-disposition', `attachment; filename="tuning-sheet-${id}-${slug}.tiltsheet.json"`)
+  setResponseHeader(
+    event,
+    'content-disposition',
+    `attachment; filename="tuning-sheet-${id}-${slug}.tiltsheet.json"`,
+  )
   return JSON.stringify(sheetToFile(sheet), null, 2)
 })

@@ -10,5 +10,10 @@ export default defineEventHandler(async (event) => {
   const { jobId } = await approvePurchaseOrder(admin, id, input.acceptTaxCertificate)
   const run = await runJobNow(jobId)
   const view = await replyWithOrder(id, admin)
-  return { ...view, notice: run.done ? null : 'The payment service did not answer; the invoice will be issued as soon as it does.' }
+  return {
+    ...view,
+    notice: run.done
+      ? null
+      : 'The payment service did not answer; the invoice will be issued as soon as it does.',
+  }
 })

@@ -6,5 +6,10 @@ export default defineEventHandler(async (event) => {
   const { jobId } = await retryInvoice(admin, id)
   const run = await runJobNow(jobId)
   const view = await replyWithOrder(id, admin)
-  return { ...view, notice: run.done ? null : 'The payment service still does not answer; the invoice will be issued as soon as it does.' }
+  return {
+    ...view,
+    notice: run.done
+      ? null
+      : 'The payment service still does not answer; the invoice will be issued as soon as it does.',
+  }
 })

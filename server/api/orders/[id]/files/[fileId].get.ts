@@ -11,7 +11,11 @@ export default defineEventHandler(async (event) => {
   if (!canSeeOrderDocuments(user, order)) throw notFound('That file')
   const fileId = Number(getRouterParam(event, 'fileId'))
   if (!Number.isSafeInteger(fileId) || fileId < 1) throw notFound('That file')
-  const [f] = await useDb().select().from(storedFiles).where(and(eq(storedFiles.id, fileId), eq(storedFiles.orderId, order.id))).limit(1)
+  const [f] = await useDb()
+    .select()
+    .from(storedFiles)
+    .where(and(eq(storedFiles.id, fileId), eq(storedFiles.orderId, order.id)))
+    .limit(1)
   const data = f ? await readStoredFile(f.storageKey) : null
   if (!f || !data) throw notFound('That file')
   setResponseHeaders(event, {
@@ -19,7 +23,7 @@ export default defineEventHandler(async (event) => {
     'content-disposition': `attachment; filename="${f.filename.replace(/"/g, '')}"`,
     'cache-control': 'private, no-store',
     'x-content-type-options': 'nosniff',
-    'content-security-policy': "default-src 'none'; sandbox",
+    'content-security-policy': 'default-src \'none\'; sandbox',
   })
   return data
 })
