@@ -1,0 +1,35 @@
+// Replies of the staff side's routes that the pages read (the contract both sides type against).
+import type { ListReply } from '../schemas/list'
+
+/** A staff account on the admin's staff page. Invited until the first sign-in. */
+export interface StaffMember {
+  id: number
+  name: string
+  email: string
+  role: 'support' | 'admin'
+  status: 'invited' | 'active' | 'disabled'
+  createdAt: string
+  lastSignInAt: string | null
+}
+export type StaffListReply = ListReply<StaffMember>
+
+/** One order waiting on the staff, as the desk lists it. */
+export interface DeskOrder {
+  id: number
+  number: string
+  schoolName: string
+  totalCents: number
+  /** When it started waiting (ISO). */
+  since: string
+}
+
+/**
+ * GET /api/staff/desk: what is waiting on the staff. The order lists are the admin's work
+ * (null for support, who see no prices); failed mail is for everyone on the staff.
+ */
+export interface StaffDesk {
+  poToReview: DeskOrder[] | null
+  toAllocate: DeskOrder[] | null
+  toShip: DeskOrder[] | null
+  failedMail: number
+}
