@@ -6,7 +6,6 @@ import PDFDocument from 'pdfkit'
 import { formatCents } from '../../shared/utils/pricing'
 import { VENDOR } from '../../shared/utils/vendor'
 import { palette } from '../../shared/utils/palette'
-import { formatDay } from '../../shared/utils/dates'
 
 export interface DocLineSpec {
   description: string
@@ -51,9 +50,6 @@ function loadFonts() {
   }
   return fonts
 }
-
-/** Documents and e-mails write dates the way the pages do ("January 1, 2027"). */
-export const toDate = (d: Date | string) => formatDay(d, 'long')
 
 export function renderDocument(spec: DocSpec): Promise<Buffer> {
   const f = loadFonts()

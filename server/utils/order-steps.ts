@@ -519,7 +519,7 @@ export async function recordInvoiceIssued(
       })
       .where(eq(orders.id, orderId))
     const due = invoice.dueAt
-      ? formatDay(invoice.dueAt, 'long')
+      ? formatDay(invoice.dueAt)
       : `${INVOICE_NET_DAYS} days from today`
     await addOrderEvent(
       tx,

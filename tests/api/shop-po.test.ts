@@ -113,7 +113,7 @@ describe('purchase-order checkout', () => {
       VENDOR.bank.accountNumber,
       VENDOR.taxId,
       'Due date',
-      formatDay(a.body.invoice.dueAt, 'long'),
+      formatDay(a.body.invoice.dueAt),
       'Online by card',
       'invented for this demonstration',
     ])

@@ -5,7 +5,7 @@ import { cartSchema } from '../../../shared/schemas/shop'
 import { addDays, QUOTE_VALID_DAYS } from '../../../shared/utils/pricing'
 import { quoteLines, quotes } from '../../database/schema'
 import { quoteIssuedMail } from '../../emails/shop'
-import { toDate } from '../../documents/pdf'
+import { formatDay } from '../../../shared/utils/dates'
 
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'teacher')
@@ -25,7 +25,7 @@ export default defineEventHandler(async (event) => {
     const [q] = await tx.select().from(quotes).where(eq(quotes.id, row!.id)).limit(1)
     const mail = quoteIssuedMail(
       user.name,
-      { number, totalCents: q!.totalCents, validUntil: toDate(validUntil) },
+      { number, totalCents: q!.totalCents, validUntil: formatDay(validUntil) },
       appUrl(`/quotes/${q!.id}`),
     )
     await enqueueMail(tx, 'quote-issued', user.email, mail, [{ document: 'quote', quoteId: q!.id }])
