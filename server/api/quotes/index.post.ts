@@ -25,7 +25,7 @@ export default defineEventHandler(async (event) => {
     const [q] = await tx.select().from(quotes).where(eq(quotes.id, row!.id)).limit(1)
     const mail = quoteIssuedMail(
       user.name,
-      { number, totalCents: q!.totalCents, validUntil: formatDay(validUntil) },
+      { number, totalCents: q!.totalCents, validUntil: formatDay(validUntil), lines: src.lines },
       appUrl(`/quotes/${q!.id}`),
     )
     await enqueueMail(tx, 'quote-issued', user.email, mail, [{ document: 'quote', quoteId: q!.id }])
