@@ -1,5 +1,5 @@
-// A teacher saves the cart as a formal quote: numbered, dated, valid 30 days, priced now and
-// e-mailed with its PDF. Stock is not reserved by a quote.
+// A teacher saves the cart as a formal quote: numbered, dated, valid QUOTE_VALID_DAYS days,
+// priced now and e-mailed with its PDF. Stock is not reserved by a quote.
 import { eq } from 'drizzle-orm'
 import { cartSchema } from '../../../shared/schemas/shop'
 import { addDays, QUOTE_VALID_DAYS } from '../../../shared/utils/pricing'
