@@ -54,6 +54,8 @@ export const users = mysqlTable(
     schoolId: ref('school_id').references(() => schools.id),
     verifiedAt: datetime('verified_at', { mode: 'date', fsp: 3 }),
     disabledAt: datetime('disabled_at', { mode: 'date', fsp: 3 }),
+    /** The last time a session was started (null: never signed in, e.g. invited staff). */
+    lastSignInAt: datetime('last_sign_in_at', { mode: 'date', fsp: 3 }),
     createdAt: createdAt(),
   },
   t => [uniqueIndex('users_email_unique').on(t.email), index('users_school_idx').on(t.schoolId)],

@@ -3,6 +3,7 @@
 // never inside a transaction that holds the order's row lock.
 import { and, desc, eq } from 'drizzle-orm'
 import { batches, shipments, stockReservations } from '../database/schema'
+import { shipmentCarrier } from '../../shared/utils/shipments'
 import { cardReceiptPdf, invoicePdf, packingListPdf } from '../documents/shop'
 import { CLOSED_STATUSES } from '../../shared/utils/order-flow'
 
@@ -74,7 +75,10 @@ export async function renderOrderDocument(db: DbOrTx, order: OrderRow, kind: Ord
       items,
       school,
       buyer.name,
-      shipment,
+      shipment && {
+        carrier: shipmentCarrier(shipment.carrier, shipment.tracking).carrierName,
+        tracking: shipment.tracking,
+      },
     )
     return { filename: `Tiltwright-packing-list-${order.number}.pdf`, pdf }
   }

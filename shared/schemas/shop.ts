@@ -2,6 +2,7 @@
 import { z } from 'zod'
 import { risingTierProblems, tierProblems } from '../utils/pricing'
 import { listQuerySchema } from './list'
+import { CARRIERS, CARRIER_IDS } from '../utils/carriers'
 import { ORDER_STATUSES } from '../utils/order-flow'
 import { multiLine, plainId, singleLine, wholeNumber } from './text'
 
@@ -88,14 +89,11 @@ export const approveSchema = z.object({
   acceptTaxCertificate: z.boolean().optional().default(false),
 })
 
+const PICK_CARRIER = `Pick the carrier: ${CARRIERS.map(c => c.name).join(', ')}.`
+
+/** A form starts with no carrier picked (''), so the input is any string; the output is an id. */
 export const shipmentSchema = z.object({
-  carrier: singleLine(
-    z
-      .string({ error: 'Enter the carrier.' })
-      .trim()
-      .min(2, 'Enter the carrier.')
-      .max(60, 'Keep the carrier to 60 characters or fewer.'),
-  ),
+  carrier: z.string({ error: PICK_CARRIER }).pipe(z.enum(CARRIER_IDS, { error: PICK_CARRIER })),
   tracking: z
     .string({ error: 'Enter the tracking number.' })
     .trim()

@@ -1,8 +1,10 @@
 // What the shop's routes answer; the pages type their useFetch calls with these.
 import type { PriceTier, PricedLine, Totals } from '../utils/pricing'
+import type { ListReply } from '../schemas/list'
 import type { OrderAction, OrderStatus, PaymentMethod } from '../utils/order-flow'
 import type { CheckoutAddresses } from '../schemas/address'
 import type { WayBack } from '../utils/resubmit'
+import type { ShipmentCarrier } from '../utils/shipments'
 
 export interface BatchView {
   id: number
@@ -77,9 +79,8 @@ export interface OrderEventView {
   message: string
   createdAt: string
 }
-export interface ShipmentView {
+export interface ShipmentView extends ShipmentCarrier {
   id: number
-  carrier: string
   tracking: string
   shippedAt: string
 }
@@ -138,6 +139,12 @@ export interface OrderView {
   wayBack: WayBack | null
 }
 
+/** What every admin order step (/api/admin/orders/[id]/*) answers: the refreshed order, and a
+ *  word for the admin when part of the step is still under way (null otherwise). */
+export interface AdminOrderReply extends OrderView {
+  notice: string | null
+}
+
 export interface OrderSummary {
   id: number
   number: string
@@ -148,4 +155,11 @@ export interface OrderSummary {
   school: string
   poNumber: string | null
   paid: boolean
+}
+
+/** GET /api/admin/orders. */
+export type AdminOrderListReply = ListReply<OrderSummary>
+/** GET /api/orders: the teacher's school's orders. */
+export interface OrderListReply {
+  data: OrderSummary[]
 }
