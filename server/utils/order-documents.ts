@@ -6,9 +6,7 @@ import { batches, shipments, stockReservations } from '../database/schema'
 import { shipmentCarrier } from '../../shared/utils/shipments'
 import { cardReceiptPdf, invoicePdf, packingListPdf } from '../documents/shop'
 import { CLOSED_STATUSES } from '../../shared/utils/order-flow'
-
-export const ORDER_DOCUMENT_KINDS = ['invoice', 'receipt', 'packing-list'] as const
-export type OrderDocumentKind = (typeof ORDER_DOCUMENT_KINDS)[number]
+import type { OrderDocumentKind } from '../../shared/utils/states'
 
 /** The PDF and its file name, or null when the order has no such document (yet). */
 export async function renderOrderDocument(db: DbOrTx, order: OrderRow, kind: OrderDocumentKind) {

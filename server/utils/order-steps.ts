@@ -32,6 +32,7 @@ import { formatDay } from '../../shared/utils/dates'
 import type { SessionUser } from '../../shared/utils/roles'
 import type { CarrierId } from '../../shared/utils/carriers'
 import { shipmentCarrier } from '../../shared/utils/shipments'
+import type { UploadKind } from '../../shared/utils/states'
 import type { CartLine } from '../../shared/schemas/shop'
 import type { CheckoutAddresses } from '../../shared/schemas/address'
 import {
@@ -295,7 +296,7 @@ export async function discardUnopenedOrder(orderId: number) {
 }
 
 export interface StoredUpload {
-  kind: 'purchase-order' | 'tax-certificate'
+  kind: UploadKind
   key: string
   filename: string
   mime: string

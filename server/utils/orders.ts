@@ -41,6 +41,7 @@ import { quoteTaxNote, retax, taxLineLabel } from '../../shared/utils/tax'
 import { shipmentCarrier } from '../../shared/utils/shipments'
 import type { CartLine } from '../../shared/schemas/shop'
 import type { CheckoutAddresses } from '../../shared/schemas/address'
+import { idParams } from '../../shared/schemas/ids'
 
 export type OrderRow = typeof orders.$inferSelect
 
@@ -263,8 +264,7 @@ export async function requireVisibleOrder(
   user: SessionUser,
   lock?: Tx,
 ): Promise<OrderRow> {
-  const id = Number(getRouterParam(event, 'id'))
-  if (!Number.isSafeInteger(id) || id < 1) throw notFound('That order')
+  const { id } = paramsAs(event, idParams, 'That order')
   const order = await loadOrder(lock ?? useDb(), id, !!lock)
   if (!order || !canSeeOrder(user, order)) throw notFound('That order')
   return order

@@ -4,12 +4,13 @@
 import { and, asc, count, eq, sql, type SQL } from 'drizzle-orm'
 import type { DeskOrder, StaffDesk } from '../../shared/types/staff'
 import { isAdmin, type SessionUser } from '../../shared/utils/roles'
+import type { ReservationStatus } from '../../shared/utils/states'
 import { jobs, orders, purchaseOrders, schools } from '../database/schema'
 
 /** At most this many orders in each of the desk's lists. */
 export const DESK_LIST_LIMIT = 20
 
-const holds = (status: 'reserved' | 'allocated') =>
+const holds = (status: ReservationStatus) =>
   sql`exists (select 1 from stock_reservations r
     where r.order_id = ${orders.id} and r.status = ${status})`
 

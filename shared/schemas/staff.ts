@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { emailAddress } from './email'
 import { listQuerySchema } from './list'
 import { singleLine } from './text'
 import { STAFF_ROLES } from '../utils/roles'
@@ -18,13 +19,7 @@ export const createStaffSchema = z.object({
       .min(1, 'Enter the name.')
       .max(120, 'Keep the name to 120 characters or fewer.'),
   ),
-  email: z
-    .string({ error: 'Enter the e-mail address.' })
-    .trim()
-    .toLowerCase()
-    .min(1, 'Enter the e-mail address.')
-    .max(254, 'That e-mail address is too long.')
-    .pipe(z.email({ error: 'That does not look like an e-mail address.' })),
+  email: emailAddress(),
   role: staffRole,
 })
 

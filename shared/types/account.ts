@@ -1,4 +1,5 @@
 import type { SessionUser } from '../utils/roles'
+import type { TaxExemptionState } from '../utils/states'
 
 export interface SchoolView {
   id: number
@@ -10,7 +11,7 @@ export interface SchoolView {
   region: string
   postalCode: string
   country: string
-  taxExemption: 'none' | 'pending' | 'accepted' | 'rejected'
+  taxExemption: TaxExemptionState
 }
 
 export interface AccountReply {

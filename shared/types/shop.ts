@@ -5,6 +5,13 @@ import type { OrderAction, OrderStatus, PaymentMethod } from '../utils/order-flo
 import type { CheckoutAddresses } from '../schemas/address'
 import type { WayBack } from '../utils/resubmit'
 import type { ShipmentCarrier } from '../utils/shipments'
+import type {
+  OrderDocumentKind,
+  PoStatus,
+  ProductKind,
+  ReservationStatus,
+  UploadKind,
+} from '../utils/states'
 
 export interface BatchView {
   id: number
@@ -18,7 +25,7 @@ export interface ProductView {
   id: number
   slug: string
   name: string
-  kind: 'kit' | 'part'
+  kind: ProductKind
   summary: string
   image: string
   priceTiers: PriceTier[]
@@ -85,7 +92,7 @@ export interface ShipmentView extends ShipmentCarrier {
   shippedAt: string
 }
 export interface OrderDocument {
-  kind: 'quote' | 'invoice' | 'receipt' | 'packing-list' | 'purchase-order' | 'tax-certificate'
+  kind: 'quote' | OrderDocumentKind | UploadKind
   label: string
   url: string
 }
@@ -118,14 +125,14 @@ export interface OrderView {
   purchaseOrder: {
     poNumber: string
     apEmail: string
-    status: 'review' | 'approved' | 'rejected'
+    status: PoStatus
     rejectReason: string | null
   } | null
   reservations: {
     batchCode: string
     productName: string
     quantity: number
-    status: 'reserved' | 'allocated' | 'released'
+    status: ReservationStatus
   }[]
   allocated: boolean
   canCancel: boolean

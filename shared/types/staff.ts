@@ -1,12 +1,13 @@
 // Replies of the staff side's routes that the pages read (the contract both sides type against).
 import type { ListReply } from '../schemas/list'
+import type { StaffRole } from '../utils/roles'
 
 /** A staff account on the admin's staff page. Invited until the first sign-in. */
 export interface StaffMember {
   id: number
   name: string
   email: string
-  role: 'support' | 'admin'
+  role: StaffRole
   status: 'invited' | 'active' | 'disabled'
   createdAt: string
   lastSignInAt: string | null
