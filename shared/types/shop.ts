@@ -146,6 +146,16 @@ export interface OrderView {
   wayBack: WayBack | null
 }
 
+/** An order as support see it (GET /api/orders/[id]): no totals, no line prices, and the
+ *  timeline's amounts taken out (shared/utils/unpriced.ts). */
+export interface UnpricedOrderView
+  extends Omit<OrderView, 'subtotalCents' | 'shippingCents' | 'taxCents' | 'totalCents' | 'lines'> {
+  pricesHidden: true
+  lines: { productId: number, name: string, quantity: number, tierLabel: string | null }[]
+}
+/** GET /api/orders/[id]: the full view, or support's view without money. */
+export type OrderReply = OrderView | UnpricedOrderView
+
 /** What every admin order step (/api/admin/orders/[id]/*) answers: the refreshed order, and a
  *  word for the admin when part of the step is still under way (null otherwise). */
 export interface AdminOrderReply extends OrderView {
