@@ -30,3 +30,17 @@ export interface SessionView {
 export interface SessionsReply {
   data: SessionView[]
 }
+
+/** POST /api/auth/login, PATCH /api/account: the signed-in person. */
+export interface UserReply {
+  user: SessionUser
+}
+/** POST /api/auth/verify-email. */
+export interface VerifiedReply {
+  verified: true
+}
+/** POST /api/auth/resend-verification: whether a new link went out. */
+export interface ResendVerificationReply {
+  sent: boolean
+  verified: boolean
+}

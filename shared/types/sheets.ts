@@ -28,11 +28,3 @@ export interface SheetView {
   archived: boolean
   createdAt: string
 }
-
-/** A create or import answers the new sheet's id (201). */
-export interface CreatedReply {
-  id: number
-}
-export interface OkReply {
-  ok: true
-}

@@ -180,3 +180,74 @@ export type AdminOrderListReply = ListReply<OrderSummary>
 export interface OrderListReply {
   data: OrderSummary[]
 }
+
+/** GET /api/products: the public catalog (without prices for a builder). */
+export interface CatalogReply {
+  data: ProductView[]
+}
+/** GET /api/admin/products: every product, withdrawn ones included. */
+export interface AdminCatalogReply {
+  data: ProductDetail[]
+}
+
+/** A production batch in the admin's batch table. */
+export interface BatchRow {
+  id: number
+  productId: number
+  product: string
+  slug: string
+  code: string
+  quantityBuilt: number
+  reserved: number
+  left: number
+  builtOn: string
+}
+export interface BatchListReply {
+  data: BatchRow[]
+}
+/** PATCH /api/admin/batches/[id]: the recounted batch. */
+export interface BatchRecountReply {
+  id: number
+  quantityBuilt: number
+  reserved: number
+  left: number
+}
+
+/** POST /api/checkout/card: the order and the payment page to send the teacher to. */
+export interface CardCheckoutReply {
+  orderId: number
+  number: string
+  url: string | null
+}
+/** POST /api/checkout/purchase-order. */
+export interface PurchaseOrderCheckoutReply {
+  orderId: number
+  number: string
+}
+
+/** A quote in the teacher's list. */
+export interface QuoteSummary {
+  id: number
+  number: string
+  createdAt: string
+  validUntil: string
+  totalCents: number
+  orderId: number | null
+  valid: boolean
+}
+export interface QuoteListReply {
+  data: QuoteSummary[]
+}
+/** POST /api/quotes (201). */
+export interface QuoteCreatedReply {
+  id: number
+  number: string
+  totalCents: number
+  validUntil: string
+}
+
+/** POST /api/webhooks/payments: the provider only reads the status. */
+export interface WebhookReply {
+  received: true
+  duplicate: boolean
+}

@@ -34,3 +34,14 @@ export interface StaffDesk {
   toShip: DeskOrder[] | null
   failedMail: number
 }
+
+/** One message the local fake SMTP server caught, its single-use links masked. */
+export interface CaughtMail {
+  text: string
+  html: string | null
+  [field: string]: unknown
+}
+/** GET /api/staff/mail (admins, fake mode only). */
+export interface CaughtMailReply {
+  data: CaughtMail[]
+}

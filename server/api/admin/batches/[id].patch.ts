@@ -3,8 +3,9 @@ import { eq } from 'drizzle-orm'
 import { idParams } from '../../../../shared/schemas/ids'
 import { batchPatchSchema } from '../../../../shared/schemas/shop'
 import { batches } from '../../../database/schema'
+import type { BatchRecountReply } from '../../../../shared/types/shop'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<BatchRecountReply> => {
   const admin = await requireRole(event, 'admin')
   const { id } = paramsAs(event, idParams, 'That batch')
   const input = await readBodyAs(event, batchPatchSchema)

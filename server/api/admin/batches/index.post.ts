@@ -2,8 +2,9 @@
 import { eq } from 'drizzle-orm'
 import { batchSchema } from '../../../../shared/schemas/shop'
 import { batches, products } from '../../../database/schema'
+import type { CreatedReply } from '../../../../shared/types/common'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<CreatedReply> => {
   const admin = await requireRole(event, 'admin')
   const input = await readBodyAs(event, batchSchema)
   const id = await uniqueOr409('code', 'A batch with that code already exists.', () =>

@@ -4,8 +4,9 @@ import { eq } from 'drizzle-orm'
 import { idParams } from '../../../../shared/schemas/ids'
 import { productPatchSchema } from '../../../../shared/schemas/shop'
 import { priceTiers, products } from '../../../database/schema'
+import type { ProductView } from '../../../../shared/types/shop'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<ProductView> => {
   const admin = await requireRole(event, 'admin')
   const { id } = paramsAs(event, idParams, 'That product')
   const { tiers, ...input } = await readBodyAs(event, productPatchSchema)

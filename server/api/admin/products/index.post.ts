@@ -1,8 +1,9 @@
 import { productSchema } from '../../../../shared/schemas/shop'
 import { max } from 'drizzle-orm'
 import { priceTiers, products } from '../../../database/schema'
+import type { CreatedReply } from '../../../../shared/types/common'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<CreatedReply> => {
   const admin = await requireRole(event, 'admin')
   const { tiers, ...input } = await readBodyAs(event, productSchema)
   const id = await uniqueOr409('slug', 'Another product already uses that slug.', () =>

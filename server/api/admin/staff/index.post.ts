@@ -3,8 +3,9 @@ import { randomBytes } from 'node:crypto'
 import { createStaffSchema } from '../../../../shared/schemas/staff'
 import { users } from '../../../database/schema'
 import { staffInvitationMail } from '../../../emails/staff'
+import type { CreatedReply } from '../../../../shared/types/common'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<CreatedReply> => {
   const admin = await requireRole(event, 'admin')
   const input = await readBodyAs(event, createStaffSchema)
   const passwordHash = await hashPassword(randomBytes(24).toString('base64url'))

@@ -5,8 +5,9 @@ import { storedFiles } from '../../../../database/schema'
 import { orderFileParams } from '../../../../../shared/schemas/ids'
 import { readStoredFile } from '../../../../services/files'
 import { canSeeOrderDocuments } from '../../../../../shared/utils/shop-rules'
+import type { FileReply } from '../../../../../shared/types/common'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<FileReply> => {
   const user = await requireUser(event)
   const { fileId } = paramsAs(event, orderFileParams, 'That file')
   const order = await requireVisibleOrder(event, user)
