@@ -30,6 +30,9 @@ import { releasedWords } from '../../shared/utils/shop-rules'
 import { formatCents, INVOICE_NET_DAYS } from '../../shared/utils/pricing'
 import { formatDay } from '../../shared/utils/dates'
 import type { SessionUser } from '../../shared/utils/roles'
+import type { CarrierId } from '../../shared/utils/carriers'
+import { shipmentCarrier } from '../../shared/utils/shipments'
+import type { UploadKind } from '../../shared/utils/states'
 import type { CartLine } from '../../shared/schemas/shop'
 import type { CheckoutAddresses } from '../../shared/schemas/address'
 import {
@@ -294,7 +297,7 @@ export async function discardUnopenedOrder(orderId: number) {
 }
 
 export interface StoredUpload {
-  kind: 'purchase-order' | 'tax-certificate'
+  kind: UploadKind
   key: string
   filename: string
   mime: string
@@ -625,12 +628,13 @@ export async function allocateOrder(admin: SessionUser, orderId: number) {
 export async function shipOrder(
   admin: SessionUser,
   orderId: number,
-  input: { carrier: string, tracking: string },
+  input: { carrier: CarrierId, tracking: string },
 ) {
   return transactionWithRetry(async (tx) => {
     const order = await lockOrder(tx, orderId)
+    const carrierName = shipmentCarrier(input.carrier, input.tracking).carrierName
     await applyStep(tx, order, 'ship', actorOf(admin), {
-      reference: `${input.carrier}, tracking ${input.tracking}`,
+      reference: `${carrierName}, tracking ${input.tracking}`,
     })
     const [row] = await tx
       .insert(shipments)
@@ -641,7 +645,11 @@ export async function shipOrder(
       tx,
       'shipped',
       buyer.email,
-      shippedMail(buyer.name, { number: order.number!, ...input, lines }, orderUrl(orderId)),
+      shippedMail(
+        buyer.name,
+        { number: order.number!, carrier: carrierName, tracking: input.tracking, lines },
+        orderUrl(orderId),
+      ),
       [{ document: 'packing-list', orderId }],
     )
     return row!.id

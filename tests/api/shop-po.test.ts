@@ -22,6 +22,17 @@ import {
   waitForOrder,
 } from '../helpers/shop'
 
+/** The order waits in `list` of the admin's desk (GET /api/staff/desk) and in no other. A list
+ *  holds the 20 oldest, so the order may be missing from its list only when that list is full. */
+async function expectOnDesk(admin: Client, id: number, list: string | null) {
+  const desk = (await admin.get('/api/staff/desk')).body
+  for (const key of ['poToReview', 'toAllocate', 'toShip']) {
+    const listed = desk[key].some((o: any) => o.id === id)
+    if (key === list) expect(listed || desk[key].length === 20, key).toBe(true)
+    else expect(listed, key).toBe(false)
+  }
+}
+
 describe('purchase-order checkout', () => {
   it('goes from PO upload to an approved, invoiced, paid and shipped order', async () => {
     const admin = await signedIn('admin@tiltwright.test')
@@ -71,9 +82,13 @@ describe('purchase-order checkout', () => {
       new RegExp(`/admin/orders/${id}$`),
     )
 
+    await expectOnDesk(admin, id, 'poToReview')
+
     // Approve, accepting the certificate: the tax drops to zero before the invoice is made.
     const a = await admin.post(`/api/admin/orders/${id}/approve`, { acceptTaxCertificate: true })
     expect(a.status).toBe(200)
+    // An approved PO may be packed: it waits to be allocated.
+    await expectOnDesk(admin, id, 'toAllocate')
     expect(a.body).toMatchObject({
       status: 'awaiting payment',
       taxCents: 0,
@@ -145,12 +160,18 @@ describe('purchase-order checkout', () => {
     await waitForMail(t.email, /^Payment received/)
 
     await admin.post(`/api/admin/orders/${id}/allocate`)
+    await expectOnDesk(admin, id, 'toShip')
     const ship = await admin.post(`/api/admin/orders/${id}/shipments`, {
-      carrier: 'Ridgeline Freight',
+      carrier: 'other',
       tracking: 'RF 1000 2000',
     })
     expect(ship.status).toBe(201)
+    // "Other carrier" has no tracking page to link.
+    expect(ship.body.shipments).toMatchObject([
+      { carrier: 'other', carrierName: 'Other carrier', trackingUrl: null },
+    ])
     expect((await waitForMail(t.email, /has shipped/)).text).toContain('RF 1000 2000')
+    await expectOnDesk(admin, id, null)
     expect((await admin.post(`/api/admin/orders/${id}/deliver`)).body.status).toBe('delivered')
   })
 

@@ -2,11 +2,12 @@
 // an account, so neither the words nor the timing tell who has one.
 import { forgotPasswordSchema } from '../../../shared/schemas/auth'
 import { hoursInWords, LINK_LIFETIME_HOURS } from '../../../shared/utils/lifetimes'
+import type { MessageReply } from '../../../shared/types/common'
 
 /** Longer than the slowest known-address path (a locked row, the quota, a token and a mail). */
 export const FORGOT_PASSWORD_FLOOR_MS = 600
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<MessageReply> => {
   const { email } = await readBodyAs(event, forgotPasswordSchema)
   await withTimingFloor(FORGOT_PASSWORD_FLOOR_MS, () =>
     useDb().transaction(async (tx) => {

@@ -6,8 +6,9 @@ import { addDays, QUOTE_VALID_DAYS } from '../../../shared/utils/pricing'
 import { quoteLines, quotes } from '../../database/schema'
 import { quoteIssuedMail } from '../../emails/shop'
 import { formatDay } from '../../../shared/utils/dates'
+import type { QuoteCreatedReply } from '../../../shared/types/shop'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<QuoteCreatedReply> => {
   const user = await requireRole(event, 'teacher')
   const input = await readBodyAs(event, cartSchema)
   if (!user.schoolId) throw forbidden('Your account has no school to quote for.')
