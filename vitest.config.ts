@@ -1,3 +1,4 @@
+import { fileURLToPath } from 'node:url'
 import { defineConfig } from 'vitest/config'
 
 // Two projects: `unit` is plain Node over pure code (shared/utils, server helpers);
@@ -7,6 +8,8 @@ export default defineConfig({
   test: {
     projects: [
       {
+        // The stores import shared code through Nuxt's alias, as the app builds them.
+        resolve: { alias: { '~~': fileURLToPath(new URL('.', import.meta.url)) } },
         test: {
           name: 'unit',
           include: ['tests/unit/**/*.test.ts'],

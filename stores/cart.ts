@@ -4,8 +4,8 @@
 // what is wrong beside the line instead of quietly changing it (lineQuantityProblem).
 import { defineStore } from 'pinia'
 import { computed, ref } from 'vue'
-import type { CartLine } from '../shared/schemas/shop'
-import { lineQuantityProblem } from '../shared/schemas/shop'
+import type { CartLine } from '~~/shared/schemas/shop'
+import { lineQuantityProblem } from '~~/shared/schemas/shop'
 import { persistInStorage } from './persist'
 
 const KEY = 'tiltwright-cart-v1'

@@ -2,9 +2,9 @@
 // suggestion or the builder's own), and the calibration readings. Kept across reloads.
 import { defineStore } from 'pinia'
 import { ref } from 'vue'
-import { DEFAULT_TARGETS, KIT_PRESETS } from '../shared/utils/planner/presets'
-import { formFrom, type PlannerForm } from '../shared/utils/planner-form'
-import type { Gains } from '../shared/utils/planner/schema'
+import { DEFAULT_TARGETS, KIT_PRESETS } from '~~/shared/utils/planner/presets'
+import { formFrom, type PlannerForm } from '~~/shared/utils/planner-form'
+import type { Gains } from '~~/shared/utils/planner/schema'
 import { persistInStorage } from './persist'
 
 const KEY = 'tiltwright.planner.v1'
