@@ -59,15 +59,20 @@ export function useServerList<T, S extends State>(
     if (state.dir) state.dir.value = next.dir as S[string]
   }
 
+  // Only these of useFetch's answer: its `status` would shadow a filter of that name.
+  const { data, pending, error, refresh } = fetched
   return {
     ...state,
     search,
     pageSize,
     setSort,
-    rows: computed(() => fetched.data.value?.data ?? []),
-    total: computed(() => fetched.data.value?.meta?.total),
-    pages: computed(() => fetched.data.value?.meta?.pages),
-    ...fetched,
+    data,
+    pending,
+    error,
+    refresh,
+    rows: computed(() => data.value?.data ?? []),
+    total: computed(() => data.value?.meta?.total),
+    pages: computed(() => data.value?.meta?.pages),
   }
 }
 
