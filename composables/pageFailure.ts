@@ -9,7 +9,7 @@ export function pageFailure(
   const missing = error?.statusCode === 404
   return createError({
     statusCode: missing ? 404 : 503,
-    statusMessage: missing ? notFoundMessage : 'Tiltwright is temporarily unavailable',
+    statusMessage: missing ? notFoundMessage : 'Tiltwright is briefly unavailable',
     fatal: true,
   })
 }
