@@ -3,6 +3,16 @@
 // MariaDB rejects); there is no RETURNING, so inserts re-select by $returningId().
 import { sql } from 'drizzle-orm'
 import { ORDER_STATUSES, PAYMENT_METHODS } from '../../shared/utils/order-flow'
+import { ROLES } from '../../shared/utils/roles'
+import {
+  JOB_STATES,
+  PO_STATUSES,
+  PRODUCT_KINDS,
+  RESERVATION_STATUSES,
+  TAX_EXEMPTION_STATES,
+  TOKEN_PURPOSES,
+  UPLOAD_KINDS,
+} from '../../shared/utils/states'
 import {
   bigint,
   boolean,
@@ -26,9 +36,6 @@ const createdAt = () =>
     .notNull()
     .default(sql`CURRENT_TIMESTAMP(3)`)
 
-export const ROLES = ['teacher', 'builder', 'support', 'admin'] as const
-export const TAX_EXEMPTION = ['none', 'pending', 'accepted', 'rejected'] as const
-
 export const schools = mysqlTable('schools', {
   id: id(),
   name: varchar('name', { length: 160 }).notNull(),
@@ -39,7 +46,7 @@ export const schools = mysqlTable('schools', {
   region: varchar('region', { length: 100 }).notNull(),
   postalCode: varchar('postal_code', { length: 20 }).notNull(),
   country: varchar('country', { length: 2 }).notNull().default('US'),
-  taxExemption: mysqlEnum('tax_exemption', TAX_EXEMPTION).notNull().default('none'),
+  taxExemption: mysqlEnum('tax_exemption', TAX_EXEMPTION_STATES).notNull().default('none'),
   createdAt: createdAt(),
 })
 
@@ -54,6 +61,8 @@ export const users = mysqlTable(
     schoolId: ref('school_id').references(() => schools.id),
     verifiedAt: datetime('verified_at', { mode: 'date', fsp: 3 }),
     disabledAt: datetime('disabled_at', { mode: 'date', fsp: 3 }),
+    /** The last time a session was started (null: never signed in, e.g. invited staff). */
+    lastSignInAt: datetime('last_sign_in_at', { mode: 'date', fsp: 3 }),
     createdAt: createdAt(),
   },
   t => [uniqueIndex('users_email_unique').on(t.email), index('users_school_idx').on(t.schoolId)],
@@ -67,7 +76,7 @@ export const authTokens = mysqlTable(
     userId: ref('user_id')
       .notNull()
       .references(() => users.id),
-    purpose: mysqlEnum('purpose', ['verify-email', 'reset-password']).notNull(),
+    purpose: mysqlEnum('purpose', TOKEN_PURPOSES).notNull(),
     tokenHash: varchar('token_hash', { length: 64 }).notNull(),
     expiresAt: datetime('expires_at', { mode: 'date', fsp: 3 }).notNull(),
     usedAt: datetime('used_at', { mode: 'date', fsp: 3 }),
@@ -146,8 +155,6 @@ export const mailQuota = mysqlTable(
   ],
 )
 
-export const JOB_STATES = ['pending', 'done', 'failed'] as const
-
 /** Durable work done after a transaction commits: e-mail, calls to the payment provider, the
  *  fake's webhook deliveries, sweeps. Written in the transaction of the change that causes
  *  it, claimed with SKIP LOCKED by whichever app instance is free, retried with back-off.
@@ -212,11 +219,6 @@ export const tuningSheets = mysqlTable(
 )
 
 // ── The shop: catalog, stock in production batches, quotes, orders, payments ─────────────
-
-export const PRODUCT_KINDS = ['kit', 'part'] as const
-export const PO_STATUSES = ['review', 'approved', 'rejected'] as const
-export const RESERVATION_STATUSES = ['reserved', 'allocated', 'released'] as const
-export const FILE_KINDS = ['purchase-order', 'tax-certificate'] as const
 
 export interface ProductSpec {
   label: string
@@ -490,7 +492,7 @@ export const storedFiles = mysqlTable(
   'stored_files',
   {
     id: id(),
-    kind: mysqlEnum('kind', FILE_KINDS).notNull(),
+    kind: mysqlEnum('kind', UPLOAD_KINDS).notNull(),
     schoolId: ref('school_id')
       .notNull()
       .references(() => schools.id),

@@ -6,6 +6,7 @@ import { quotes } from '../database/schema'
 import type { RenderedMail } from '../emails/layout'
 import { useMailTransport } from '../services/mail'
 import type { JobDefinition } from '../utils/jobs'
+import type { OrderDocumentKind } from '../../shared/utils/states'
 
 export type MailAttachment
   = | { filename: string, contentType: string, contentBase64: string }

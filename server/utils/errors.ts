@@ -62,13 +62,31 @@ export function queryAs<S extends z.ZodType>(
   return parseOrThrow(schema, getQuery(event))
 }
 
+/** The path's parameters through a schema of shared/schemas/ids.ts; 404 naming `what` when
+ *  they do not fit (a malformed id is as absent as an unknown one). */
 export function paramsAs<S extends z.ZodType>(
   event: Parameters<typeof getRouterParams>[0],
   schema: S,
+  what = 'That',
 ): z.output<S> {
   const r = schema.safeParse(getRouterParams(event))
-  if (!r.success) throw notFound()
+  if (!r.success) throw notFound(what)
   return r.data
+}
+
+/** Runs `work`; a duplicate key becomes 409 with `data.fields[field]` = `message` (code
+ *  `<field>-taken`), so every unique value is refused the same way. */
+export async function uniqueOr409<T>(
+  field: string,
+  message: string,
+  work: () => Promise<T>,
+): Promise<T> {
+  try {
+    return await work()
+  } catch (e) {
+    if (isDuplicateKey(e)) throw conflict(message, `${field}-taken`, { [field]: message })
+    throw e
+  }
 }
 
 /** The fields of a driver error that the checks below read. */

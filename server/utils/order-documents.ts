@@ -3,11 +3,10 @@
 // never inside a transaction that holds the order's row lock.
 import { and, desc, eq } from 'drizzle-orm'
 import { batches, shipments, stockReservations } from '../database/schema'
+import { shipmentCarrier } from '../../shared/utils/shipments'
 import { cardReceiptPdf, invoicePdf, packingListPdf } from '../documents/shop'
 import { CLOSED_STATUSES } from '../../shared/utils/order-flow'
-
-export const ORDER_DOCUMENT_KINDS = ['invoice', 'receipt', 'packing-list'] as const
-export type OrderDocumentKind = (typeof ORDER_DOCUMENT_KINDS)[number]
+import type { OrderDocumentKind } from '../../shared/utils/states'
 
 /** The PDF and its file name, or null when the order has no such document (yet). */
 export async function renderOrderDocument(db: DbOrTx, order: OrderRow, kind: OrderDocumentKind) {
@@ -74,7 +73,10 @@ export async function renderOrderDocument(db: DbOrTx, order: OrderRow, kind: Ord
       items,
       school,
       buyer.name,
-      shipment,
+      shipment && {
+        carrier: shipmentCarrier(shipment.carrier, shipment.tracking).carrierName,
+        tracking: shipment.tracking,
+      },
     )
     return { filename: `Tiltwright-packing-list-${order.number}.pdf`, pdf }
   }

@@ -16,7 +16,12 @@ import {
   storedFiles,
   users,
 } from '../database/schema'
-import type { OrderView, OrderDocument } from '../../shared/types/shop'
+import type {
+  AdminOrderReply,
+  OrderDocument,
+  OrderSummary,
+  OrderView,
+} from '../../shared/types/shop'
 import {
   canCancelOrder,
   canSeeOrder,
@@ -33,8 +38,10 @@ import {
   type Totals,
 } from '../../shared/utils/pricing'
 import { quoteTaxNote, retax, taxLineLabel } from '../../shared/utils/tax'
+import { shipmentCarrier } from '../../shared/utils/shipments'
 import type { CartLine } from '../../shared/schemas/shop'
 import type { CheckoutAddresses } from '../../shared/schemas/address'
+import { idParams } from '../../shared/schemas/ids'
 
 export type OrderRow = typeof orders.$inferSelect
 
@@ -257,8 +264,7 @@ export async function requireVisibleOrder(
   user: SessionUser,
   lock?: Tx,
 ): Promise<OrderRow> {
-  const id = Number(getRouterParam(event, 'id'))
-  if (!Number.isSafeInteger(id) || id < 1) throw notFound('That order')
+  const { id } = paramsAs(event, idParams, 'That order')
   const order = await loadOrder(lock ?? useDb(), id, !!lock)
   if (!order || !canSeeOrder(user, order)) throw notFound('That order')
   return order
@@ -276,7 +282,7 @@ export async function orderPeople(db: DbOrTx, order: OrderRow) {
     .from(purchaseOrders)
     .where(eq(purchaseOrders.orderId, order.id))
     .limit(1)
-  return { school: row!.school, buyer: row!.buyer, po }
+  return { school: row!.school, buyer: row!.buyer, po, lines: await linesOf(db, order.id) }
 }
 
 export const linesOf = (db: DbOrTx, orderId: number) =>
@@ -385,7 +391,7 @@ export async function orderView(
     })),
     shipments: ships.map(s => ({
       id: s.id,
-      carrier: s.carrier,
+      ...shipmentCarrier(s.carrier, s.tracking),
       tracking: s.tracking,
       shippedAt: s.shippedAt.toISOString(),
     })),
@@ -418,10 +424,19 @@ export async function orderView(
 }
 
 /** The view for the caller, reloaded after a change. */
-export async function replyWithOrder(orderId: number, user: SessionUser) {
+export async function replyWithOrder(orderId: number, user: SessionUser): Promise<OrderView> {
   const db = useDb()
   const fresh = await loadOrder(db, orderId)
   return orderView(db, fresh!, user)
+}
+
+/** Every admin order step's reply: the refreshed order and the step's notice, if any. */
+export async function replyWithAdminOrder(
+  orderId: number,
+  admin: SessionUser,
+  notice: string | null = null,
+): Promise<AdminOrderReply> {
+  return { ...(await replyWithOrder(orderId, admin)), notice }
 }
 
 /** The order's charge as the provider's line items: goods at their tier price (in the shop's
@@ -454,7 +469,11 @@ export function chargeLinesFor(
   ]
 }
 
-export function orderRowOf(r: { o: OrderRow, school: string, poNumber: string | null }) {
+export function orderRowOf(r: {
+  o: OrderRow
+  school: string
+  poNumber: string | null
+}): OrderSummary {
   return {
     id: r.o.id,
     number: r.o.number!,

@@ -2,6 +2,7 @@
 import { asc, eq } from 'drizzle-orm'
 import type { H3Event } from 'h3'
 import { quoteLines, quotes, schools, users } from '../database/schema'
+import { idParams } from '../../shared/schemas/ids'
 import type { QuoteView } from '../../shared/types/shop'
 import { canSeeQuote, isQuoteValid } from '../../shared/utils/shop-rules'
 import type { SessionUser } from '../../shared/utils/roles'
@@ -10,8 +11,7 @@ import { quotePdf } from '../documents/shop'
 export type QuoteRow = typeof quotes.$inferSelect
 
 export async function requireVisibleQuote(event: H3Event, user: SessionUser): Promise<QuoteRow> {
-  const id = Number(getRouterParam(event, 'id'))
-  if (!Number.isSafeInteger(id) || id < 1) throw notFound('That quote')
+  const { id } = paramsAs(event, idParams, 'That quote')
   const [q] = await useDb().select().from(quotes).where(eq(quotes.id, id)).limit(1)
   if (!q || !canSeeQuote(user, q)) throw notFound('That quote')
   return q

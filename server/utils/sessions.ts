@@ -46,6 +46,7 @@ export async function startSession(event: H3Event, tx: DbOrTx, user: SessionUser
   const sid = randomBytes(32).toString('base64url')
   const device = deviceLabel(getRequestHeader(event, 'user-agent'))
   await tx.insert(userSessions).values({ userId: user.id, tokenHash: hashOf(sid), device })
+  await tx.update(users).set({ lastSignInAt: new Date() }).where(eq(users.id, user.id))
   await forgetRowsBefore(
     userSessions,
     userSessions.lastSeenAt,

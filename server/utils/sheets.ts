@@ -2,6 +2,7 @@
 import { and, eq } from 'drizzle-orm'
 import { canSeeSheet } from '../../shared/utils/sheets'
 import type { SheetInputs } from '../../shared/schemas/planner'
+import type { SheetView } from '../../shared/types/sheets'
 import type { SessionUser } from '../../shared/utils/roles'
 import { tuningSheets } from '../database/schema'
 
@@ -13,6 +14,11 @@ export async function loadVisibleSheet(user: SessionUser, id: number) {
     .limit(1)
   if (!row || !canSeeSheet(user, row)) throw notFound('That tuning sheet')
   return { ...row, inputs: row.inputs as unknown as SheetInputs }
+}
+
+/** The sheet as its routes answer it. */
+export function sheetView(sheet: Awaited<ReturnType<typeof loadVisibleSheet>>): SheetView {
+  return { ...sheet, createdAt: sheet.createdAt.toISOString() }
 }
 
 export async function insertSheet(

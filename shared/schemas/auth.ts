@@ -1,15 +1,10 @@
 // Zod schemas shared by the sign-in pages and the auth routes: one rule, both sides.
 import { z } from 'zod'
 import { schoolAddressSchema } from './address'
+import { emailAddress } from './email'
 import { singleLine } from './text'
 
-const email = z
-  .string({ error: 'Enter your e-mail address.' })
-  .trim()
-  .toLowerCase()
-  .min(1, 'Enter your e-mail address.')
-  .max(254, 'That e-mail address is too long.')
-  .pipe(z.email({ error: 'That does not look like an e-mail address.' }))
+const email = emailAddress('your e-mail address')
 
 export const passwordRule = z
   .string({ error: 'Enter a password.' })

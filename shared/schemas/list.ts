@@ -22,6 +22,8 @@ export interface ListMeta {
   total: number
   page: number
   pageSize: number
+  /** How many pages there are (at least 1); `page` is never past it. */
+  pages: number
 }
 export interface ListReply<T> {
   data: T[]

@@ -1,8 +1,11 @@
 // Zod schemas of the shop, shared by its forms and its routes.
 import { z } from 'zod'
 import { risingTierProblems, tierProblems } from '../utils/pricing'
+import { emailAddress } from './email'
 import { listQuerySchema } from './list'
-import { ORDER_STATUSES } from '../utils/order-flow'
+import { CARRIERS, CARRIER_IDS } from '../utils/carriers'
+import { ORDER_STATUSES, PAYMENT_METHODS } from '../utils/order-flow'
+import { PRODUCT_KINDS } from '../utils/states'
 import { multiLine, plainId, singleLine, wholeNumber } from './text'
 
 const id = (what: string) => plainId(`Choose ${what}.`)
@@ -51,15 +54,6 @@ export const checkoutSourceSchema = z.union(
   { error: 'Send the cart lines or a quote.' },
 )
 
-const email = (label: string) =>
-  z
-    .string({ error: `Enter ${label}.` })
-    .trim()
-    .toLowerCase()
-    .min(1, `Enter ${label}.`)
-    .max(254, 'That e-mail address is too long.')
-    .pipe(z.email({ error: 'That does not look like an e-mail address.' }))
-
 /** The text fields of the purchase-order form (the files are checked from their bytes). */
 export const purchaseOrderFieldsSchema = z.object({
   poNumber: z
@@ -68,7 +62,7 @@ export const purchaseOrderFieldsSchema = z.object({
     .min(1, 'Enter the purchase-order number.')
     .max(60, 'Keep the PO number to 60 characters or fewer.')
     .regex(/^[A-Za-z0-9][A-Za-z0-9 ./_#-]*$/, 'Use letters, digits, spaces and . / _ # - only.'),
-  apEmail: email('the accounts-payable e-mail address'),
+  apEmail: emailAddress('the accounts-payable e-mail address'),
 })
 
 export const UPLOAD_LIMIT_BYTES = 5 * 1024 * 1024
@@ -88,14 +82,11 @@ export const approveSchema = z.object({
   acceptTaxCertificate: z.boolean().optional().default(false),
 })
 
+const PICK_CARRIER = `Pick the carrier: ${CARRIERS.map(c => c.name).join(', ')}.`
+
+/** A form starts with no carrier picked (''), so the input is any string; the output is an id. */
 export const shipmentSchema = z.object({
-  carrier: singleLine(
-    z
-      .string({ error: 'Enter the carrier.' })
-      .trim()
-      .min(2, 'Enter the carrier.')
-      .max(60, 'Keep the carrier to 60 characters or fewer.'),
-  ),
+  carrier: z.string({ error: PICK_CARRIER }).pipe(z.enum(CARRIER_IDS, { error: PICK_CARRIER })),
   tracking: z
     .string({ error: 'Enter the tracking number.' })
     .trim()
@@ -120,9 +111,11 @@ export const adminOrderListQuery = listQuerySchema(
 ).extend({
   status: z.enum(ORDER_STATUSES, { error: 'Filter by a known status.' }).optional(),
   method: z
-    .enum(['card', 'purchase-order'], { error: 'Filter by card or purchase-order.' })
+    .enum(PAYMENT_METHODS, { error: 'Filter by card or purchase-order.' })
     .optional(),
 })
+
+export const SLUG_PATTERN = /^[a-z0-9]+(-[a-z0-9]+)*$/
 
 const slug = z
   .string({ error: 'Enter a slug.' })
@@ -131,7 +124,7 @@ const slug = z
   .min(2, 'Enter a slug.')
   .max(80, 'Keep the slug to 80 characters or fewer.')
   .regex(
-    /^[a-z0-9]+(-[a-z0-9]+)*$/,
+    SLUG_PATTERN,
     'Use lowercase letters, digits and single dashes, e.g. long-beam-kit.',
   )
 
@@ -166,7 +159,7 @@ export const productSchema = z.object({
       .min(2, 'Enter the name.')
       .max(120, 'Keep the name to 120 characters or fewer.'),
   ),
-  kind: z.enum(['kit', 'part'], { error: 'A product is a kit or a part.' }),
+  kind: z.enum(PRODUCT_KINDS, { error: 'A product is a kit or a part.' }),
   summary: singleLine(
     z
       .string({ error: 'Enter a one-line summary.' })

@@ -1,6 +1,10 @@
 import { z } from 'zod'
+import { emailAddress } from './email'
 import { listQuerySchema } from './list'
 import { singleLine } from './text'
+import { STAFF_ROLES } from '../utils/roles'
+
+const staffRole = z.enum(STAFF_ROLES, { error: 'Staff are support or admin.' })
 
 export const staffListQuery = listQuerySchema(
   ['name', 'email', 'role', 'createdAt'] as const,
@@ -15,12 +19,17 @@ export const createStaffSchema = z.object({
       .min(1, 'Enter the name.')
       .max(120, 'Keep the name to 120 characters or fewer.'),
   ),
-  email: z
-    .string({ error: 'Enter the e-mail address.' })
-    .trim()
-    .toLowerCase()
-    .min(1, 'Enter the e-mail address.')
-    .max(254, 'That e-mail address is too long.')
-    .pipe(z.email({ error: 'That does not look like an e-mail address.' })),
-  role: z.enum(['support', 'admin'], { error: 'Staff are support or admin.' }),
+  email: emailAddress(),
+  role: staffRole,
 })
+
+/** PATCH /api/admin/staff/[id]: a new role, or disabling (true) or enabling (false) the account. */
+export const updateStaffSchema = z
+  .object({
+    role: staffRole.optional(),
+    disabled: z.boolean({ error: 'Disabled is true or false.' }).optional(),
+  })
+  .refine(v => v.role !== undefined || v.disabled !== undefined, {
+    message: 'Say what to change: the role or whether the account is disabled.',
+  })
+export type UpdateStaffInput = z.output<typeof updateStaffSchema>

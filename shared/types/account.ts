@@ -1,4 +1,5 @@
 import type { SessionUser } from '../utils/roles'
+import type { TaxExemptionState } from '../utils/states'
 
 export interface SchoolView {
   id: number
@@ -10,7 +11,7 @@ export interface SchoolView {
   region: string
   postalCode: string
   country: string
-  taxExemption: 'none' | 'pending' | 'accepted' | 'rejected'
+  taxExemption: TaxExemptionState
 }
 
 export interface AccountReply {
@@ -28,4 +29,18 @@ export interface SessionView {
 }
 export interface SessionsReply {
   data: SessionView[]
+}
+
+/** POST /api/auth/login, PATCH /api/account: the signed-in person. */
+export interface UserReply {
+  user: SessionUser
+}
+/** POST /api/auth/verify-email. */
+export interface VerifiedReply {
+  verified: true
+}
+/** POST /api/auth/resend-verification: whether a new link went out. */
+export interface ResendVerificationReply {
+  sent: boolean
+  verified: boolean
 }

@@ -1,8 +1,17 @@
 // What the shop's routes answer; the pages type their useFetch calls with these.
 import type { PriceTier, PricedLine, Totals } from '../utils/pricing'
+import type { ListReply } from '../schemas/list'
 import type { OrderAction, OrderStatus, PaymentMethod } from '../utils/order-flow'
 import type { CheckoutAddresses } from '../schemas/address'
 import type { WayBack } from '../utils/resubmit'
+import type { ShipmentCarrier } from '../utils/shipments'
+import type {
+  OrderDocumentKind,
+  PoStatus,
+  ProductKind,
+  ReservationStatus,
+  UploadKind,
+} from '../utils/states'
 
 export interface BatchView {
   id: number
@@ -16,7 +25,7 @@ export interface ProductView {
   id: number
   slug: string
   name: string
-  kind: 'kit' | 'part'
+  kind: ProductKind
   summary: string
   image: string
   priceTiers: PriceTier[]
@@ -77,14 +86,13 @@ export interface OrderEventView {
   message: string
   createdAt: string
 }
-export interface ShipmentView {
+export interface ShipmentView extends ShipmentCarrier {
   id: number
-  carrier: string
   tracking: string
   shippedAt: string
 }
 export interface OrderDocument {
-  kind: 'quote' | 'invoice' | 'receipt' | 'packing-list' | 'purchase-order' | 'tax-certificate'
+  kind: 'quote' | OrderDocumentKind | UploadKind
   label: string
   url: string
 }
@@ -117,14 +125,14 @@ export interface OrderView {
   purchaseOrder: {
     poNumber: string
     apEmail: string
-    status: 'review' | 'approved' | 'rejected'
+    status: PoStatus
     rejectReason: string | null
   } | null
   reservations: {
     batchCode: string
     productName: string
     quantity: number
-    status: 'reserved' | 'allocated' | 'released'
+    status: ReservationStatus
   }[]
   allocated: boolean
   canCancel: boolean
@@ -138,6 +146,22 @@ export interface OrderView {
   wayBack: WayBack | null
 }
 
+/** An order as support see it (GET /api/orders/[id]): no totals, no line prices, and the
+ *  timeline's amounts taken out (shared/utils/unpriced.ts). */
+export interface UnpricedOrderView
+  extends Omit<OrderView, 'subtotalCents' | 'shippingCents' | 'taxCents' | 'totalCents' | 'lines'> {
+  pricesHidden: true
+  lines: { productId: number, name: string, quantity: number, tierLabel: string | null }[]
+}
+/** GET /api/orders/[id]: the full view, or support's view without money. */
+export type OrderReply = OrderView | UnpricedOrderView
+
+/** What every admin order step (/api/admin/orders/[id]/*) answers: the refreshed order, and a
+ *  word for the admin when part of the step is still under way (null otherwise). */
+export interface AdminOrderReply extends OrderView {
+  notice: string | null
+}
+
 export interface OrderSummary {
   id: number
   number: string
@@ -148,4 +172,82 @@ export interface OrderSummary {
   school: string
   poNumber: string | null
   paid: boolean
+}
+
+/** GET /api/admin/orders. */
+export type AdminOrderListReply = ListReply<OrderSummary>
+/** GET /api/orders: the teacher's school's orders. */
+export interface OrderListReply {
+  data: OrderSummary[]
+}
+
+/** GET /api/products: the public catalog (without prices for a builder). */
+export interface CatalogReply {
+  data: ProductView[]
+}
+/** GET /api/admin/products: every product, withdrawn ones included. */
+export interface AdminCatalogReply {
+  data: ProductDetail[]
+}
+
+/** A production batch in the admin's batch table. */
+export interface BatchRow {
+  id: number
+  productId: number
+  product: string
+  slug: string
+  code: string
+  quantityBuilt: number
+  reserved: number
+  left: number
+  builtOn: string
+}
+export interface BatchListReply {
+  data: BatchRow[]
+}
+/** PATCH /api/admin/batches/[id]: the recounted batch. */
+export interface BatchRecountReply {
+  id: number
+  quantityBuilt: number
+  reserved: number
+  left: number
+}
+
+/** POST /api/checkout/card: the order and the payment page to send the teacher to. */
+export interface CardCheckoutReply {
+  orderId: number
+  number: string
+  url: string | null
+}
+/** POST /api/checkout/purchase-order. */
+export interface PurchaseOrderCheckoutReply {
+  orderId: number
+  number: string
+}
+
+/** A quote in the teacher's list. */
+export interface QuoteSummary {
+  id: number
+  number: string
+  createdAt: string
+  validUntil: string
+  totalCents: number
+  orderId: number | null
+  valid: boolean
+}
+export interface QuoteListReply {
+  data: QuoteSummary[]
+}
+/** POST /api/quotes (201). */
+export interface QuoteCreatedReply {
+  id: number
+  number: string
+  totalCents: number
+  validUntil: string
+}
+
+/** POST /api/webhooks/payments: the provider only reads the status. */
+export interface WebhookReply {
+  received: true
+  duplicate: boolean
 }

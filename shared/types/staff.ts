@@ -1,12 +1,13 @@
 // Replies of the staff side's routes that the pages read (the contract both sides type against).
 import type { ListReply } from '../schemas/list'
+import type { StaffRole } from '../utils/roles'
 
 /** A staff account on the admin's staff page. Invited until the first sign-in. */
 export interface StaffMember {
   id: number
   name: string
   email: string
-  role: 'support' | 'admin'
+  role: StaffRole
   status: 'invited' | 'active' | 'disabled'
   createdAt: string
   lastSignInAt: string | null
@@ -32,4 +33,15 @@ export interface StaffDesk {
   toAllocate: DeskOrder[] | null
   toShip: DeskOrder[] | null
   failedMail: number
+}
+
+/** One message the local fake SMTP server caught, its single-use links masked. */
+export interface CaughtMail {
+  text: string
+  html: string | null
+  [field: string]: unknown
+}
+/** GET /api/staff/mail (admins, fake mode only). */
+export interface CaughtMailReply {
+  data: CaughtMail[]
 }

@@ -2,6 +2,9 @@
 // The server is the gate; pages call these only to hide what a role cannot use.
 export const ROLES = ['teacher', 'builder', 'support', 'admin'] as const
 export type Role = (typeof ROLES)[number]
+/** The roles of the back office, the only ones the staff accounts page manages. */
+export const STAFF_ROLES = ['support', 'admin'] as const satisfies readonly Role[]
+export type StaffRole = (typeof STAFF_ROLES)[number]
 
 export interface SessionUser {
   id: number

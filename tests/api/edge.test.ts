@@ -214,10 +214,46 @@ describe('input hygiene', () => {
 
   it('reads ids in paths as plain decimal only', async () => {
     const teacher = await as('teacher')
+    const admin = await as('admin')
     for (const id of ['0x1', '1e0', '01', '+1', '1.0', '%201']) {
       expect((await teacher.get(`/api/orders/${id}`)).status, id).toBe(404)
       expect((await teacher.get(`/api/sheets/${id}`)).status, id).toBe(404)
+      expect((await teacher.get(`/api/quotes/${id}`)).status, id).toBe(404)
+      expect((await admin.patch(`/api/admin/batches/${id}`, { quantity: 5 })).status, id).toBe(404)
+      expect((await admin.patch(`/api/admin/products/${id}`, { name: 'X' })).status, id).toBe(404)
+      expect((await admin.get(`/api/orders/1/files/${id}`)).status, id).toBe(404)
     }
+    // Slugs and document kinds are closed lists too: anything else is no such thing.
+    for (const slug of ['Long-Beam-Kit', 'long--beam', '-kit', 'a'.repeat(81)])
+      expect((await teacher.get(`/api/products/${slug}`)).status, slug).toBe(404)
+    expect((await teacher.get('/api/products/long-beam-kit')).status).toBe(200)
+    expect((await admin.get('/api/orders/1/documents/quote-ish')).status).toBe(404)
+  })
+
+  it('answers a second use of a unique value with 409 naming the field', async () => {
+    const admin = await as('admin')
+    const product = {
+      slug: `edge-dup-${Date.now().toString(36)}`,
+      name: 'Edge duplicate part',
+      kind: 'part',
+      summary: 'Made twice on purpose.',
+      weightGrams: 50,
+      tiers: [{ minQuantity: 1, unitPriceCents: 900 }],
+    }
+    const first = await admin.post('/api/admin/products', product)
+    expect(first.status).toBe(201)
+    const again = await admin.post('/api/admin/products', product)
+    expect(again.status).toBe(409)
+    expect(again.body.data).toMatchObject({
+      code: 'slug-taken',
+      fields: { slug: 'Another product already uses that slug.' },
+    })
+    const code = `EDGE-${Date.now().toString(36)}`
+    const batch = { productId: first.body.id, code, quantity: 3 }
+    expect((await admin.post('/api/admin/batches', batch)).status).toBe(201)
+    const twice = await admin.post('/api/admin/batches', batch)
+    expect(twice.status).toBe(409)
+    expect(twice.body.data.fields).toEqual({ code: 'A batch with that code already exists.' })
   })
 })
 

@@ -95,6 +95,12 @@ describe('another school', () => {
       expect(view.status).toBe(200)
       expect(view.body.documents).toEqual([])
       expect(view.body.payUrl).toBeNull()
+      // No money at all: no totals, no line prices, no amount in the timeline.
+      expect(view.body.pricesHidden).toBe(true)
+      expect(view.body.lines.length).toBeGreaterThan(0)
+      expect(JSON.stringify(view.body)).not.toMatch(/Cents"|\$\d/)
+      const admin = await signedIn('admin@tiltwright.test')
+      expect((await admin.get(`/api/orders/${orderId}`)).body.totalCents).toBeGreaterThan(0)
       expect((await support.get(`/api/orders/${orderId}/files/${fileId}`)).status).toBe(404)
       expect((await support.post(`/api/orders/${orderId}/cancel`)).status).toBe(403)
     })

@@ -2,6 +2,7 @@
 // payment service and the fake SMTP server: price, check out, decline, pay, webhook, ship.
 import { describe, expect, it } from 'vitest'
 import { Client } from '../helpers/client'
+import { jobsSettled } from '../helpers/db'
 import { mailsTo, waitForMail } from '../helpers/mail'
 import {
   DECLINE,
@@ -144,7 +145,7 @@ describe('card checkout', () => {
       expect(
         (
           await admin.post(`/api/admin/orders/${r.body.orderId}/shipments`, {
-            carrier: 'Ridgeline Freight',
+            carrier: 'ups',
             tracking: 'RF 7788 1020',
           })
         ).status,
@@ -152,20 +153,37 @@ describe('card checkout', () => {
       const alloc = await admin.post(`/api/admin/orders/${r.body.orderId}/allocate`)
       expect(alloc.status).toBe(200)
       expect(alloc.body.allocated).toBe(true)
-      const ship = await admin.post(`/api/admin/orders/${r.body.orderId}/shipments`, {
+      // The carrier is one of the known list, else a field error naming the choices.
+      const free = await admin.post(`/api/admin/orders/${r.body.orderId}/shipments`, {
         carrier: 'Ridgeline Freight',
         tracking: 'RF 7788 1020',
       })
+      expect(free.status).toBe(422)
+      expect(free.body.data.fields.carrier).toBe(
+        'Pick the carrier: USPS, UPS, FedEx, DHL, Other carrier.',
+      )
+      const ship = await admin.post(`/api/admin/orders/${r.body.orderId}/shipments`, {
+        carrier: 'ups',
+        tracking: 'RF 7788 1020',
+      })
       expect(ship.status).toBe(201)
-      expect(ship.body.order.status).toBe('shipped')
+      expect(ship.body.status).toBe('shipped')
+      expect(ship.body.notice).toBeNull()
       const shipped = await waitForMail(t.email, /has shipped/)
       expect(shipped.text).toContain('RF 7788 1020')
+      expect(shipped.text).toContain('with UPS')
       expect(shipped.attachments.map(a => a.filename)).toEqual([
         `Tiltwright-packing-list-${order.number}.pdf`,
       ])
       const view = (await t.client.get(`/api/orders/${r.body.orderId}`)).body
+      // The tracking link is UPS's public tracking page with the number encoded.
       expect(view.shipments).toMatchObject([
-        { carrier: 'Ridgeline Freight', tracking: 'RF 7788 1020' },
+        {
+          carrier: 'ups',
+          carrierName: 'UPS',
+          tracking: 'RF 7788 1020',
+          trackingUrl: 'https://www.ups.com/track?tracknum=RF%207788%201020',
+        },
       ])
       expect(view.documents.map((d: any) => d.kind)).toEqual(['receipt', 'packing-list'])
     })
@@ -205,7 +223,7 @@ describe('card checkout', () => {
     expect(await replay.json()).toEqual({ received: true, duplicate: true })
     const order = (await t.client.get(`/api/orders/${r.body.orderId}`)).body
     expect(order.events.filter((e: any) => e.kind === 'paid')).toHaveLength(1)
-    await new Promise(ok => setTimeout(ok, 500))
+    await jobsSettled({ to: t.email })
     expect((await mailsTo(t.email)).filter(m => /^Payment received/.test(m.subject))).toHaveLength(
       1,
     )

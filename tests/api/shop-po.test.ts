@@ -22,6 +22,17 @@ import {
   waitForOrder,
 } from '../helpers/shop'
 
+/** The order waits in `list` of the admin's desk (GET /api/staff/desk) and in no other. A list
+ *  holds the 20 oldest, so the order may be missing from its list only when that list is full. */
+async function expectOnDesk(admin: Client, id: number, list: string | null) {
+  const desk = (await admin.get('/api/staff/desk')).body
+  for (const key of ['poToReview', 'toAllocate', 'toShip']) {
+    const listed = desk[key].some((o: any) => o.id === id)
+    if (key === list) expect(listed || desk[key].length === 20, key).toBe(true)
+    else expect(listed, key).toBe(false)
+  }
+}
+
 describe('purchase-order checkout', () => {
   it('goes from PO upload to an approved, invoiced, paid and shipped order', async () => {
     const admin = await signedIn('admin@tiltwright.test')
@@ -57,7 +68,11 @@ describe('purchase-order checkout', () => {
     expect(file.headers.get('content-type')).toBe('application/pdf')
     expect(file.headers.get('x-content-type-options')).toBe('nosniff')
     expect(Buffer.from(await file.arrayBuffer()).equals(PDF_BYTES)).toBe(true)
-    await waitForMail(t.email, /^Order TW-\d+ placed/)
+    // The order's mails open with Tiltwright's header, greet the teacher and list the items.
+    const placed = await waitForMail(t.email, /^Order TW-\d+ placed/)
+    expect(placed.text.split('\n')[0]).toContain('Tiltwright')
+    expect(placed.text).toContain('Hello Teacher po,')
+    expect(placed.text).toContain(`${kit.name} × 6: ${formatCents(price.lines[0].lineTotalCents)}`)
     // Each admin is told, from the same transaction, that a purchase order waits for review.
     const review = await waitForMail(
       'admin@tiltwright.test',
@@ -67,9 +82,13 @@ describe('purchase-order checkout', () => {
       new RegExp(`/admin/orders/${id}$`),
     )
 
+    await expectOnDesk(admin, id, 'poToReview')
+
     // Approve, accepting the certificate: the tax drops to zero before the invoice is made.
     const a = await admin.post(`/api/admin/orders/${id}/approve`, { acceptTaxCertificate: true })
     expect(a.status).toBe(200)
+    // An approved PO may be packed: it waits to be allocated.
+    await expectOnDesk(admin, id, 'toAllocate')
     expect(a.body).toMatchObject({
       status: 'awaiting payment',
       taxCents: 0,
@@ -81,6 +100,7 @@ describe('purchase-order checkout', () => {
     const approval = await waitForMail(t.email, /^Purchase order CH-2026-0417 approved$/)
     expect(approval.text).toMatch(/accepted your school's tax-exemption certificate/)
     expect(approval.text).toContain(formatCents(price.subtotalCents + price.shippingCents))
+    expect(approval.text).toContain(`${kit.name} × 6`)
     expect(a.body.invoice.number).toMatch(/^TWF-/)
     expect(a.body.purchaseOrder.status).toBe('approved')
     expect((await admin.post(`/api/admin/orders/${id}/approve`, {})).status).toBe(409)
@@ -113,7 +133,7 @@ describe('purchase-order checkout', () => {
       VENDOR.bank.accountNumber,
       VENDOR.taxId,
       'Due date',
-      formatDay(a.body.invoice.dueAt, 'long'),
+      formatDay(a.body.invoice.dueAt),
       'Online by card',
       'invented for this demonstration',
     ])
@@ -140,12 +160,18 @@ describe('purchase-order checkout', () => {
     await waitForMail(t.email, /^Payment received/)
 
     await admin.post(`/api/admin/orders/${id}/allocate`)
+    await expectOnDesk(admin, id, 'toShip')
     const ship = await admin.post(`/api/admin/orders/${id}/shipments`, {
-      carrier: 'Ridgeline Freight',
+      carrier: 'other',
       tracking: 'RF 1000 2000',
     })
     expect(ship.status).toBe(201)
+    // "Other carrier" has no tracking page to link.
+    expect(ship.body.shipments).toMatchObject([
+      { carrier: 'other', carrierName: 'Other carrier', trackingUrl: null },
+    ])
     expect((await waitForMail(t.email, /has shipped/)).text).toContain('RF 1000 2000')
+    await expectOnDesk(admin, id, null)
     expect((await admin.post(`/api/admin/orders/${id}/deliver`)).body.status).toBe('delivered')
   })
 

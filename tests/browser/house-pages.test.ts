@@ -143,3 +143,17 @@ describe('tables on a phone and a laptop', () => {
     })
   }
 })
+
+describe('a page number past the end', () => {
+  it('shows the last page, and the address follows it', async () => {
+    const page = await browser.newPage({ viewport: { width: 1280, height: 800 } })
+    await signInThroughPage(page, 'admin@tiltwright.test')
+    await gotoReady(page, '/admin/orders?page=999')
+    const pager = page.getByRole('navigation', { name: 'Pages' })
+    await expect.poll(() => pager.textContent()).toMatch(/page (\d+) of \1\b/)
+    await page.waitForURL(u => u.searchParams.get('page') !== '999')
+    const last = Number(/page (\d+) of/.exec((await pager.textContent())!)![1])
+    expect(new URL(page.url()).searchParams.get('page') ?? '1').toBe(String(last))
+    await page.close()
+  })
+})

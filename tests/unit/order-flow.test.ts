@@ -197,6 +197,23 @@ describe('the order flow, as a table', () => {
     expect(openActions(po('rejected'), 'system')).toEqual(['refund'])
   })
 
+  // "Allocate" is offered once the order may be packed (paid, or its PO approved), and once.
+  it.each([
+    ['an unpaid card order', card('awaiting payment'), false],
+    ['a paid card order', card('paid', { paid: true }), true],
+    ['an allocated paid card order', card('paid', { paid: true, allocated: true }), false],
+    ['a PO in review', po('po review'), false],
+    ['an approved PO', po('awaiting payment'), true],
+    ['an approved, allocated PO', po('awaiting payment', { allocated: true }), false],
+    ['a paid PO', po('paid', { paid: true }), true],
+    ['a shipped order', card('shipped', { paid: true, allocated: true }), false],
+    ['a cancelled order', card('cancelled'), false],
+    ['a rejected PO', po('rejected'), false],
+  ] as const)('offers "allocate" for %s: %s', (_what, order, offered) => {
+    expect(openActions(order, 'admin').includes('allocate')).toBe(offered)
+    expect(openActions(order, 'teacher')).not.toContain('allocate')
+  })
+
   it('offers an admin the buttons of a PO in review', () => {
     expect(openActions(po('po review'), 'admin')).toEqual(['approve', 'reject', 'cancel'])
   })

@@ -1,8 +1,9 @@
 import { eq } from 'drizzle-orm'
 import { accountSchema } from '../../../shared/schemas/auth'
 import { users } from '../../database/schema'
+import type { UserReply } from '../../../shared/types/account'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<UserReply> => {
   const user = await requireUser(event)
   const { name } = await readBodyAs(event, accountSchema)
   await useDb().update(users).set({ name }).where(eq(users.id, user.id))

@@ -3,8 +3,9 @@ import { eq } from 'drizzle-orm'
 import { changePasswordSchema } from '../../../shared/schemas/auth'
 import { users } from '../../database/schema'
 import { passwordChangedMail } from '../../emails/account'
+import type { OkReply } from '../../../shared/types/common'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<OkReply> => {
   const user = await requireUser(event)
   const sessionId = await currentSessionId(event)
   const { currentPassword, newPassword } = await readBodyAs(event, changePasswordSchema)

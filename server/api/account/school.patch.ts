@@ -3,8 +3,9 @@
 import { eq } from 'drizzle-orm'
 import { schoolAddressSchema } from '../../../shared/schemas/address'
 import { schools } from '../../database/schema'
+import type { AccountReply } from '../../../shared/types/account'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<AccountReply> => {
   const user = await requireRole(event, 'teacher')
   const input = await readBodyAs(event, schoolAddressSchema)
   if (!user.schoolId) throw notFound('Your school')

@@ -1,6 +1,7 @@
 import { loginSchema } from '../../../shared/schemas/auth'
+import type { UserReply } from '../../../shared/types/account'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<UserReply> => {
   const { email, password } = await readBodyAs(event, loginSchema)
   const address = requestAddress(event)
   await claimSignInAttempt(event, email, address)

@@ -4,11 +4,12 @@
 // the password just chosen; the confirmation link arrives by e-mail.
 import { registerSchema } from '../../../shared/schemas/auth'
 import { schools, users } from '../../database/schema'
+import type { MessageReply } from '../../../shared/types/common'
 
 export const REGISTERED_MESSAGE
   = 'Thank you. We sent a message to that address: open it to confirm the address.'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<MessageReply> => {
   const input = await readBodyAs(event, registerSchema)
   // Hash before looking, so a known address costs the same time as a new one.
   const passwordHash = await hashPassword(input.password)

@@ -5,8 +5,9 @@ import { eq } from 'drizzle-orm'
 import { resetPasswordSchema } from '../../../shared/schemas/auth'
 import { users } from '../../database/schema'
 import { passwordChangedMail } from '../../emails/account'
+import type { OkReply } from '../../../shared/types/common'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<OkReply> => {
   const { token, password } = await readBodyAs(event, resetPasswordSchema)
   const passwordHash = await hashPassword(password)
   const done = await useDb().transaction(async (tx) => {

@@ -1,8 +1,9 @@
 import { eq } from 'drizzle-orm'
 import { verifyEmailSchema } from '../../../shared/schemas/auth'
 import { users } from '../../database/schema'
+import type { VerifiedReply } from '../../../shared/types/account'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<VerifiedReply> => {
   const { token } = await readBodyAs(event, verifyEmailSchema)
   const userId = await useDb().transaction(async (tx) => {
     const id = await consumeToken(tx, token, 'verify-email')

@@ -5,8 +5,9 @@
 import { z } from 'zod'
 import { checkoutSourceSchema } from '../../../shared/schemas/shop'
 import { checkoutAddressesSchema } from '../../../shared/schemas/address'
+import type { CardCheckoutReply } from '../../../shared/types/shop'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<CardCheckoutReply> => {
   const user = await requireRole(event, 'teacher')
   const body = checkoutSourceSchema.and(z.object({ addresses: checkoutAddressesSchema.optional() }))
   const input = await readBodyAs(event, body)

@@ -5,6 +5,7 @@ import { checkoutSourceSchema, purchaseOrderFieldsSchema } from '../../../shared
 import { checkoutAddressesSchema } from '../../../shared/schemas/address'
 import { fieldErrorsOf } from '../../../shared/utils/field-errors'
 import { removeStoredFile, safeFilename, storeFile, uploadProblem } from '../../services/files'
+import type { PurchaseOrderCheckoutReply } from '../../../shared/types/shop'
 
 const text = (parts: MultiPartData[], name: string) => {
   const p = parts.find(x => x.name === name && !x.filename)
@@ -15,7 +16,7 @@ const prefixed = (prefix: string, f: Record<string, string>) =>
 const file = (parts: MultiPartData[], name: string) =>
   parts.find(x => x.name === name && x.filename !== undefined)
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<PurchaseOrderCheckoutReply> => {
   const user = await requireRole(event, 'teacher')
   assertMayOrder(user)
   let parts: MultiPartData[] | undefined

@@ -2,8 +2,9 @@
 // nuxt.config (routeRules) because it is computation on demand.
 import { planRequestSchema } from '../../../shared/schemas/planner'
 import { planGains } from '../../../shared/utils/planner/plan'
+import type { PlanReply } from '../../../shared/types/planner'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<PlanReply> => {
   const { rig, targets } = await readBodyAs(event, planRequestSchema)
   return planGains(rig, targets)
 })

@@ -1,8 +1,8 @@
+import { slugParams } from '../../../shared/schemas/ids'
 import type { ProductDetail } from '../../../shared/types/shop'
 
 export default defineEventHandler(async (event): Promise<ProductDetail> => {
-  const slug = String(getRouterParam(event, 'slug') ?? '')
-  if (!/^[a-z0-9-]{1,80}$/.test(slug)) throw notFound('That product')
+  const { slug } = paramsAs(event, slugParams, 'That product')
   const [entry] = await loadCatalog(useDb(), { activeOnly: true, slug })
   if (!entry) throw notFound('That product')
   const view = withoutPricesIf(await hidePricesFor(event), productView(entry))

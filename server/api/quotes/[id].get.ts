@@ -1,4 +1,6 @@
-export default defineEventHandler(async (event) => {
+import type { QuoteView } from '../../../shared/types/shop'
+
+export default defineEventHandler(async (event): Promise<QuoteView> => {
   const user = await requireUser(event)
   const q = await requireVisibleQuote(event, user)
   const d = await quoteDetails(useDb(), q)

@@ -2,8 +2,9 @@
 import { desc, eq } from 'drizzle-orm'
 import { quotes } from '../../database/schema'
 import { isQuoteValid } from '../../../shared/utils/shop-rules'
+import type { QuoteListReply } from '../../../shared/types/shop'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<QuoteListReply> => {
   const user = await requireRole(event, 'teacher')
   if (!user.schoolId) return { data: [] }
   const rows = await useDb()

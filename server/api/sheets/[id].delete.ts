@@ -3,8 +3,9 @@ import { eq } from 'drizzle-orm'
 import { idParams } from '../../../shared/schemas/ids'
 import { canEditSheet } from '../../../shared/utils/sheets'
 import { tuningSheets } from '../../database/schema'
+import type { OkReply } from '../../../shared/types/common'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<OkReply> => {
   const user = await requireUser(event)
   const { id } = paramsAs(event, idParams)
   const sheet = await loadVisibleSheet(user, id)

@@ -3,8 +3,9 @@ import { idParams } from '../../../shared/schemas/ids'
 import { updateSheetSchema } from '../../../shared/schemas/planner'
 import { canEditSheet } from '../../../shared/utils/sheets'
 import { tuningSheets } from '../../database/schema'
+import type { SheetView } from '../../../shared/types/sheets'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<SheetView> => {
   const user = await requireUser(event)
   const { id } = paramsAs(event, idParams)
   const input = await readBodyAs(event, updateSheetSchema)
@@ -17,5 +18,5 @@ export default defineEventHandler(async (event) => {
   }
   if (Object.keys(changes).length)
     await useDb().update(tuningSheets).set(changes).where(eq(tuningSheets.id, id))
-  return await loadVisibleSheet(user, id)
+  return sheetView(await loadVisibleSheet(user, id))
 })

@@ -2,18 +2,22 @@
 import { and, asc, count, desc, eq, like } from 'drizzle-orm'
 import { sheetListQuery } from '../../../shared/schemas/sheet-list'
 import { tuningSheets } from '../../database/schema'
+import type { SheetListReply, SheetSummary } from '../../../shared/types/sheets'
+import { containsPattern } from '../../../shared/utils/paging'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<SheetListReply> => {
   const user = await requireRole(event, 'teacher', 'builder')
   const q = queryAs(event, sheetListQuery)
   const where = and(
     eq(tuningSheets.authorId, user.id),
     eq(tuningSheets.archived, false),
-    q.q ? like(tuningSheets.title, `%${q.q}%`) : undefined,
+    q.q ? like(tuningSheets.title, containsPattern(q.q)) : undefined,
   )
   const column = { createdAt: tuningSheets.createdAt, title: tuningSheets.title }[q.sort]
   const db = useDb()
-  const [rows, [total]] = await Promise.all([
+  return pagedList(
+    q,
+    db.select({ n: count() }).from(tuningSheets).where(where),
     db
       .select({
         id: tuningSheets.id,
@@ -25,26 +29,33 @@ export default defineEventHandler(async (event) => {
       })
       .from(tuningSheets)
       .where(where)
-      .orderBy(q.dir === 'asc' ? asc(column) : desc(column), desc(tuningSheets.id))
-      .limit(q.pageSize)
-      .offset((q.page - 1) * q.pageSize),
-    db.select({ n: count() }).from(tuningSheets).where(where),
-  ])
-  const data = rows.map(({ results, ...r }) => {
-    const res = results as {
-      analysis?: {
-        stable?: boolean
-        phaseMarginDeg?: number | null
-        step?: { overshootPct?: number | null, settlingTime?: number | null }
-      }
-    }
-    return {
-      ...r,
-      stable: res.analysis?.stable ?? null,
-      phaseMarginDeg: res.analysis?.phaseMarginDeg ?? null,
-      overshootPct: res.analysis?.step?.overshootPct ?? null,
-      settlingTime: res.analysis?.step?.settlingTime ?? null,
-    }
-  })
-  return { data, meta: { total: total?.n ?? 0, page: q.page, pageSize: q.pageSize } }
+      .orderBy(q.dir === 'asc' ? asc(column) : desc(column), desc(tuningSheets.id)),
+    sheetSummaryOf,
+  )
 })
+
+/** A sheet's row in "My sheets": the verdict its stored results give. */
+function sheetSummaryOf({ results, ...r }: {
+  id: number
+  title: string
+  note: string | null
+  rigId: number | null
+  createdAt: Date
+  results: Record<string, unknown>
+}): SheetSummary {
+  const res = results as {
+    analysis?: {
+      stable?: boolean
+      phaseMarginDeg?: number | null
+      step?: { overshootPct?: number | null, settlingTime?: number | null }
+    }
+  }
+  return {
+    ...r,
+    createdAt: r.createdAt.toISOString(),
+    stable: res.analysis?.stable ?? null,
+    phaseMarginDeg: res.analysis?.phaseMarginDeg ?? null,
+    overshootPct: res.analysis?.step?.overshootPct ?? null,
+    settlingTime: res.analysis?.step?.settlingTime ?? null,
+  }
+}

@@ -1,6 +1,7 @@
 // Admins read what the local fake SMTP server caught: only in fake mode, and with every
 // single-use link masked, so the viewer cannot be used to take over a customer's account.
 import { maskSingleUseLinks } from '../../../shared/utils/mask-links'
+import type { CaughtMailReply } from '../../../shared/types/staff'
 
 interface Caught {
   text?: string
@@ -8,7 +9,7 @@ interface Caught {
   [k: string]: unknown
 }
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<CaughtMailReply> => {
   await requireRole(event, 'admin')
   const cfg = useRuntimeConfig()
   if (!cfg.fakePayments) throw notFound()

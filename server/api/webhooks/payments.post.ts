@@ -5,6 +5,7 @@
 import { eq } from 'drizzle-orm'
 import { orders, paymentEvents } from '../../database/schema'
 import { verifyWebhook, type PaymentEvent } from '../../services/payments'
+import type { WebhookReply } from '../../../shared/types/shop'
 
 /** The order the object belongs to: by the id stored on the order, else the one its
  *  metadata names (only so a mismatch can be shown on that order's timeline). */
@@ -54,7 +55,7 @@ async function handle(tx: Tx, evt: PaymentEvent) {
   return 'ignored'
 }
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<WebhookReply> => {
   const raw = (await readRawBody(event, 'utf8')) ?? ''
   const signature = getHeader(event, 'stripe-signature')
   let evt: PaymentEvent

@@ -1,10 +1,30 @@
-// @vitest-environment happy-dom
 // The stores keep their own state in localStorage: read back as the store is created (on any
 // page), written on every change, and gone from memory and storage after reset().
+// Plain Node has no localStorage: a Map stands in for the browser's.
 import { createPinia, setActivePinia } from 'pinia'
 import { beforeEach, describe, expect, it } from 'vitest'
 import { useCartStore } from '../../../stores/cart'
 import { usePlannerStore } from '../../../stores/planner'
+
+class MemoryStorage {
+  private items = new Map<string, string>()
+  getItem(key: string) {
+    return this.items.get(key) ?? null
+  }
+
+  setItem(key: string, value: string) {
+    this.items.set(key, String(value))
+  }
+
+  removeItem(key: string) {
+    this.items.delete(key)
+  }
+
+  clear() {
+    this.items.clear()
+  }
+}
+Object.defineProperty(globalThis, 'localStorage', { value: new MemoryStorage() })
 
 const CART = 'tiltwright-cart-v1'
 const PLANNER = 'tiltwright.planner.v1'

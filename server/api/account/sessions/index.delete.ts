@@ -1,5 +1,7 @@
 // "Sign out everywhere": ends every session of the account, this one included.
-export default defineEventHandler(async (event) => {
+import type { OkReply } from '../../../../shared/types/common'
+
+export default defineEventHandler(async (event): Promise<OkReply> => {
   const user = await requireUser(event)
   await useDb().transaction(async (tx) => {
     await revokeSessions(tx, user.id)

@@ -1,13 +1,14 @@
 // Correct a batch's built quantity (a recount); never below what orders already hold.
 import { eq } from 'drizzle-orm'
+import { idParams } from '../../../../shared/schemas/ids'
 import { batchPatchSchema } from '../../../../shared/schemas/shop'
 import { batches } from '../../../database/schema'
+import type { BatchRecountReply } from '../../../../shared/types/shop'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<BatchRecountReply> => {
   const admin = await requireRole(event, 'admin')
+  const { id } = paramsAs(event, idParams, 'That batch')
   const input = await readBodyAs(event, batchPatchSchema)
-  const id = Number(getRouterParam(event, 'id'))
-  if (!Number.isSafeInteger(id) || id < 1) throw notFound('That batch')
   return useDb().transaction(async (tx) => {
     const [b] = await tx.select().from(batches).where(eq(batches.id, id)).limit(1).for('update')
     if (!b) throw notFound('That batch')

@@ -2,8 +2,9 @@
 import { desc, eq } from 'drizzle-orm'
 import { batches, products } from '../../../database/schema'
 import { unitsLeft } from '../../../../shared/utils/shop-rules'
+import type { BatchListReply } from '../../../../shared/types/shop'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<BatchListReply> => {
   await requireRole(event, 'admin')
   const rows = await useDb()
     .select({ b: batches, product: products.name, slug: products.slug })

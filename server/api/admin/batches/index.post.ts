@@ -2,12 +2,13 @@
 import { eq } from 'drizzle-orm'
 import { batchSchema } from '../../../../shared/schemas/shop'
 import { batches, products } from '../../../database/schema'
+import type { CreatedReply } from '../../../../shared/types/common'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<CreatedReply> => {
   const admin = await requireRole(event, 'admin')
   const input = await readBodyAs(event, batchSchema)
-  try {
-    const id = await useDb().transaction(async (tx) => {
+  const id = await uniqueOr409('code', 'A batch with that code already exists.', () =>
+    useDb().transaction(async (tx) => {
       const [p] = await tx
         .select({ id: products.id })
         .from(products)
@@ -31,14 +32,8 @@ export default defineEventHandler(async (event) => {
         detail: { quantity: input.quantity },
       })
       return row!.id
-    })
-    setResponseStatus(event, 201)
-    return { id }
-  } catch (e) {
-    if (isDuplicateKey(e))
-      throw conflict('A batch with that code already exists.', 'code-taken', {
-        code: 'A batch with that code already exists.',
-      })
-    throw e
-  }
+    }),
+  )
+  setResponseStatus(event, 201)
+  return { id }
 })

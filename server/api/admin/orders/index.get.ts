@@ -2,11 +2,13 @@
 import { and, asc, count, desc, eq, like, or } from 'drizzle-orm'
 import { adminOrderListQuery } from '../../../../shared/schemas/shop'
 import { orders, purchaseOrders, schools } from '../../../database/schema'
+import type { AdminOrderListReply } from '../../../../shared/types/shop'
+import { containsPattern } from '../../../../shared/utils/paging'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<AdminOrderListReply> => {
   await requireRole(event, 'admin')
   const q = queryAs(event, adminOrderListQuery)
-  const term = q.q ? `%${q.q.replace(/[%_\\]/g, c => `\\${c}`)}%` : undefined
+  const term = q.q ? containsPattern(q.q) : undefined
   const where = and(
     q.status ? eq(orders.status, q.status) : undefined,
     q.method ? eq(orders.paymentMethod, q.method) : undefined,
@@ -28,21 +30,17 @@ export default defineEventHandler(async (event) => {
       .from(orders)
       .innerJoin(schools, eq(schools.id, orders.schoolId))
       .leftJoin(purchaseOrders, eq(purchaseOrders.orderId, orders.id))
-  const [rows, [total]] = await Promise.all([
-    base()
-      .where(where)
-      .orderBy(q.dir === 'asc' ? asc(column) : desc(column), desc(orders.id))
-      .limit(q.pageSize)
-      .offset((q.page - 1) * q.pageSize),
+  return pagedList(
+    q,
     db
       .select({ n: count() })
       .from(orders)
       .innerJoin(schools, eq(schools.id, orders.schoolId))
       .leftJoin(purchaseOrders, eq(purchaseOrders.orderId, orders.id))
       .where(where),
-  ])
-  return {
-    data: rows.map(orderRowOf),
-    meta: { total: total?.n ?? 0, page: q.page, pageSize: q.pageSize },
-  }
+    base()
+      .where(where)
+      .orderBy(q.dir === 'asc' ? asc(column) : desc(column), desc(orders.id)),
+    orderRowOf,
+  )
 })

@@ -1,16 +1,17 @@
 // Edit a product; when `tiers` is sent it replaces the product's whole tier list. Quotes and
 // orders keep the prices they were made with.
 import { eq } from 'drizzle-orm'
+import { idParams } from '../../../../shared/schemas/ids'
 import { productPatchSchema } from '../../../../shared/schemas/shop'
 import { priceTiers, products } from '../../../database/schema'
+import type { ProductView } from '../../../../shared/types/shop'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<ProductView> => {
   const admin = await requireRole(event, 'admin')
+  const { id } = paramsAs(event, idParams, 'That product')
   const { tiers, ...input } = await readBodyAs(event, productPatchSchema)
-  const id = Number(getRouterParam(event, 'id'))
-  if (!Number.isSafeInteger(id) || id < 1) throw notFound('That product')
-  try {
-    await useDb().transaction(async (tx) => {
+  await uniqueOr409('slug', 'Another product already uses that slug.', () =>
+    useDb().transaction(async (tx) => {
       const [p] = await tx.select().from(products).where(eq(products.id, id)).limit(1).for('update')
       if (!p) throw notFound('That product')
       if (Object.keys(input).length) await tx.update(products).set(input).where(eq(products.id, id))
@@ -25,14 +26,8 @@ export default defineEventHandler(async (event) => {
         subjectId: id,
         detail: { fields: Object.keys(input), tiers: !!tiers },
       })
-    })
-  } catch (e) {
-    if (isDuplicateKey(e))
-      throw conflict('Another product already uses that slug.', 'slug-taken', {
-        slug: 'Another product already uses that slug.',
-      })
-    throw e
-  }
+    }),
+  )
   const [entry] = await loadCatalog(useDb(), { activeOnly: false, ids: [id] })
   return productView(entry!)
 })

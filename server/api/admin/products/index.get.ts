@@ -1,5 +1,7 @@
 // The whole catalog for the admin, withdrawn products and empty batches included.
-export default defineEventHandler(async (event) => {
+import type { AdminCatalogReply } from '../../../../shared/types/shop'
+
+export default defineEventHandler(async (event): Promise<AdminCatalogReply> => {
   await requireRole(event, 'admin')
   const catalog = await loadCatalog(useDb(), { activeOnly: false })
   return {

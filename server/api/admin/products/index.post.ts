@@ -1,12 +1,13 @@
 import { productSchema } from '../../../../shared/schemas/shop'
 import { max } from 'drizzle-orm'
 import { priceTiers, products } from '../../../database/schema'
+import type { CreatedReply } from '../../../../shared/types/common'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<CreatedReply> => {
   const admin = await requireRole(event, 'admin')
   const { tiers, ...input } = await readBodyAs(event, productSchema)
-  try {
-    const id = await useDb().transaction(async (tx) => {
+  const id = await uniqueOr409('slug', 'Another product already uses that slug.', () =>
+    useDb().transaction(async (tx) => {
       const [last] = await tx.select({ n: max(products.sortOrder) }).from(products)
       const [row] = await tx
         .insert(products)
@@ -20,14 +21,8 @@ export default defineEventHandler(async (event) => {
         subjectId: row!.id,
       })
       return row!.id
-    })
-    setResponseStatus(event, 201)
-    return { id }
-  } catch (e) {
-    if (isDuplicateKey(e))
-      throw conflict('Another product already uses that slug.', 'slug-taken', {
-        slug: 'Another product already uses that slug.',
-      })
-    throw e
-  }
+    }),
+  )
+  setResponseStatus(event, 201)
+  return { id }
 })

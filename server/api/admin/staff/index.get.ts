@@ -1,13 +1,18 @@
+// The admin's staff table: support and admin accounts, paged, sorted and searched.
 import { and, asc, count, desc, inArray, like, or } from 'drizzle-orm'
 import { staffListQuery } from '../../../../shared/schemas/staff'
+import type { StaffListReply } from '../../../../shared/types/staff'
+import { containsPattern } from '../../../../shared/utils/paging'
+import { STAFF_ROLES } from '../../../../shared/utils/roles'
 import { users } from '../../../database/schema'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<StaffListReply> => {
   await requireRole(event, 'admin')
   const q = queryAs(event, staffListQuery)
+  const term = q.q ? containsPattern(q.q) : undefined
   const where = and(
-    inArray(users.role, ['support', 'admin']),
-    q.q ? or(like(users.name, `%${q.q}%`), like(users.email, `%${q.q}%`)) : undefined,
+    inArray(users.role, STAFF_ROLES),
+    term ? or(like(users.name, term), like(users.email, term)) : undefined,
   )
   const column = {
     name: users.name,
@@ -16,22 +21,14 @@ export default defineEventHandler(async (event) => {
     createdAt: users.createdAt,
   }[q.sort]
   const db = useDb()
-  const [rows, [total]] = await Promise.all([
+  return pagedList(
+    q,
+    db.select({ n: count() }).from(users).where(where),
     db
-      .select({
-        id: users.id,
-        name: users.name,
-        email: users.email,
-        role: users.role,
-        createdAt: users.createdAt,
-        disabledAt: users.disabledAt,
-      })
+      .select()
       .from(users)
       .where(where)
-      .orderBy(q.dir === 'asc' ? asc(column) : desc(column), asc(users.id))
-      .limit(q.pageSize)
-      .offset((q.page - 1) * q.pageSize),
-    db.select({ n: count() }).from(users).where(where),
-  ])
-  return { data: rows, meta: { total: total?.n ?? 0, page: q.page, pageSize: q.pageSize } }
+      .orderBy(q.dir === 'asc' ? asc(column) : desc(column), asc(users.id)),
+    staffMemberOf,
+  )
 })

@@ -3,13 +3,15 @@ import { randomBytes } from 'node:crypto'
 import { createStaffSchema } from '../../../../shared/schemas/staff'
 import { users } from '../../../database/schema'
 import { staffInvitationMail } from '../../../emails/staff'
+import { hoursToMs, LINK_LIFETIME_HOURS } from '../../../../shared/utils/lifetimes'
+import type { CreatedReply } from '../../../../shared/types/common'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<CreatedReply> => {
   const admin = await requireRole(event, 'admin')
   const input = await readBodyAs(event, createStaffSchema)
   const passwordHash = await hashPassword(randomBytes(24).toString('base64url'))
-  try {
-    const id = await useDb().transaction(async (tx) => {
+  const id = await uniqueOr409('email', 'Someone already uses that e-mail address.', () =>
+    useDb().transaction(async (tx) => {
       const [row] = await tx
         .insert(users)
         .values({ ...input, passwordHash, verifiedAt: null })
@@ -21,8 +23,9 @@ export default defineEventHandler(async (event) => {
           3600,
         )
       }
-      // The invitation is a password-setting link that lives 3 days, not a reset's 1 hour.
-      const token = await issueToken(tx, row!.id, 'reset-password', 3 * 24 * 3600_000)
+      // The invitation is a password-setting link that lives longer than a reset's.
+      const lifetime = hoursToMs(LINK_LIFETIME_HOURS.invitation)
+      const token = await issueToken(tx, row!.id, 'reset-password', lifetime)
       await enqueueMail(
         tx,
         'staff-invitation',
@@ -37,14 +40,8 @@ export default defineEventHandler(async (event) => {
         detail: { role: input.role },
       })
       return row!.id
-    })
-    setResponseStatus(event, 201)
-    return { id }
-  } catch (e) {
-    if (isDuplicateKey(e))
-      throw conflict('Someone already uses that e-mail address.', 'email-taken', {
-        email: 'Someone already uses that e-mail address.',
-      })
-    throw e
-  }
+    }),
+  )
+  setResponseStatus(event, 201)
+  return { id }
 })

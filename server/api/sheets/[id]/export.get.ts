@@ -2,7 +2,7 @@
 import { idParams } from '../../../../shared/schemas/ids'
 import { sheetToFile } from '../../../../shared/utils/sheets'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<string> => {
   const user = await requireUser(event)
   const { id } = paramsAs(event, idParams)
   const sheet = await loadVisibleSheet(user, id)

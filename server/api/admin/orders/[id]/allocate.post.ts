@@ -1,7 +1,9 @@
 // An admin confirms the units held for the order, batch by batch, for packing.
-export default defineEventHandler(async (event) => {
+import type { AdminOrderReply } from '../../../../../shared/types/shop'
+
+export default defineEventHandler(async (event): Promise<AdminOrderReply> => {
   const admin = await requireRole(event, 'admin')
   const id = await visibleOrderId(event, admin)
   await allocateOrder(admin, id)
-  return replyWithOrder(id, admin)
+  return replyWithAdminOrder(id, admin)
 })

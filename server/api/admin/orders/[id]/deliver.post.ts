@@ -1,7 +1,9 @@
 // An admin marks a shipped order delivered.
-export default defineEventHandler(async (event) => {
+import type { AdminOrderReply } from '../../../../../shared/types/shop'
+
+export default defineEventHandler(async (event): Promise<AdminOrderReply> => {
   const admin = await requireRole(event, 'admin')
   const id = await visibleOrderId(event, admin)
   await markDelivered(admin, id)
-  return replyWithOrder(id, admin)
+  return replyWithAdminOrder(id, admin)
 })

@@ -1,15 +1,18 @@
 // An admin tries an approved purchase order's invoice again (after the payment service was
 // down); the job keeps its key, so the provider still issues one invoice only.
-export default defineEventHandler(async (event) => {
+import type { AdminOrderReply } from '../../../../../shared/types/shop'
+
+export default defineEventHandler(async (event): Promise<AdminOrderReply> => {
   const admin = await requireRole(event, 'admin')
   const id = await visibleOrderId(event, admin)
   const { jobId } = await retryInvoice(admin, id)
   const run = await runJobNow(jobId)
-  const view = await replyWithOrder(id, admin)
-  return {
-    ...view,
-    notice: run.done
+  return replyWithAdminOrder(
+    id,
+    admin,
+    run.done
       ? null
-      : 'The payment service still does not answer; the invoice will be issued as soon as it does.',
-  }
+      : 'The payment service still does not answer; '
+        + 'the invoice will be issued as soon as it does.',
+  )
 })

@@ -2,15 +2,16 @@
 // Sent as a download with its sniffed type and nosniff, never rendered by the browser as HTML.
 import { and, eq } from 'drizzle-orm'
 import { storedFiles } from '../../../../database/schema'
+import { orderFileParams } from '../../../../../shared/schemas/ids'
 import { readStoredFile } from '../../../../services/files'
 import { canSeeOrderDocuments } from '../../../../../shared/utils/shop-rules'
+import type { FileReply } from '../../../../../shared/types/common'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler(async (event): Promise<FileReply> => {
   const user = await requireUser(event)
+  const { fileId } = paramsAs(event, orderFileParams, 'That file')
   const order = await requireVisibleOrder(event, user)
   if (!canSeeOrderDocuments(user, order)) throw notFound('That file')
-  const fileId = Number(getRouterParam(event, 'fileId'))
-  if (!Number.isSafeInteger(fileId) || fileId < 1) throw notFound('That file')
   const [f] = await useDb()
     .select()
     .from(storedFiles)
