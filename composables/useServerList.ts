@@ -48,10 +48,15 @@ export function useServerList<T, S extends State>(
   const fetched = useFetch<Reply<T>>(url, { key: options.key, query, lazy: true })
 
   watch(
-    () => fetched.data.value?.meta?.page,
-    (served) => {
-      if (served && served !== state.page.value) state.page.value = served
+    () => fetched.data.value?.meta,
+    (meta) => {
+      if (!meta?.page) return
+      // The page the server answered, never past its count of pages (an empty list has one).
+      const served = Math.min(meta.page, meta.pages ?? meta.page)
+      if (served !== state.page.value) state.page.value = served
     },
+    // Immediate: the first answer comes with the server-rendered page, not as a change.
+    { immediate: true },
   )
 
   function setSort(next: { sort: string, dir: 'asc' | 'desc' }) {
