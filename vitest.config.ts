@@ -1,3 +1,4 @@
+import { fileURLToPath } from 'node:url'
 import { defineConfig } from 'vitest/config'
 
 // The planner's property tests (fast-check over hundreds of random rigs) are CPU-bound: on a
@@ -16,6 +17,8 @@ export default defineConfig({
   test: {
     projects: [
       {
+        // The stores import shared code through Nuxt's alias, as the app builds them.
+        resolve: { alias: { '~~': fileURLToPath(new URL('.', import.meta.url)) } },
         test: {
           name: 'unit',
           include: ['tests/unit/**/*.test.ts'],

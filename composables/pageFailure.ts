@@ -1,13 +1,15 @@
-/** The error a page throws when its data did not load: 503 while Tiltwright is briefly
- *  unavailable (the API said so), 404 otherwise (missing, or not the caller's to see). */
+/** The error a page throws when its data did not load. Only "not found" (a missing record, or
+ *  one that is not the caller's to see: the server answers both with 404) is a 404 page;
+ *  anything else (the database away, a timeout, a fault) is "temporarily unavailable", 503,
+ *  and the error page offers to try again. */
 export function pageFailure(
   error: { statusCode?: number } | null | undefined,
   notFoundMessage: string,
 ) {
-  const unavailable = error?.statusCode === 503
+  const missing = error?.statusCode === 404
   return createError({
-    statusCode: unavailable ? 503 : 404,
-    statusMessage: unavailable ? 'Tiltwright is briefly unavailable' : notFoundMessage,
+    statusCode: missing ? 404 : 503,
+    statusMessage: missing ? notFoundMessage : 'Tiltwright is briefly unavailable',
     fatal: true,
   })
 }

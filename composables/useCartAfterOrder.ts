@@ -9,7 +9,6 @@ export function emptyCartIfItWasThisQuote(
   cart: ReturnType<typeof useCartStore>,
   quoteLines: readonly Pick<DocLine, 'productId' | 'quantity'>[],
 ) {
-  cart.restore()
   if (cart.holds(quoteLines)) cart.clear()
 }
 

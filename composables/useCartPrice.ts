@@ -85,7 +85,6 @@ export function useCartPrice(shipToState?: Ref<string | null | undefined>) {
   )
 
   onMounted(() => {
-    cart.restore()
     watch(() => cart.lines, refresh, { deep: true, immediate: true })
     if (shipToState) watch(shipToState, refresh)
   })

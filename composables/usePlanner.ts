@@ -1,10 +1,23 @@
 // Live planner results, computed in the browser from the draft on every change: the
-// suggestion, the check of the gains on the rig, the drawn response and the stability map.
+// suggestion, the check of the gains on the rig, the drawn response (the scenario: a setpoint
+// step, optionally a nudge, a P-only run and a saved sheet to compare) and the stability map.
+
 import { analyzeLoop } from '~~/shared/utils/planner/analyze'
 import { firmwareConstants } from '~~/shared/utils/planner/firmware'
 import { planGains } from '~~/shared/utils/planner/plan'
 import type { Gains } from '~~/shared/utils/planner/schema'
+import { compareProportionalAndPd } from '~~/shared/utils/planner/compare'
+import { stabilityMap } from '~~/shared/utils/planner/map'
+import { simulate } from '~~/shared/utils/planner/simulate'
+import type { SheetInputs } from '~~/shared/schemas/planner'
+import type { ResponseSeries } from '~/components/planner/PlannerResponsePlot.vue'
 import { checkPlannerForm } from '~~/shared/utils/planner-form'
+
+export interface OverlaySheet {
+  id: number
+  title: string
+  inputs: SheetInputs
+}
 
 export function usePlanner() {
   const store = usePlannerStore()
@@ -54,5 +67,125 @@ export function usePlanner() {
     if (g) store.ownGains = { kp: g.kp, kd: g.kd, ki: g.ki }
   }
 
-  return { store, check, inputs, plan, gains, analysis, firmware, useSuggestion }
+  const showPOnly = ref(false)
+  const showNudge = ref(true)
+  /** A saved sheet whose predicted response is drawn beside the current one. */
+  const overlay = ref<OverlaySheet | null>(null)
+
+  const response = computed(() => {
+    if (!inputs.value || !gains.value) return null
+    const { rig, targets } = inputs.value
+    const mid = (rig.sensorLength ?? rig.beamLength) / 2
+    const step = targets.stepSize ?? (rig.sensorLength ?? rig.beamLength) / 4
+    const duration = Math.min(
+      30,
+      Math.max(6, 2.5 * targets.settlingTime + (showNudge.value ? targets.settlingTime + 1 : 0)),
+    )
+    const opts = {
+      duration,
+      initialPosition: mid,
+      initialSetpoint: mid,
+      setpoint: mid + step,
+      setpointTime: 0.5,
+      nudge: showNudge.value ? { time: 1 + targets.settlingTime * 1.5, speed: 0.15 } : null,
+      discretization: targets.discretization,
+    }
+    const toSeries = (
+      label: string,
+      r: ReturnType<typeof simulate>,
+      tone: ResponseSeries['tone'],
+      dashed = false,
+    ): ResponseSeries => ({
+      label,
+      tone,
+      dashed,
+      t: r.t,
+      x: r.x.map(v => v * 1000),
+      angle: r.beamAngle.map(v => (v * 180) / Math.PI),
+    })
+    const main = simulate(rig, gains.value, opts)
+    const series: ResponseSeries[] = [
+      toSeries(store.gainSource === 'own' ? 'your gains' : 'suggested', main, 'main'),
+    ]
+    if (showPOnly.value)
+      series.push(
+        toSeries(
+          'P only, same Kp',
+          simulate(rig, { ...gains.value, kd: 0, ki: 0 }, opts),
+          'compare',
+          true,
+        ),
+      )
+    const o = overlay.value
+    if (o) {
+      // The saved rig from the same start, setpoint change and nudge as the current plot.
+      const oMid = (o.inputs.rig.sensorLength ?? o.inputs.rig.beamLength) / 2
+      series.push(
+        toSeries(
+          `sheet: ${o.title}`,
+          simulate(o.inputs.rig, o.inputs.gains, {
+            ...opts,
+            initialPosition: oMid,
+            initialSetpoint: oMid,
+            setpoint: oMid + step,
+          }),
+          'ghost',
+          true,
+        ),
+      )
+    }
+    return {
+      series,
+      setpoint: { t: main.t, x: main.setpoint.map(v => v * 1000) },
+      events: main.events,
+    }
+  })
+
+  const pOnly = computed(() =>
+    inputs.value ? compareProportionalAndPd(inputs.value.rig, inputs.value.targets).pOnly : null,
+  )
+
+  const map = computed(() => {
+    if (!inputs.value || !plan.value) return null
+    const ref = plan.value.gains ?? plan.value.rejectedGains ?? gains.value
+    if (!ref) return null
+    const t = inputs.value.targets
+    return stabilityMap(
+      inputs.value.rig,
+      {
+        kpRange: [ref.kp * 0.02, ref.kp * 3],
+        kdRange: [0, Math.max(ref.kd, 0.05) * 3],
+        n: t.derivativeFilterN,
+        derivativeOn: t.derivativeOn,
+        ki: t.form === 'PID' ? ref.ki : 0,
+        discretization: t.discretization,
+      },
+      48,
+    )
+  })
+
+  /** Picking a point on the stability map puts its Kp and Kd on the rig as the builder's own. */
+  function pick(p: { kp: number, kd: number }) {
+    if (store.gainSource !== 'own') useSuggestion()
+    store.gainSource = 'own'
+    store.ownGains = { ...store.ownGains, kp: p.kp, kd: p.kd }
+  }
+
+  return {
+    store,
+    check,
+    inputs,
+    plan,
+    gains,
+    analysis,
+    firmware,
+    useSuggestion,
+    showPOnly,
+    showNudge,
+    overlay,
+    response,
+    pOnly,
+    map,
+    pick,
+  }
 }

@@ -7,8 +7,10 @@ export function useSignOut() {
     if (everywhere) await api('/api/account/sessions', { method: 'DELETE' })
     else await api('/api/auth/logout', { method: 'POST' })
     await refresh()
-    useCartStore().clear()
+    useCartStore().reset()
     usePlannerStore().reset()
+    // The last opened sheet and the overlay list belong to the person who signed out.
+    clearNuxtData(key => key.startsWith('planner-'))
     await navigateTo(everywhere ? '/login?signedOut=everywhere' : '/')
   }
 }

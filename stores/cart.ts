@@ -3,39 +3,36 @@
 // A quantity is kept exactly as the teacher typed it (even 0 or 99999): the cart page says
 // what is wrong beside the line instead of quietly changing it (lineQuantityProblem).
 import { defineStore } from 'pinia'
+import { computed, ref } from 'vue'
 import type { CartLine } from '~~/shared/schemas/shop'
 import { lineQuantityProblem } from '~~/shared/schemas/shop'
+import { persistInStorage } from './persist'
 
 const KEY = 'tiltwright-cart-v1'
 
+/** The lines of a saved cart that still make sense; anything else is dropped. */
+function savedLines(saved: unknown): CartLine[] {
+  if (!Array.isArray(saved)) return []
+  return saved
+    .filter(
+      (l): l is CartLine => Number.isInteger(l?.productId) && typeof l?.quantity === 'number',
+    )
+    .map(l => ({ productId: l.productId, quantity: l.quantity }))
+}
+
 export const useCartStore = defineStore('cart', () => {
   const lines = ref<CartLine[]>([])
-  const restored = ref(false)
-
-  function restore() {
-    if (!import.meta.client || restored.value) return
-    try {
-      const raw = JSON.parse(localStorage.getItem(KEY) ?? '[]') as unknown
-      if (Array.isArray(raw)) {
-        lines.value = raw
-          .filter(
-            (l): l is CartLine => Number.isInteger(l?.productId) && typeof l?.quantity === 'number',
-          )
-          .map(l => ({ productId: l.productId, quantity: l.quantity }))
-      }
-    } catch {
-      /* a damaged entry starts an empty cart */
-    }
-    restored.value = true
-  }
-
-  watch(
-    lines,
-    (v) => {
-      if (import.meta.client && restored.value) localStorage.setItem(KEY, JSON.stringify(v))
+  const storage = persistInStorage(
+    KEY,
+    [lines],
+    () => lines.value,
+    (saved) => {
+      lines.value = savedLines(saved)
     },
-    { deep: true },
   )
+  /** The store reads its saved copy as it is created; kept for pages that ask for it. */
+  const restored = ref(true)
+  function restore() {}
 
   function add(productId: number, quantity: number) {
     const line = lines.value.find(l => l.productId === productId)
@@ -52,6 +49,10 @@ export const useCartStore = defineStore('cart', () => {
   function clear() {
     lines.value = []
   }
+  /** Empties the cart in memory and in storage (signing out of a shared computer). */
+  function reset() {
+    storage.forget(clear)
+  }
   const count = computed(() =>
     lines.value.reduce((s, l) => s + (lineQuantityProblem(l.quantity) ? 0 : l.quantity), 0),
   )
@@ -67,5 +68,17 @@ export const useCartStore = defineStore('cart', () => {
     return lines.value.length > 0 && key(lines.value) === key(other)
   }
 
-  return { lines, restored, restore, add, setQuantity, remove, clear, count, validLines, holds }
+  return {
+    lines,
+    restored,
+    restore,
+    add,
+    setQuantity,
+    remove,
+    clear,
+    reset,
+    count,
+    validLines,
+    holds,
+  }
 })
