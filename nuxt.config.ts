@@ -1,4 +1,5 @@
 import { resolve } from 'node:path'
+import { CARD_HOLD_HOURS } from './shared/utils/lifetimes'
 
 // Tiltwright's Nuxt configuration. Anything that would reach the internet is off:
 // no telemetry, no devtools, no font downloads (Nunito ships from @fontsource).
@@ -42,7 +43,7 @@ export default defineNuxtConfig({
     mailCatcherUrl: 'http://127.0.0.1:1080',
     /** First retry delay of a failed job (mail, provider call, webhook delivery); doubles after. */
     outboxRetryBaseMs: 15_000,
-    cardHoldHours: 48,
+    cardHoldHours: CARD_HOLD_HOURS,
     cardHoldSweepMs: 600_000,
     publicUrl: 'http://localhost:3000',
     // Comma-separated addresses of reverse proxies whose X-Forwarded-For is believed

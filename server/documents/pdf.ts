@@ -6,7 +6,6 @@ import PDFDocument from 'pdfkit'
 import { formatCents } from '../../shared/utils/pricing'
 import { VENDOR } from '../../shared/utils/vendor'
 import { palette } from '../../shared/utils/palette'
-import { formatDay } from '../../shared/utils/dates'
 
 export interface DocLineSpec {
   description: string
@@ -31,13 +30,14 @@ export interface DocSpec {
   stamp?: string
 }
 
+/** The documents' colours, all from the palette the pages use. */
 const COLORS = {
-  beam: '#1a4762',
-  brass: '#c2801b',
-  ink: '#1f2a37',
-  faint: '#586170',
-  rule: '#d5e6f0',
-  go: '#2f7d4f',
+  beam: palette.beam[700],
+  brass: palette.brass[500],
+  ink: palette.ink.DEFAULT,
+  faint: palette.ink.faint,
+  rule: palette.beam[100],
+  go: palette.go.DEFAULT,
   stop: palette.stop.DEFAULT,
 }
 
@@ -51,9 +51,6 @@ function loadFonts() {
   }
   return fonts
 }
-
-/** Documents and e-mails write dates the way the pages do ("January 1, 2027"). */
-export const toDate = (d: Date | string) => formatDay(d, 'long')
 
 export function renderDocument(spec: DocSpec): Promise<Buffer> {
   const f = loadFonts()

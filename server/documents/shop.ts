@@ -11,7 +11,8 @@ import { taxLineLabel, taxNotes } from '../../shared/utils/tax'
 import { addressLines, type PostalAddress } from '../../shared/schemas/address'
 import { remittanceLines, VENDOR } from '../../shared/utils/vendor'
 import { schoolPostalAddress } from '../utils/destination'
-import { renderDocument, toDate, type DocLineSpec } from './pdf'
+import { formatDay } from '../../shared/utils/dates'
+import { renderDocument, type DocLineSpec } from './pdf'
 
 type School = typeof schools.$inferSelect
 interface Line {
@@ -86,7 +87,7 @@ export function quotePdf(
   school: School,
   preparedFor: string,
 ) {
-  const valid = toDate(q.validUntil)
+  const valid = formatDay(q.validUntil)
   return renderDocument({
     title: 'Quote',
     number: q.number,
@@ -94,7 +95,7 @@ export function quotePdf(
       { label: 'Quote for', lines: withAttention(schoolPostalAddress(school), preparedFor) },
     ],
     meta: [
-      ['Quote date', toDate(q.createdAt)],
+      ['Quote date', formatDay(q.createdAt)],
       ['Valid until', valid],
       ['Currency', 'US dollars'],
       ['Payment terms', `Card, or purchase order on net ${INVOICE_NET_DAYS} invoice`],
@@ -139,9 +140,9 @@ export function invoicePdf(
   paid?: { at: Date, reference: string | null },
   state: { voided?: boolean, settled?: boolean } = {},
 ) {
-  const due = inv.dueAt ? toDate(inv.dueAt) : null
+  const due = inv.dueAt ? formatDay(inv.dueAt) : null
   const paidMeta: [string, string][] = paid
-    ? [['Paid', `${toDate(paid.at)}${paid.reference ? ` (${paid.reference})` : ''}`]]
+    ? [['Paid', `${formatDay(paid.at)}${paid.reference ? ` (${paid.reference})` : ''}`]]
     : []
   const owed = !paid && !state.voided && !state.settled
   const stamp = state.voided ? 'VOID' : paid || state.settled ? 'PAID' : undefined
@@ -156,7 +157,7 @@ export function invoicePdf(
       { label: 'Ship to', lines: shipToLines(money, school) },
     ],
     meta: [
-      ['Invoice date', toDate(inv.issuedAt)],
+      ['Invoice date', formatDay(inv.issuedAt)],
       ['Order', inv.orderNumber],
       ['Purchase order', inv.poNumber],
       ...(owed
@@ -218,7 +219,7 @@ export function cardReceiptPdf(
       { label: 'Ship to', lines: shipToLines(order, school) },
     ],
     meta: [
-      ['Paid', toDate(order.paidAt)],
+      ['Paid', formatDay(order.paidAt)],
       ['Method', 'Card, online'],
       ['Order', order.number],
       ['Our tax id', VENDOR.taxId],
@@ -251,7 +252,7 @@ export function packingListPdf(
     title: 'Packing list',
     number: order.number,
     parties: [{ label: 'Ship to', lines: shipToLines(order, school, buyer) }],
-    meta: [['Packed', toDate(new Date())], ...shipped],
+    meta: [['Packed', formatDay(new Date())], ...shipped],
     lines: items.map(i => ({
       description: i.name,
       quantity: i.quantity,

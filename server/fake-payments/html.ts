@@ -105,7 +105,7 @@ export interface InvoiceLike {
 
 export function invoiceHead(inv: InvoiceLike) {
   // Only an open invoice is due; a paid or void one says so below instead.
-  const due = inv.due_date ? formatDay(new Date(inv.due_date * 1000), 'long') : null
+  const due = inv.due_date ? formatDay(new Date(inv.due_date * 1000)) : null
   return (
     `<h1>Invoice ${esc(inv.number)}</h1><p>${esc(inv.description)}</p>`
     + (inv.status === 'open' && due ? `<p>Due ${esc(due)}</p>` : '')

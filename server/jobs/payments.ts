@@ -3,6 +3,7 @@
 // records its outcome through a step of the order engine (server/utils/order-steps.ts).
 import { and, asc, eq, inArray, isNull, lt } from 'drizzle-orm'
 import { jobs, orders } from '../database/schema'
+import { CARD_HOLD_HOURS } from '../../shared/utils/lifetimes'
 import {
   checkoutStatus,
   createCardCheckout,
@@ -125,7 +126,7 @@ export const sweepCardHoldsJob: JobDefinition<Record<string, never>> = {
   maxAttempts: Number.MAX_SAFE_INTEGER,
   async run() {
     const cfg = useRuntimeConfig()
-    const hours = Number(cfg.cardHoldHours) || 48
+    const hours = Number(cfg.cardHoldHours) || CARD_HOLD_HOURS
     const cutoff = new Date(Date.now() - hours * 3600_000)
     const stale = await useDb()
       .select({ id: orders.id })

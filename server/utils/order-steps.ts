@@ -43,6 +43,7 @@ import {
   poRejectedMail,
   poReviewMail,
   shippedMail,
+  ACCOUNTS_PAYABLE,
 } from '../emails/shop'
 
 export interface StepActor {
@@ -262,10 +263,10 @@ export async function recordCheckoutOpened(
       'Card checkout opened on the payment page.',
       order.placedById,
     )
-    const { buyer } = await orderPeople(tx, order)
+    const { buyer, lines } = await orderPeople(tx, order)
     const mail = orderPlacedMail(
       buyer.name,
-      { number: order.number!, totalCents: order.totalCents, method: 'card' },
+      { number: order.number!, totalCents: order.totalCents, method: 'card', lines },
       orderUrl(orderId),
     )
     await enqueueMail(tx, 'order-placed', buyer.email, mail)
@@ -349,6 +350,7 @@ export async function placePurchaseOrder(
       number: order.number,
       totalCents: src.totals.totalCents,
       method: 'purchase-order' as const,
+      lines: src.lines,
     }
     await enqueueMail(
       tx,
@@ -365,6 +367,7 @@ export async function placePurchaseOrder(
       poNumber: po.poNumber,
       schoolName: school?.name ?? 'A school',
       totalCents: src.totals.totalCents,
+      lines: src.lines,
     }
     for (const a of admins) {
       await enqueueMail(
@@ -431,7 +434,7 @@ export async function approvePurchaseOrder(
       .update(purchaseOrders)
       .set({ status: 'approved', reviewedById: admin.id, reviewedAt: new Date() })
       .where(eq(purchaseOrders.orderId, orderId))
-    const { buyer, po } = await orderPeople(tx, order)
+    const { buyer, po, lines } = await orderPeople(tx, order)
     const [now] = await tx
       .select({ totalCents: orders.totalCents })
       .from(orders)
@@ -441,6 +444,7 @@ export async function approvePurchaseOrder(
       poNumber: po!.poNumber,
       totalCents: now!.totalCents,
       exemptionAccepted: acceptTaxCertificate,
+      lines,
     }
     await enqueueMail(
       tx,
@@ -519,7 +523,7 @@ export async function recordInvoiceIssued(
       })
       .where(eq(orders.id, orderId))
     const due = invoice.dueAt
-      ? formatDay(invoice.dueAt, 'long')
+      ? formatDay(invoice.dueAt)
       : `${INVOICE_NET_DAYS} days from today`
     await addOrderEvent(
       tx,
@@ -527,13 +531,14 @@ export async function recordInvoiceIssued(
       'invoice-issued',
       `Invoice ${invoice.number} issued: net ${INVOICE_NET_DAYS}, due ${due}.`,
     )
-    const { buyer, po } = await orderPeople(tx, order)
+    const { buyer, po, lines } = await orderPeople(tx, order)
     const what = {
       number: order.number!,
       invoiceNumber: invoice.number,
       totalCents: order.totalCents,
       dueAt: due,
       poNumber: po!.poNumber,
+      lines,
     }
     await enqueueMail(tx, 'invoice-issued', po!.apEmail, invoiceIssuedMail(what, invoice.url), [
       { document: 'invoice', orderId },
@@ -563,9 +568,9 @@ export async function rejectPurchaseOrder(admin: SessionUser, orderId: number, r
         reviewedAt: new Date(),
       })
       .where(eq(purchaseOrders.orderId, orderId))
-    const { buyer, po } = await orderPeople(tx, order)
+    const { buyer, po, lines } = await orderPeople(tx, order)
     const back = (await wayBackForOrder(tx, order, { status: 'rejected' }))!
-    const what = { number: order.number!, poNumber: po!.poNumber, reason }
+    const what = { number: order.number!, poNumber: po!.poNumber, reason, lines }
     const mail = poRejectedMail(buyer.name, what, orderUrl(orderId), {
       label: back.label,
       url: appUrl(back.url),
@@ -631,12 +636,12 @@ export async function shipOrder(
       .insert(shipments)
       .values({ orderId, carrier: input.carrier, tracking: input.tracking, createdById: admin.id })
       .$returningId()
-    const { buyer } = await orderPeople(tx, order)
+    const { buyer, lines } = await orderPeople(tx, order)
     await enqueueMail(
       tx,
       'shipped',
       buyer.email,
-      shippedMail(buyer.name, { number: order.number!, ...input }, orderUrl(orderId)),
+      shippedMail(buyer.name, { number: order.number!, ...input, lines }, orderUrl(orderId)),
       [{ document: 'packing-list', orderId }],
     )
     return row!.id
@@ -676,10 +681,10 @@ async function settle(
       updatedAt: paidAt,
     })
     .where(eq(orders.id, order.id))
-  const { buyer } = await orderPeople(tx, order)
+  const { buyer, lines } = await orderPeople(tx, order)
   const mail = paymentReceivedMail(
     buyer.name,
-    { number: order.number!, totalCents: order.totalCents },
+    { number: order.number!, totalCents: order.totalCents, lines },
     orderUrl(order.id),
   )
   await enqueueMail(tx, 'payment-received', buyer.email, mail, [
@@ -780,14 +785,12 @@ export async function recordRefund(
       .update(orders)
       .set({ refundedAt: new Date(), refundReference: refund.refundId })
       .where(eq(orders.id, orderId))
-    const { buyer, po } = await orderPeople(tx, order)
+    const { buyer, po, lines } = await orderPeople(tx, order)
     const status = ORDER_STATUS_LABELS[order.status].toLowerCase()
-    const mail = paymentRefundedMail(
-      buyer.name,
-      { number: order.number!, amountCents: refund.amountCents, status },
-      orderUrl(orderId),
-    )
+    const what = { number: order.number!, amountCents: refund.amountCents, status, lines }
     for (const to of new Set([buyer.email, ...(po && order.invoiceId ? [po.apEmail] : [])])) {
+      const name = to === buyer.email ? buyer.name : ACCOUNTS_PAYABLE
+      const mail = paymentRefundedMail(name, what, orderUrl(orderId))
       await enqueueMail(tx, 'payment-refunded', to, mail)
     }
   })
@@ -813,7 +816,7 @@ export async function cancelOrder(user: SessionUser, orderId: number, reason: st
 }
 
 async function afterCancel(tx: Tx, order: OrderRow, reason: string) {
-  const { buyer, po } = await orderPeople(tx, order)
+  const { buyer, po, lines } = await orderPeople(tx, order)
   if (order.invoiceId && po) {
     // One mail each: the void notice says the order is cancelled, and why.
     await enqueueJob(tx, 'void-invoice', { orderId: order.id }, { uniqueKey: `void-${order.id}` })
@@ -822,6 +825,7 @@ async function afterCancel(tx: Tx, order: OrderRow, reason: string) {
       invoiceNumber: order.invoiceNumber ?? order.invoiceId,
       poNumber: po.poNumber,
       reason,
+      lines,
     }
     await enqueueMail(tx, 'invoice-voided', po.apEmail, invoiceVoidedMail(what))
     if (buyer.email !== po.apEmail)
@@ -831,7 +835,7 @@ async function afterCancel(tx: Tx, order: OrderRow, reason: string) {
       tx,
       'order-cancelled',
       buyer.email,
-      orderCancelledMail(buyer.name, { number: order.number!, reason }, orderUrl(order.id)),
+      orderCancelledMail(buyer.name, { number: order.number!, reason, lines }, orderUrl(order.id)),
     )
   }
   if (order.checkoutSessionId)

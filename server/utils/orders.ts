@@ -276,7 +276,7 @@ export async function orderPeople(db: DbOrTx, order: OrderRow) {
     .from(purchaseOrders)
     .where(eq(purchaseOrders.orderId, order.id))
     .limit(1)
-  return { school: row!.school, buyer: row!.buyer, po }
+  return { school: row!.school, buyer: row!.buyer, po, lines: await linesOf(db, order.id) }
 }
 
 export const linesOf = (db: DbOrTx, orderId: number) =>

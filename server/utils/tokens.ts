@@ -3,14 +3,15 @@
 import { createHash, randomBytes } from 'node:crypto'
 import { and, eq, gt, isNull } from 'drizzle-orm'
 import { authTokens } from '../database/schema'
+import { hoursToMs, LINK_LIFETIME_HOURS } from '../../shared/utils/lifetimes'
 
 type Purpose = (typeof authTokens.$inferSelect)['purpose']
 
 const hash = (raw: string) => createHash('sha256').update(raw).digest('hex')
 
 export const TOKEN_LIFETIME_MS: Record<Purpose, number> = {
-  'verify-email': 3 * 24 * 3600_000,
-  'reset-password': 3600_000,
+  'verify-email': hoursToMs(LINK_LIFETIME_HOURS.confirmation),
+  'reset-password': hoursToMs(LINK_LIFETIME_HOURS.reset),
 }
 
 /** lifetimeMs overrides the purpose's default (a staff invitation lives longer than a reset). */

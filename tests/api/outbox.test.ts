@@ -1,23 +1,17 @@
 // Mail jobs keep mail through an SMTP outage: while the fake SMTP server refuses mail
 // (451, temporary failure) the message waits as a pending `mail` job with its error; once
 // the server accepts again, the retry delivers it. Nothing is lost, nothing is sent twice.
-import { afterEach, describe, expect, inject, it } from 'vitest'
-import mysql from 'mysql2/promise'
+import { afterEach, describe, expect, it } from 'vitest'
 import { Client, uniqueEmail } from '../helpers/client'
+import { jobsSettled, sql } from '../helpers/db'
 import { mailsTo, refuseMail, waitForMail } from '../helpers/mail'
 
-async function outboxRowsTo(email: string) {
-  const conn = await mysql.createConnection({ uri: inject('dbUrl') })
-  try {
-    const [rows] = await conn.query(
-      `SELECT state AS status, attempts, last_error AS lastError FROM jobs
-      WHERE kind = 'mail' AND JSON_VALUE(payload, '$.to') = ? ORDER BY id`,
-      [email],
-    )
-    return rows as { status: string, attempts: number, lastError: string | null }[]
-  } finally {
-    await conn.end()
-  }
+function outboxRowsTo(email: string) {
+  return sql<{ status: string, attempts: number, lastError: string | null }>(
+    `SELECT state AS status, attempts, last_error AS lastError FROM jobs
+    WHERE kind = 'mail' AND JSON_VALUE(payload, '$.to') = ? ORDER BY id`,
+    [email],
+  )
 }
 
 afterEach(() => refuseMail(false))
@@ -60,7 +54,7 @@ describe('mail jobs', () => {
       await expect
         .poll(async () => (await outboxRowsTo(email))[0]?.status, { timeout: 10_000 })
         .toBe('done')
-      await new Promise(r => setTimeout(r, 1500))
+      await jobsSettled({ to: email })
       expect((await mailsTo(email)).length).toBe(1)
     })
 })

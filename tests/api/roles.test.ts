@@ -3,6 +3,7 @@
 import { describe, expect, it } from 'vitest'
 import { Client, uniqueEmail } from '../helpers/client'
 import { waitForMail } from '../helpers/mail'
+import { hoursInWords, LINK_LIFETIME_HOURS } from '../../shared/utils/lifetimes'
 
 async function as(role: string) {
   const c = new Client()
@@ -66,7 +67,7 @@ describe('role checks', () => {
     const invite = await waitForMail(email, /staff account/)
     expect(invite.text).toContain('Marcus Teel has added you')
     expect(invite.text).toMatch(/reset-password\/[A-Za-z0-9_-]+/)
-    expect(invite.text).toContain('expires in 3 days')
+    expect(invite.text).toContain(`expires in ${hoursInWords(LINK_LIFETIME_HOURS.invitation)}`)
     const dup = await admin.post('/api/admin/staff', { name: 'Twice', email, role: 'support' })
     expect(dup.status).toBe(409)
     expect(dup.body.data.fields.email).toBeDefined()

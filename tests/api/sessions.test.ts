@@ -1,7 +1,7 @@
 // Sessions that stay the owner's: each sign-in is a row of its own, checked on every request,
 // so a cookie copied before a sign-out, a password change or a reset stops working at once.
-import mysql from 'mysql2/promise'
-import { describe, expect, inject, it } from 'vitest'
+import { sql } from '../helpers/db'
+import { describe, expect, it } from 'vitest'
 import { Client, uniqueEmail } from '../helpers/client'
 import { linkIn, waitForMail } from '../helpers/mail'
 
@@ -122,16 +122,11 @@ describe('idle sessions', () => {
   it('ends a session left unused for as long as the cookie lives (14 days)', async () => {
     const email = await newAccount('idle')
     const c = await signedIn(email)
-    const conn = await mysql.createConnection({ uri: inject('dbUrl') })
-    try {
-      await conn.query(
-        `UPDATE user_sessions s JOIN users u ON u.id = s.user_id
-        SET s.last_seen_at = NOW(3) - INTERVAL 15 DAY WHERE u.email = ?`,
-        [email],
-      )
-    } finally {
-      await conn.end()
-    }
+    await sql(
+      `UPDATE user_sessions s JOIN users u ON u.id = s.user_id
+      SET s.last_seen_at = NOW(3) - INTERVAL 15 DAY WHERE u.email = ?`,
+      [email],
+    )
     expect((await c.get('/api/account')).status).toBe(401)
   })
 })

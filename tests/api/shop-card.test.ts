@@ -2,6 +2,7 @@
 // payment service and the fake SMTP server: price, check out, decline, pay, webhook, ship.
 import { describe, expect, it } from 'vitest'
 import { Client } from '../helpers/client'
+import { jobsSettled } from '../helpers/db'
 import { mailsTo, waitForMail } from '../helpers/mail'
 import {
   DECLINE,
@@ -205,7 +206,7 @@ describe('card checkout', () => {
     expect(await replay.json()).toEqual({ received: true, duplicate: true })
     const order = (await t.client.get(`/api/orders/${r.body.orderId}`)).body
     expect(order.events.filter((e: any) => e.kind === 'paid')).toHaveLength(1)
-    await new Promise(ok => setTimeout(ok, 500))
+    await jobsSettled({ to: t.email })
     expect((await mailsTo(t.email)).filter(m => /^Payment received/.test(m.subject))).toHaveLength(
       1,
     )

@@ -3,8 +3,8 @@
 // dying instance, the hold sweep against a lost webhook, a database killed mid-checkout,
 // and an unconfirmed buyer. Each was a hole before the order engine and durable jobs.
 import Stripe from 'stripe'
-import mysql from 'mysql2/promise'
-import { afterEach, describe, expect, it, inject } from 'vitest'
+import { afterEach, describe, expect, inject, it } from 'vitest'
+import { jobTried, jobsSettled, sql } from '../helpers/db'
 import { mailsTo, waitForMail } from '../helpers/mail'
 import {
   APPROVE,
@@ -21,16 +21,6 @@ import {
   waitForOrder,
 } from '../helpers/shop'
 import { killDatabase, restartDatabase, startAppInstance } from '../helpers/instance'
-
-async function sql<T = any>(statement: string, params: unknown[] = []): Promise<T[]> {
-  const conn = await mysql.createConnection({ uri: inject('dbUrl') })
-  try {
-    const [rows] = await conn.query(statement, params)
-    return rows as T[]
-  } finally {
-    await conn.end()
-  }
-}
 
 async function cardOrder(tag: string, quantity = 2) {
   const admin = await signedIn('admin@tiltwright.test')
@@ -129,7 +119,9 @@ describe('money for an order that ended', () => {
       await simulator({ api: 'fail' })
       expect((await t.client.post(`/api/orders/${orderId}/cancel`, {})).status).toBe(200)
       expect((await payOnPage(url, APPROVE)).status).toBe(303)
-      await new Promise(r => setTimeout(r, 1500))
+      // The refund is tried while the payment service is down: it fails and waits.
+      const refund = await jobTried('refund-payment', orderId)
+      expect(refund.state).toBe('pending')
       expect((await t.client.get(`/api/orders/${orderId}`)).body.refundedAt).toBeNull()
       await simulator({ api: 'normal' })
       const order = await waitForOrder(t.client, orderId, o => !!o.refundedAt, 20_000)
@@ -250,7 +242,8 @@ describe('webhooks and the hold sweep survive what kills a process', () => {
       )
       await simulator({ webhooks: 'deliver' })
       // The late webhook then changes nothing: one payment, one receipt.
-      await new Promise(r => setTimeout(r, 3000))
+      await jobsSettled({ kind: 'fake-webhook' })
+      await jobsSettled({ to: t.email })
       const after = (await t.client.get(`/api/orders/${orderId}`)).body
       expect(after.events.filter((e: any) => e.kind === 'paid')).toHaveLength(1)
       const received = (await mailsTo(t.email)).filter(m => /^Payment received/.test(m.subject))
@@ -280,7 +273,13 @@ describe('checkout ends with a payable order or with none', () => {
     const t = await newTeacher('db-dies')
     await simulator({ api: 'slow', slowMs: 2000 })
     const pending = t.client.post('/api/checkout/card', { lines: [{ productId, quantity: 3 }] })
-    await new Promise(r => setTimeout(r, 700))
+    // The order is saved; the checkout now waits on the slow payment service. Kill the database.
+    await expect
+      .poll(async () => (await sql(
+        'SELECT o.id FROM orders o JOIN users u ON u.school_id = o.school_id WHERE u.email = ?',
+        [t.email],
+      )).length, { timeout: 10_000, interval: 50 })
+      .toBe(1)
     killDatabase()
     const reply = await pending
     expect(reply.status).toBeGreaterThanOrEqual(500)

@@ -57,7 +57,11 @@ describe('purchase-order checkout', () => {
     expect(file.headers.get('content-type')).toBe('application/pdf')
     expect(file.headers.get('x-content-type-options')).toBe('nosniff')
     expect(Buffer.from(await file.arrayBuffer()).equals(PDF_BYTES)).toBe(true)
-    await waitForMail(t.email, /^Order TW-\d+ placed/)
+    // The order's mails open with Tiltwright's header, greet the teacher and list the items.
+    const placed = await waitForMail(t.email, /^Order TW-\d+ placed/)
+    expect(placed.text.split('\n')[0]).toContain('Tiltwright')
+    expect(placed.text).toContain('Hello Teacher po,')
+    expect(placed.text).toContain(`${kit.name} × 6: ${formatCents(price.lines[0].lineTotalCents)}`)
     // Each admin is told, from the same transaction, that a purchase order waits for review.
     const review = await waitForMail(
       'admin@tiltwright.test',
@@ -81,6 +85,7 @@ describe('purchase-order checkout', () => {
     const approval = await waitForMail(t.email, /^Purchase order CH-2026-0417 approved$/)
     expect(approval.text).toMatch(/accepted your school's tax-exemption certificate/)
     expect(approval.text).toContain(formatCents(price.subtotalCents + price.shippingCents))
+    expect(approval.text).toContain(`${kit.name} × 6`)
     expect(a.body.invoice.number).toMatch(/^TWF-/)
     expect(a.body.purchaseOrder.status).toBe('approved')
     expect((await admin.post(`/api/admin/orders/${id}/approve`, {})).status).toBe(409)
@@ -113,7 +118,7 @@ describe('purchase-order checkout', () => {
       VENDOR.bank.accountNumber,
       VENDOR.taxId,
       'Due date',
-      formatDay(a.body.invoice.dueAt, 'long'),
+      formatDay(a.body.invoice.dueAt),
       'Online by card',
       'invented for this demonstration',
     ])

@@ -3,7 +3,7 @@
 import { request } from 'node:http'
 import { describe, expect, inject, it } from 'vitest'
 import { Client, uniqueEmail, type Reply } from '../helpers/client'
-import mysql from 'mysql2/promise'
+import { jobsSettled, sql } from '../helpers/db'
 import { linkIn, mailsTo, waitForMail, type Caught } from '../helpers/mail'
 
 const school = {
@@ -187,21 +187,16 @@ describe('reset links and mail limits', () => {
       await new Client().post('/api/auth/forgot-password', { email })
       const first = tokenOf(await waitForMail(email, /Reset your Tiltwright password/))
       await new Client().post('/api/auth/forgot-password', { email })
-      await new Promise(r => setTimeout(r, 1500))
+      await jobsSettled({ to: email })
       expect(await resetMails()).toHaveLength(1)
 
       // A minute later (the first link's clock set back), asking again sends a second link.
-      const conn = await mysql.createConnection({ uri: inject('dbUrl') })
-      try {
-        await conn.query(
-          `UPDATE auth_tokens t JOIN users u ON u.id = t.user_id
+      await sql(
+        `UPDATE auth_tokens t JOIN users u ON u.id = t.user_id
         SET t.created_at = t.created_at - INTERVAL 2 MINUTE
         WHERE u.email = ? AND t.purpose = 'reset-password'`,
-          [email],
-        )
-      } finally {
-        await conn.end()
-      }
+        [email],
+      )
       await new Client().post('/api/auth/forgot-password', { email })
       await expect.poll(async () => (await resetMails()).length, { timeout: 15_000 }).toBe(2)
       const second = tokenOf((await resetMails()).find(m => tokenOf(m) !== first)!)
@@ -241,7 +236,7 @@ describe('reset links and mail limits', () => {
       for (let i = 0; i < 3; i++)
         answers.push((await c.post('/api/auth/resend-verification')).body.sent)
       expect(answers).toEqual([true, true, false])
-      await new Promise(r => setTimeout(r, 1500))
+      await jobsSettled({ to: email })
       const confirms = (await mailsTo(email)).filter(m => /Confirm your e-mail/.test(m.subject))
       expect(confirms).toHaveLength(
         3,
@@ -263,7 +258,7 @@ describe('reset links and mail limits', () => {
         ),
       )
       await waitForMail(email, /already have a Tiltwright account/)
-      await new Promise(r => setTimeout(r, 1500))
+      await jobsSettled({ to: email })
       expect((await mailsTo(email)).filter(m => /already have/.test(m.subject))).toHaveLength(2)
     })
 })

@@ -43,6 +43,23 @@ describe('signing in through the page', () => {
     })
   }
 
+  it('fits every staff link on a phone, none cut off at the edge', async () => {
+    const context = await browser.newContext({ viewport: { width: 390, height: 844 } })
+    const page = await context.newPage()
+    await signInThroughPage(page, 'admin@tiltwright.test')
+    await gotoReady(page, '/staff')
+    const links = page.getByRole('navigation', { name: 'Staff' }).getByRole('link')
+    expect(await links.count()).toBeGreaterThanOrEqual(5)
+    for (const box of await links.evaluateAll(els =>
+      els.map(e => e.getBoundingClientRect()).map(r => ({ left: r.left, right: r.right })),
+    )) {
+      expect(box.left).toBeGreaterThanOrEqual(0)
+      expect(box.right).toBeLessThanOrEqual(390)
+    }
+    await page.screenshot({ path: 'tests/.artifacts/shell/staff-nav-phone.png' })
+    await context.close()
+  })
+
   it('signs out: the header and the session both forget the user', async () => {
     const context = await browser.newContext()
     const page = await context.newPage()

@@ -1,6 +1,7 @@
 // Always answers the same, and no sooner than a fixed time, whether or not the address has
 // an account, so neither the words nor the timing tell who has one.
 import { forgotPasswordSchema } from '../../../shared/schemas/auth'
+import { hoursInWords, LINK_LIFETIME_HOURS } from '../../../shared/utils/lifetimes'
 
 /** Longer than the slowest known-address path (a locked row, the quota, a token and a mail). */
 export const FORGOT_PASSWORD_FLOOR_MS = 600
@@ -15,6 +16,7 @@ export default defineEventHandler(async (event) => {
   )
   setResponseStatus(event, 202)
   return {
-    message: 'If an account uses that address, a reset link is on its way. It expires in 1 hour.',
+    message: 'If an account uses that address, a reset link is on its way. It expires in '
+      + `${hoursInWords(LINK_LIFETIME_HOURS.reset)}.`,
   }
 })

@@ -1,11 +1,11 @@
-// A teacher saves the cart as a formal quote: numbered, dated, valid 30 days, priced now and
-// e-mailed with its PDF. Stock is not reserved by a quote.
+// A teacher saves the cart as a formal quote: numbered, dated, valid QUOTE_VALID_DAYS days,
+// priced now and e-mailed with its PDF. Stock is not reserved by a quote.
 import { eq } from 'drizzle-orm'
 import { cartSchema } from '../../../shared/schemas/shop'
 import { addDays, QUOTE_VALID_DAYS } from '../../../shared/utils/pricing'
 import { quoteLines, quotes } from '../../database/schema'
 import { quoteIssuedMail } from '../../emails/shop'
-import { toDate } from '../../documents/pdf'
+import { formatDay } from '../../../shared/utils/dates'
 
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'teacher')
@@ -25,7 +25,7 @@ export default defineEventHandler(async (event) => {
     const [q] = await tx.select().from(quotes).where(eq(quotes.id, row!.id)).limit(1)
     const mail = quoteIssuedMail(
       user.name,
-      { number, totalCents: q!.totalCents, validUntil: toDate(validUntil) },
+      { number, totalCents: q!.totalCents, validUntil: formatDay(validUntil), lines: src.lines },
       appUrl(`/quotes/${q!.id}`),
     )
     await enqueueMail(tx, 'quote-issued', user.email, mail, [{ document: 'quote', quoteId: q!.id }])

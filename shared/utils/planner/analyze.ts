@@ -1,5 +1,5 @@
-// Checking a set of gains (DOMAIN.md §4): margins on the continuous loop with its 1.5·T delay,
-// exact stability of the sampled loop, and step metrics of the sampled loop.
+// Checking a set of gains (docs/planner.md §4): margins on the continuous loop with its 1.5·T
+// delay, exact stability of the sampled loop, and step metrics of the sampled loop.
 import { filterTimeConstant } from './design'
 import {
   analyzeFrequency,

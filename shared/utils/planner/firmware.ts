@@ -1,5 +1,5 @@
-// Firmware constants (DOMAIN.md §5). The firmware works in ADC counts in and servo degrees out,
-// so every gain is also given in those units: Kp°/count = Kp·(180/π)/k_s, b°/count likewise.
+// Firmware constants (docs/planner.md §5). The firmware works in ADC counts in and servo degrees
+// out, so every gain is also given in those units: Kp°/count = Kp·(180/π)/k_s, b°/count likewise.
 import { filterTimeConstant } from './design'
 import { fmt } from './format'
 import { beamAngleRange } from './geometry'

@@ -1,4 +1,4 @@
-// The Gain Planner model: pure TypeScript, SI units, no framework imports. See DOMAIN.md.
+// The Gain Planner model: pure TypeScript, SI units, no framework imports. See docs/planner.md.
 export * from './schema'
 export * from './plant'
 export * from './geometry'

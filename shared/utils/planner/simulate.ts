@@ -1,4 +1,4 @@
-// The drawn response (DOMAIN.md §4): a nonlinear simulation of the rig as built.
+// The drawn response (docs/planner.md §4): a nonlinear simulation of the rig as built.
 //   ball     x'' = eta·g·sin(alpha), stopped (inelastically) at the beam ends
 //   linkage  alpha(theta): exact lever geometry (default for a lever drive) or d/L_a·theta;
 //            theta/N_g direct

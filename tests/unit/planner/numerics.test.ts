@@ -75,8 +75,9 @@ describe('margins and step metrics equal the straightforward versions', () => {
     const plant = plantOf(rig)
     const f = analyzeFrequency(loopParamsOf(plant, gains))
     const ref = referenceMargins(loopParamsOf(plant, gains), 1e-3, 1e5)
-    // The reference takes DOMAIN's "minimum over phase crossovers" literally and lands on the
-    // low-frequency crossover, where |L| > 1: that is how far the gain may FALL.
+    // The reference takes "the smallest over the phase crossovers" (docs/planner.md §4)
+    // literally and lands on the low-frequency crossover, where |L| > 1: that is how far the
+    // gain may FALL.
     expect(f.nyquistStable).toBe(true)
     expect(f.gainReductionMarginDb!).toBeCloseTo(ref.gainMarginDb!, 6)
     expect(f.gainReductionMarginDb!).toBeLessThan(0)

@@ -3,6 +3,7 @@ import { randomBytes } from 'node:crypto'
 import { createStaffSchema } from '../../../../shared/schemas/staff'
 import { users } from '../../../database/schema'
 import { staffInvitationMail } from '../../../emails/staff'
+import { hoursToMs, LINK_LIFETIME_HOURS } from '../../../../shared/utils/lifetimes'
 
 export default defineEventHandler(async (event) => {
   const admin = await requireRole(event, 'admin')
@@ -21,8 +22,9 @@ export default defineEventHandler(async (event) => {
           3600,
         )
       }
-      // The invitation is a password-setting link that lives 3 days, not a reset's 1 hour.
-      const token = await issueToken(tx, row!.id, 'reset-password', 3 * 24 * 3600_000)
+      // The invitation is a password-setting link that lives longer than a reset's.
+      const lifetime = hoursToMs(LINK_LIFETIME_HOURS.invitation)
+      const token = await issueToken(tx, row!.id, 'reset-password', lifetime)
       await enqueueMail(
         tx,
         'staff-invitation',

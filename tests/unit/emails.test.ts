@@ -1,0 +1,155 @@
+// The e-mail renderer and every mail Tiltwright sends: the header, the greeting by name, the
+// order's items, the lifetimes and terms read from their constants, and colours only from the
+// palette.
+import { readdirSync, readFileSync } from 'node:fs'
+import { join } from 'node:path'
+import { describe, expect, it } from 'vitest'
+import * as account from '../../server/emails/account'
+import { MAIL_BRAND, renderMail, type RenderedMail } from '../../server/emails/layout'
+import * as shop from '../../server/emails/shop'
+import { staffInvitationMail } from '../../server/emails/staff'
+import { hoursInWords, LINK_LIFETIME_HOURS } from '../../shared/utils/lifetimes'
+import { palette } from '../../shared/utils/palette'
+import { INVOICE_NET_DAYS } from '../../shared/utils/pricing'
+
+const lines = [
+  { name: 'Classroom Rig Kit', quantity: 12, lineTotalCents: 29_400 },
+  { name: 'Spare steel balls <19 mm>', quantity: 3, lineTotalCents: 450 },
+]
+const url = 'https://shop.example/orders/7'
+const order = { number: 'TW-2026-0007', totalCents: 29_850, lines }
+const po = { ...order, poNumber: 'PO-55' }
+const invoice = { ...po, invoiceNumber: 'INV-9', dueAt: 'Jan 1, 2027' }
+const name = 'Dana Ferrow'
+
+/** Every order or quote mail, rendered for Dana (or for accounts payable where no name). */
+const orderMails: Record<string, RenderedMail> = {
+  quoteIssued: shop.quoteIssuedMail(name, { ...order, validUntil: 'Jan 1, 2027' }, url),
+  orderPlaced: shop.orderPlacedMail(name, { ...order, method: 'purchase-order' }, url),
+  poReview: shop.poReviewMail(name, { ...po, schoolName: 'Wrenfield Middle School' }, url),
+  poApproved: shop.poApprovedMail(name, { ...po, exemptionAccepted: true }, url),
+  poRejected: shop.poRejectedMail(name, { ...po, reason: 'Unsigned.' }, url, {
+    label: 'Send a corrected purchase order',
+    url: `${url}/again`,
+  }),
+  invoiceIssued: shop.invoiceIssuedMail(invoice, 'https://pay.example/i/9', name),
+  paymentReceived: shop.paymentReceivedMail(name, order, url),
+  shipped: shop.shippedMail(name, { ...order, carrier: 'UPS', tracking: '1Z 999' }, url),
+  orderCancelled: shop.orderCancelledMail(name, { ...order, reason: 'Ordered twice.' }, url),
+  invoiceVoided: shop.invoiceVoidedMail({ ...invoice, reason: 'Ordered twice.' }, name),
+  paymentRefunded: shop.paymentRefundedMail(
+    name,
+    { ...order, amountCents: 29_850, status: 'cancelled' },
+    url,
+  ),
+}
+
+const accountMails: Record<string, RenderedMail> = {
+  verification: account.verificationMail(name, url),
+  passwordReset: account.passwordResetMail(name, url),
+  passwordChanged: account.passwordChangedMail(name),
+  accountExists: account.accountExistsMail(name, url, url),
+  staffInvitation: staffInvitationMail(name, 'Marcus Teel', 'support', url),
+}
+
+const allMails = { ...orderMails, ...accountMails }
+
+describe('every e-mail', () => {
+  it('covers every mail the shop module exports', () => {
+    const renderers = Object.entries(shop).filter(([, v]) => typeof v === 'function')
+    expect(renderers.map(([k]) => k.replace(/Mail$/, '')).sort())
+      .toEqual(Object.keys(orderMails).sort())
+  })
+
+  it.each(Object.entries(allMails))('%s carries the Tiltwright header', (_, mail) => {
+    expect(mail.text.split('\n')[0]).toContain(MAIL_BRAND)
+    // The header block comes before the greeting in the HTML body.
+    const header = mail.html.indexOf(`>${MAIL_BRAND}</span>`)
+    expect(header).toBeGreaterThan(mail.html.indexOf('<body'))
+    expect(header).toBeLessThan(mail.html.indexOf('Hello '))
+  })
+
+  it.each(Object.entries(allMails))('%s greets the person by name', (_, mail) => {
+    expect(mail.text).toContain(`\nHello ${name},\n`)
+    expect(mail.html).toContain(`<p>Hello ${name},</p>`)
+  })
+
+  it.each(Object.entries(orderMails))('%s lists the items with quantity and total', (_, mail) => {
+    expect(mail.text).toContain('- Classroom Rig Kit × 12: $294.00')
+    expect(mail.text).toContain('- Spare steel balls <19 mm> × 3: $4.50')
+    const row = /<td[^>]*>Classroom Rig Kit<\/td><td[^>]*>12<\/td><td[^>]*>\$294\.00</
+    expect(mail.html).toMatch(row)
+    expect(mail.html).toContain('Spare steel balls &lt;19 mm&gt;')
+    expect(mail.html).not.toContain('<19 mm>')
+  })
+
+  it.each(Object.entries(allMails))('%s uses colours from the palette only', (_, mail) => {
+    const ours = new Set(
+      Object.values(palette).flatMap(shades => Object.values(shades).map(c => c.toLowerCase())),
+    )
+    const used = mail.html.match(/#[0-9a-f]{3,8}\b/gi) ?? []
+    expect(used.length).toBeGreaterThan(0)
+    for (const c of used) expect(ours).toContain(c.toLowerCase())
+    expect(mail.html).not.toMatch(/rgba?\(|hsla?\(/)
+  })
+})
+
+describe('accounts payable', () => {
+  it('is greeted as such when no name is known', () => {
+    const mail = shop.invoiceIssuedMail(invoice, null)
+    expect(mail.text).toContain('\nHello accounts payable,\n')
+    expect(mail.text).toContain('Classroom Rig Kit × 12')
+  })
+})
+
+describe('numbers come from their constants', () => {
+  it('says each link lifetime in words', () => {
+    expect(hoursInWords(1)).toBe('1 hour')
+    expect(hoursInWords(48)).toBe('48 hours')
+    expect(hoursInWords(72)).toBe('3 days')
+    const reset = `expires in ${hoursInWords(LINK_LIFETIME_HOURS.reset)}.`
+    expect(accountMails.passwordReset!.text).toContain(reset)
+    const confirm = `expires in ${hoursInWords(LINK_LIFETIME_HOURS.confirmation)}.`
+    expect(accountMails.verification!.text).toContain(confirm)
+    const invite = `expires in ${hoursInWords(LINK_LIFETIME_HOURS.invitation)}.`
+    expect(accountMails.staffInvitation!.text).toContain(invite)
+  })
+
+  it('states the net terms of INVOICE_NET_DAYS', () => {
+    expect(orderMails.invoiceIssued!.text).toContain(`(net ${INVOICE_NET_DAYS})`)
+    expect(orderMails.quoteIssued!.text).toContain(`net ${INVOICE_NET_DAYS} terms`)
+    for (const mail of Object.values(allMails)) expect(mail.text).not.toMatch(/net-\d/)
+  })
+})
+
+describe('renderMail', () => {
+  it('escapes what it is given in the HTML and keeps the text part plain', () => {
+    const mail = renderMail('Subject', 'Ann <b>', [
+      { paragraph: 'a & b' },
+      { link: { label: 'Go "now"', url: 'https://x.example/?a=1&b=2' } },
+      { items: [] },
+    ])
+    expect(mail.html).toContain('<p>Hello Ann &lt;b&gt;,</p>')
+    expect(mail.html).toContain('<p>a &amp; b</p>')
+    expect(mail.html).toContain('href="https://x.example/?a=1&amp;b=2"')
+    expect(mail.html).not.toContain('<table')
+    expect(mail.text).toContain('Go "now": https://x.example/?a=1&b=2')
+    expect(mail.text).not.toContain('Items:')
+  })
+})
+
+describe('colour literals', () => {
+  // The mails and the PDFs take every colour from shared/utils/palette.ts.
+  const sources = (dir: string) =>
+    readdirSync(dir, { recursive: true, encoding: 'utf8' })
+      .filter(f => f.endsWith('.ts'))
+      .map(f => join(dir, f))
+  it.each([...sources('server/emails'), ...sources('server/documents')])(
+    '%s has none of its own',
+    (file) => {
+      const text = readFileSync(file, 'utf8')
+      expect(text).not.toMatch(/['"`(:,\s]#[0-9a-f]{3,8}\b/i)
+      expect(text).not.toMatch(/rgba?\(|hsla?\(/)
+    },
+  )
+})
