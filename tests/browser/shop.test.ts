@@ -118,7 +118,7 @@ describe('buying in the browser', () => {
       await admin.getByText('Approved; the invoice was issued').waitFor()
       await admin.getByRole('button', { name: 'Allocate for packing' }).click()
       await admin.getByText('Units allocated for packing.').waitFor()
-      await admin.getByLabel('Carrier').fill('Ridgeline Freight')
+      await admin.getByLabel('Carrier').selectOption({ label: 'UPS' })
       await admin.getByLabel('Tracking number').fill('RF 5555 0101')
       await admin.getByRole('button', { name: 'Record the shipment' }).click()
       await admin.getByText('Shipment recorded').waitFor()
