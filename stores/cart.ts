@@ -30,10 +30,6 @@ export const useCartStore = defineStore('cart', () => {
       lines.value = savedLines(saved)
     },
   )
-  /** The store reads its saved copy as it is created; kept for pages that ask for it. */
-  const restored = ref(true)
-  function restore() {}
-
   function add(productId: number, quantity: number) {
     const line = lines.value.find(l => l.productId === productId)
     if (line) line.quantity += quantity
@@ -70,8 +66,6 @@ export const useCartStore = defineStore('cart', () => {
 
   return {
     lines,
-    restored,
-    restore,
     add,
     setQuantity,
     remove,

@@ -2,7 +2,7 @@
 // so a cookie copied before a sign-out, a password change or a reset stops working at once.
 import { sql } from '../helpers/db'
 import { describe, expect, it } from 'vitest'
-import { Client, uniqueEmail } from '../helpers/client'
+import { Client, registerAccount } from '../helpers/client'
 import { linkIn, waitForMail } from '../helpers/mail'
 
 const school = {
@@ -13,20 +13,8 @@ const school = {
   postalCode: '97001',
 }
 
-async function newAccount(tag: string, password = 'first-password-1') {
-  const email = uniqueEmail(tag)
-  expect(
-    (
-      await new Client().post('/api/auth/register', {
-        name: `Owner ${tag}`,
-        email,
-        password,
-        school,
-      })
-    ).status,
-  ).toBe(201)
-  return email
-}
+const newAccount = (tag: string, password = 'first-password-1') =>
+  registerAccount(tag, password, school)
 
 async function signedIn(email: string, password = 'first-password-1') {
   const c = new Client()

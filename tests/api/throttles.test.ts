@@ -2,7 +2,7 @@
 // turned against the account's owner or their school.
 import { request } from 'node:http'
 import { describe, expect, inject, it } from 'vitest'
-import { Client, uniqueEmail, type Reply } from '../helpers/client'
+import { Client, registerAccount, uniqueEmail, type Reply } from '../helpers/client'
 import { jobsSettled, sql } from '../helpers/db'
 import { linkIn, mailsTo, waitForMail, type Caught } from '../helpers/mail'
 
@@ -14,20 +14,8 @@ const school = {
   postalCode: '97002',
 }
 
-async function newAccount(tag: string, password = 'the-right-password') {
-  const email = uniqueEmail(tag)
-  expect(
-    (
-      await new Client().post('/api/auth/register', {
-        name: `Owner ${tag}`,
-        email,
-        password,
-        school,
-      })
-    ).status,
-  ).toBe(201)
-  return email
-}
+const newAccount = (tag: string, password = 'the-right-password') =>
+  registerAccount(tag, password, school)
 
 /** A browser behind the reverse proxy at 127.0.0.2 (trusted by the test server). The proxy
  *  appends the address it saw; whatever the browser itself claimed stands to the left. */

@@ -1,6 +1,6 @@
 // A small HTTP client for API tests: keeps cookies like a browser, fetches the CSRF
 // token the way a page does (from the rendered meta tag), and returns status + JSON.
-import { inject } from 'vitest'
+import { expect, inject } from 'vitest'
 
 export interface Reply<T = any> {
   status: number
@@ -125,3 +125,25 @@ export class Client {
 
 export const uniqueEmail = (tag: string) =>
   `${tag}-${Date.now().toString(36)}-${Math.random().toString(36).slice(2, 7)}@school.test`
+
+/** A school as the register form sends it. */
+export interface SchoolForm {
+  name: string
+  addressLine1: string
+  city: string
+  region: string
+  postalCode: string
+}
+
+/** Registers a (not yet confirmed) teacher of `school` under a fresh address; returns it. */
+export async function registerAccount(tag: string, password: string, school: SchoolForm) {
+  const email = uniqueEmail(tag)
+  const r = await new Client().post('/api/auth/register', {
+    name: `Owner ${tag}`,
+    email,
+    password,
+    school,
+  })
+  expect(r.status).toBe(201)
+  return email
+}
