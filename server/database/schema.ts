@@ -28,6 +28,9 @@ import {
   varchar,
 } from 'drizzle-orm/mysql-core'
 import type { PostalAddress } from '../../shared/schemas/address'
+import type { MeasuredRun, RigCalibration } from '../../shared/schemas/build'
+import type { Rig } from '../../shared/utils/planner/schema'
+import { CHECKLIST_STEPS, SHEET_VERDICTS } from '../../shared/utils/build'
 
 const id = () => bigint('id', { mode: 'number', unsigned: true }).autoincrement().primaryKey()
 const ref = (name: string) => bigint(name, { mode: 'number', unsigned: true })
@@ -54,7 +57,10 @@ export const users = mysqlTable(
   'users',
   {
     id: id(),
-    email: varchar('email', { length: 254 }).notNull(),
+    /** Null for a builder who joined with a code: students need no e-mail address. */
+    email: varchar('email', { length: 254 }),
+    /** A builder's sign-in name (lower case); null for e-mail accounts. */
+    username: varchar('username', { length: 40 }),
     name: varchar('name', { length: 120 }).notNull(),
     passwordHash: varchar('password_hash', { length: 255 }).notNull(),
     role: mysqlEnum('role', ROLES).notNull(),
@@ -65,7 +71,11 @@ export const users = mysqlTable(
     lastSignInAt: datetime('last_sign_in_at', { mode: 'date', fsp: 3 }),
     createdAt: createdAt(),
   },
-  t => [uniqueIndex('users_email_unique').on(t.email), index('users_school_idx').on(t.schoolId)],
+  t => [
+    uniqueIndex('users_email_unique').on(t.email),
+    uniqueIndex('users_username_unique').on(t.username),
+    index('users_school_idx').on(t.schoolId),
+  ],
 )
 
 /** Single-use, expiring tokens for e-mail verification and password reset; only a hash is kept. */
@@ -207,6 +217,10 @@ export const tuningSheets = mysqlTable(
     rigId: ref('rig_id'),
     title: varchar('title', { length: 120 }).notNull(),
     note: text('note'),
+    /** How the real rig behaved with these gains, in the builder's judgement. */
+    verdict: mysqlEnum('verdict', SHEET_VERDICTS),
+    /** What the builder measured on the real rig, if anything (shared/schemas/build.ts). */
+    measured: json('measured').$type<MeasuredRun>(),
     inputs: json('inputs').$type<Record<string, unknown>>().notNull(),
     results: json('results').$type<Record<string, unknown>>().notNull(),
     archived: boolean('archived').notNull().default(false),
@@ -533,4 +547,103 @@ export const fakePaymentObjects = mysqlTable(
     createdAt: createdAt(),
   },
   t => [index('fake_payment_objects_type_idx').on(t.type, t.createdAt)],
+)
+
+// ── Build spaces: a paid order's kits become rigs that its students build and tune ─────────
+// The build space of an order is its rigs, its join codes and its members; it opens when the
+// order is paid or its purchase order approved (server/utils/build-spaces.ts).
+
+/** One kit unit of an order, as the class builds it. */
+export const rigs = mysqlTable(
+  'rigs',
+  {
+    id: id(),
+    orderId: ref('order_id')
+      .notNull()
+      .references(() => orders.id),
+    /** Printed on the kit's label: the order number and the unit ("T-2611-0004-03"). */
+    serial: varchar('serial', { length: 40 }).notNull(),
+    /** The teacher's name for it; the serial when not set. */
+    name: varchar('name', { length: 60 }),
+    /** The teacher's grouping, such as "Bench 3" or "Period 2". */
+    groupLabel: varchar('group_label', { length: 40 }),
+    retiredAt: datetime('retired_at', { mode: 'date', fsp: 3 }),
+    /** The rig as measured, in the planner's SI units; null until someone saves it. */
+    dimensions: json('dimensions').$type<Rig>(),
+    dimensionsUpdatedAt: datetime('dimensions_updated_at', { mode: 'date', fsp: 3 }),
+    /** The rail sensor's calibration readings and fit; null until calibrated. */
+    calibration: json('calibration').$type<RigCalibration>(),
+    calibratedAt: datetime('calibrated_at', { mode: 'date', fsp: 3 }),
+    /** The last tick, note, sheet or measurement on this rig. */
+    lastActivityAt: datetime('last_activity_at', { mode: 'date', fsp: 3 }),
+    createdAt: createdAt(),
+  },
+  t => [uniqueIndex('rigs_serial_unique').on(t.serial), index('rigs_order_idx').on(t.orderId)],
+)
+
+/** A rig's build checklist: one row per step that someone has touched. */
+export const rigSteps = mysqlTable(
+  'rig_steps',
+  {
+    id: id(),
+    rigId: ref('rig_id')
+      .notNull()
+      .references(() => rigs.id),
+    step: mysqlEnum('step', CHECKLIST_STEPS).notNull(),
+    doneAt: datetime('done_at', { mode: 'date', fsp: 3 }),
+    doneById: ref('done_by_id'),
+    note: varchar('note', { length: 300 }),
+    updatedById: ref('updated_by_id'),
+    updatedAt: datetime('updated_at', { mode: 'date', fsp: 3 })
+      .notNull()
+      .default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  t => [uniqueIndex('rig_steps_rig_step_unique').on(t.rigId, t.step)],
+)
+
+/** Who belongs to an order's build space, and the rig each builder works on. */
+export const buildMembers = mysqlTable(
+  'build_members',
+  {
+    id: id(),
+    orderId: ref('order_id')
+      .notNull()
+      .references(() => orders.id),
+    userId: ref('user_id')
+      .notNull()
+      .references(() => users.id),
+    rigId: ref('rig_id'),
+    joinCodeId: ref('join_code_id'),
+    joinedAt: createdAt(),
+  },
+  t => [
+    uniqueIndex('build_members_order_user_unique').on(t.orderId, t.userId),
+    index('build_members_user_idx').on(t.userId),
+    index('build_members_rig_idx').on(t.rigId),
+  ],
+)
+
+/** A code a teacher hands the class to join the build space. Kept readable: the teacher shows it
+ *  again on the projector; it is short-lived, can be limited in uses and revoked. */
+export const joinCodes = mysqlTable(
+  'join_codes',
+  {
+    id: id(),
+    orderId: ref('order_id')
+      .notNull()
+      .references(() => orders.id),
+    code: varchar('code', { length: 16 }).notNull(),
+    expiresAt: datetime('expires_at', { mode: 'date', fsp: 3 }).notNull(),
+    maxUses: int('max_uses'),
+    uses: int('uses').notNull().default(0),
+    revokedAt: datetime('revoked_at', { mode: 'date', fsp: 3 }),
+    createdById: ref('created_by_id')
+      .notNull()
+      .references(() => users.id),
+    createdAt: createdAt(),
+  },
+  t => [
+    uniqueIndex('join_codes_code_unique').on(t.code),
+    index('join_codes_order_idx').on(t.orderId),
+  ],
 )

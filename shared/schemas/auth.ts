@@ -38,12 +38,24 @@ export const registerSchema = z.object({
   school: schoolSchema,
 })
 
+/** Teachers and staff sign in with their e-mail address, builders with their username (a page
+ *  with one field sends `username` when what was typed has no @). */
 export const loginSchema = z.object({
-  email,
+  email: email.optional(),
+  username: z
+    .string({ error: 'Enter your username.' })
+    .trim()
+    .toLowerCase()
+    .min(1, 'Enter your username.')
+    .max(40, 'That username is too long.')
+    .optional(),
   password: z
     .string({ error: 'Enter your password.' })
     .min(1, 'Enter your password.')
     .max(200, 'That password is too long.'),
+}).superRefine((v, ctx) => {
+  if (!v.email && !v.username)
+    ctx.addIssue({ code: 'custom', path: ['email'], message: 'Enter your e-mail or username.' })
 })
 
 export const forgotPasswordSchema = z.object({ email })

@@ -2,6 +2,7 @@
 // rig / targets / gains schemas (shared/utils/planner/schema.ts).
 import { z } from 'zod'
 import { gainsSchema, rigSchema, targetsSchema } from '../utils/planner/schema'
+import { measuredRunSchema, sheetVerdictField } from './build'
 import { multiLine, plainId, singleLine } from './text'
 
 export const planRequestSchema = z.object({ rig: rigSchema, targets: targetsSchema })
@@ -37,12 +38,17 @@ export const createSheetSchema = z.object({
   note,
   rigId: plainId('Choose a rig.').optional(),
   inputs: sheetInputsSchema,
+  /** How the real rig behaved, and what was measured on it (docs/build.md). */
+  verdict: sheetVerdictField.nullish(),
+  measured: measuredRunSchema.nullish(),
 })
 
 /** A rename sends only the title: a note left out stays as it is; null or "" clears it. */
 export const updateSheetSchema = z.object({
   title: title.optional(),
   note: noteText.nullish().transform(v => (v === undefined ? undefined : v || null)),
+  verdict: sheetVerdictField.nullish(),
+  measured: measuredRunSchema.nullish(),
 })
 
 /** Tiltwright's tuning-sheet file (see README, "Tuning-sheet files"). */

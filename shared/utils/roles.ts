@@ -8,7 +8,10 @@ export type StaffRole = (typeof STAFF_ROLES)[number]
 
 export interface SessionUser {
   id: number
-  email: string
+  /** Null for a builder who joined with a code (no e-mail address is asked of students). */
+  email: string | null
+  /** A builder's sign-in name; null for e-mail accounts. */
+  username: string | null
   name: string
   role: Role
   schoolId: number | null
