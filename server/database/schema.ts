@@ -561,7 +561,7 @@ export const rigs = mysqlTable(
     orderId: ref('order_id')
       .notNull()
       .references(() => orders.id),
-    /** Printed on the kit's label: the order number and the unit ("T-2611-0004-03"). */
+    /** Printed on the kit's label: the order number and the unit ("TW-10007-03"). */
     serial: varchar('serial', { length: 40 }).notNull(),
     /** The teacher's name for it; the serial when not set. */
     name: varchar('name', { length: 60 }),

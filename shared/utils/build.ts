@@ -93,6 +93,10 @@ export const formatJoinCode = (code: string) => `${code.slice(0, 4)}-${code.slic
 /** The code as stored: upper case, without spaces or dashes. */
 export const normaliseJoinCode = (typed: string) => typed.toUpperCase().replace(/[\s-]/g, '')
 
+/** A rig's serial number: its order's number and the unit, two digits ("TW-10007-03"). */
+export const rigSerial = (orderNumber: string, unit: number) =>
+  `${orderNumber}-${String(unit).padStart(2, '0')}`
+
 /** Builder usernames: lower-case letters, digits and dashes. */
 export const USERNAME_PATTERN = /^[a-z][a-z0-9-]{2,29}$/
 
