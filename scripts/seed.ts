@@ -7,6 +7,7 @@ import { Hash } from '@adonisjs/hash'
 import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
 import * as schema from '../server/database/schema'
 import { DEMO_CATALOG } from './demo-catalog'
+import { seedDemoBuild } from './demo-build'
 
 export const DEMO_PASSWORD = 'tiltwright-demo'
 
@@ -20,7 +21,8 @@ export const DEMO_ACCOUNTS = [
 /**
  * Seeds the demo scenario into what is empty: the school and its people when there are no users,
  * the catalog when there are no products (so a data folder from before the shop still gets
- * one). Returns what it seeded.
+ * one). With the people come the teacher's paid order and its build space (scripts/demo-build.ts).
+ * Returns what it seeded.
  */
 export async function seedDemo(url: string): Promise<{ people: boolean, catalog: boolean }> {
   const conn = await mysql.createConnection({ uri: url })
@@ -32,6 +34,8 @@ export async function seedDemo(url: string): Promise<{ people: boolean, catalog:
     // The same scrypt driver and defaults that nuxt-auth-utils' hashPassword uses.
     const passwordHash = seeded.people ? await new Hash(new Scrypt({})).make(DEMO_PASSWORD) : ''
     await db.transaction(async (tx) => {
+      const people = new Map<string, { id: number, name: string }>()
+      let schoolId = 0
       if (seeded.people) {
         const [school] = await tx
           .insert(schema.schools)
@@ -46,9 +50,10 @@ export async function seedDemo(url: string): Promise<{ people: boolean, catalog:
             taxExemption: 'accepted',
           })
           .$returningId()
+        schoolId = school!.id
         for (const a of DEMO_ACCOUNTS) {
           const customer = a.role === 'teacher' || a.role === 'builder'
-          await tx
+          const [user] = await tx
             .insert(schema.users)
             .values({
               ...a,
@@ -56,6 +61,8 @@ export async function seedDemo(url: string): Promise<{ people: boolean, catalog:
               schoolId: customer ? school!.id : null,
               verifiedAt: new Date(),
             })
+            .$returningId()
+          people.set(a.role, { id: user!.id, name: a.name })
         }
       }
       if (seeded.catalog) {
@@ -85,6 +92,14 @@ export async function seedDemo(url: string): Promise<{ people: boolean, catalog:
               })),
             )
         }
+      }
+      if (seeded.people) {
+        await seedDemoBuild(tx, {
+          schoolId,
+          teacher: people.get('teacher')!,
+          builder: people.get('builder')!,
+          passwordHash,
+        })
       }
     })
     return seeded

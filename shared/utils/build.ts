@@ -148,8 +148,10 @@ export function currentStepSince(
 ): Date | null {
   const { current } = rigProgress(steps)
   if (!current) return null
+  // A step ticked ahead of the current one does not move the rig on.
+  const before = new Set(CHECKLIST_STEPS.slice(0, CHECKLIST_STEPS.indexOf(current)))
   const ticks = steps
-    .filter(s => s.doneAt)
+    .filter(s => s.doneAt && before.has(s.step))
     .map(s => new Date(s.doneAt!).getTime())
   return new Date(Math.max(new Date(openedAt).getTime(), ...ticks))
 }
@@ -219,15 +221,17 @@ export function boardRows<R extends BoardSortable>(rows: readonly R[], query: Bo
     group: r => (r.groupLabel ?? '\uffff').toLowerCase(),
     progress: r => r.done,
     activity: r => time(r.lastActivityAt),
-    // A rig that is not stuck sorts after every stuck one, oldest first when ascending.
-    stuck: r => (r.stuck ? time(r.currentSince) : Number.MAX_SAFE_INTEGER),
+    stuck: r => (r.stuck ? time(r.currentSince) : 0),
   }
   const k = key[query.sort]
   const sign = query.dir === 'desc' ? -1 : 1
+  // By "stuck", a rig that is not stuck sorts after every stuck one in either direction; the
+  // stuck ones come oldest first when ascending.
+  const apart = (r: R) => (query.sort === 'stuck' && !r.stuck ? 1 : 0)
   return [...kept].sort((a, b) => {
     const ka = k(a)
     const kb = k(b)
     const c = ka < kb ? -1 : ka > kb ? 1 : 0
-    return c * sign || a.serial.localeCompare(b.serial)
+    return apart(a) - apart(b) || c * sign || a.serial.localeCompare(b.serial)
   })
 }
