@@ -11,11 +11,27 @@ export async function findUserByEmail(tx: DbOrTx, email: string) {
   return row
 }
 
+/** A builder's sign-in name finds their account (usernames are stored in lower case). */
+export async function findUserByUsername(tx: DbOrTx, username: string) {
+  const [row] = await tx.select().from(users).where(eq(users.username, username)).limit(1)
+  return row
+}
+
+/**
+ * The address to write to. Teachers and staff always have one; a builder who joined with a
+ * code has none, and nothing mails them: reaching this for such an account is a bug.
+ */
+export function mailAddressOf(user: { id?: number, email: string | null }): string {
+  if (!user.email)
+    throw new Error(`Account ${user.id ?? '?'} has no e-mail address: builders get no mail.`)
+  return user.email
+}
+
 export function appUrl(path: string) {
   return new URL(path, useRuntimeConfig().publicUrl).toString()
 }
 
-type MailUser = { id: number, name: string, email: string }
+type MailUser = { id: number, name: string, email: string | null }
 
 /** Locks the user's row for the rest of the transaction: one account mail at a time per person. */
 export async function lockUser(tx: DbOrTx, userId: number) {
@@ -27,12 +43,13 @@ export async function lockUser(tx: DbOrTx, userId: number) {
  */
 export async function sendVerification(tx: DbOrTx, user: MailUser): Promise<boolean> {
   await lockUser(tx, user.id)
-  if (!(await takeMailQuota(tx, 'verify-email', user.email))) return false
+  const to = mailAddressOf(user)
+  if (!(await takeMailQuota(tx, 'verify-email', to))) return false
   const token = await issueToken(tx, user.id, 'verify-email')
   await enqueueMail(
     tx,
     'verify-email',
-    user.email,
+    to,
     verificationMail(user.name, appUrl(`/verify-email?token=${token}`)),
   )
   return true
@@ -53,12 +70,13 @@ export async function sendPasswordReset(tx: DbOrTx, user: MailUser): Promise<boo
       ),
     )
     .limit(1)
-  if (recent || !(await takeMailQuota(tx, 'reset-password', user.email))) return false
+  const to = mailAddressOf(user)
+  if (recent || !(await takeMailQuota(tx, 'reset-password', to))) return false
   const token = await issueToken(tx, user.id, 'reset-password')
   await enqueueMail(
     tx,
     'reset-password',
-    user.email,
+    to,
     passwordResetMail(user.name, appUrl(`/reset-password/${token}`)),
   )
   return true
@@ -69,11 +87,12 @@ export async function sendPasswordReset(tx: DbOrTx, user: MailUser): Promise<boo
  */
 export async function sendAccountExists(tx: DbOrTx, user: MailUser) {
   await lockUser(tx, user.id)
-  if (!(await takeMailQuota(tx, 'account-exists', user.email))) return
+  const to = mailAddressOf(user)
+  if (!(await takeMailQuota(tx, 'account-exists', to))) return
   await enqueueMail(
     tx,
     'account-exists',
-    user.email,
+    to,
     accountExistsMail(user.name, appUrl('/login'), appUrl('/forgot-password')),
   )
 }

@@ -9,6 +9,7 @@ export function toSessionUser(row: typeof users.$inferSelect): SessionUser {
   return {
     id: row.id,
     email: row.email,
+    username: row.username,
     name: row.name,
     role: row.role,
     schoolId: row.schoolId ?? null,

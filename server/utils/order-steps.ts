@@ -358,7 +358,7 @@ export async function placePurchaseOrder(
     await enqueueMail(
       tx,
       'order-placed',
-      user.email,
+      mailAddressOf(user),
       orderPlacedMail(user.name, placed, orderUrl(order.id)),
     )
     const admins = await tx
@@ -376,7 +376,7 @@ export async function placePurchaseOrder(
       await enqueueMail(
         tx,
         'po-review',
-        a.email,
+        mailAddressOf(a),
         poReviewMail(a.name, review, appUrl(`/admin/orders/${order.id}`)),
       )
     }
@@ -455,6 +455,7 @@ export async function approvePurchaseOrder(
       buyer.email,
       poApprovedMail(buyer.name, approval, orderUrl(orderId)),
     )
+    await openBuildSpace(tx, orderId)
     await audit(tx, {
       actorId: admin.id,
       action: 'order.po-approved',
@@ -698,6 +699,8 @@ async function settle(
   await enqueueMail(tx, 'payment-received', buyer.email, mail, [
     { document: 'receipt', orderId: order.id },
   ])
+  // Its kits become rigs for the class (nothing new when a purchase order opened them).
+  await openBuildSpace(tx, order.id)
   return true
 }
 

@@ -282,7 +282,9 @@ export async function orderPeople(db: DbOrTx, order: OrderRow) {
     .from(purchaseOrders)
     .where(eq(purchaseOrders.orderId, order.id))
     .limit(1)
-  return { school: row!.school, buyer: row!.buyer, po, lines: await linesOf(db, order.id) }
+  // The buyer is a teacher, who always has an address.
+  const buyer = { name: row!.buyer.name, email: mailAddressOf(row!.buyer) }
+  return { school: row!.school, buyer, po, lines: await linesOf(db, order.id) }
 }
 
 export const linesOf = (db: DbOrTx, orderId: number) =>
@@ -420,6 +422,7 @@ export async function orderView(
     refundedAt: order.refundedAt?.toISOString() ?? null,
     invoiceVoided: !!order.invoiceVoidedAt,
     wayBack: canSeeOrderDocuments(user, order) ? await wayBackForOrder(db, order, people.po) : null,
+    buildSpace: await buildSpaceOf(db, order),
   }
 }
 

@@ -6,7 +6,7 @@
 import type { H3Event } from 'h3'
 import { and, eq } from 'drizzle-orm'
 import { clientAddress, parseTrustedProxies } from '../../shared/utils/client-address'
-import { delayAfter, THROTTLE } from '../../shared/utils/sign-in-rules'
+import { delayAfter, THROTTLE, type ThrottleRules } from '../../shared/utils/sign-in-rules'
 import { signInThrottles } from '../database/schema'
 
 /**
@@ -24,8 +24,21 @@ export function requestAddress(event: H3Event): string {
 const pair = (email: string, address: string) =>
   and(eq(signInThrottles.email, email), eq(signInThrottles.address, address))
 
-/** Counts one attempt for the pair, or answers 429 (with Retry-After) while it must wait. */
-export async function claimSignInAttempt(event: H3Event, email: string, address: string) {
+const signInWait = (when: string) =>
+  `Too many failed sign-ins from here. Try again in ${when}, or reset your password.`
+
+/**
+ * Counts one attempt for the pair, or answers 429 (with Retry-After) while it must wait. `email`
+ * is the sign-in name (an address or a username), or a fixed key such as JOIN_CODE_KEY for
+ * guesses that belong to no account.
+ */
+export async function claimSignInAttempt(
+  event: H3Event,
+  email: string,
+  address: string,
+  rules: ThrottleRules = THROTTLE,
+  waitMessage: (when: string) => string = signInWait,
+) {
   const db = useDb()
   // The row exists before the locking read, so the lock is a plain row lock (no gap-lock
   // deadlocks).
@@ -35,8 +48,9 @@ export async function claimSignInAttempt(event: H3Event, email: string, address:
     const now = Date.now()
     const wait = row ? row.nextAttemptAt.getTime() - now : 0
     if (wait > 0) return wait
-    const attempts = (row?.attempts ?? 0) + 1
-    const nextAttemptAt = new Date(now + delayAfter(attempts))
+    const fresh = !row || now - row.updatedAt.getTime() > rules.forgetAfterMs
+    const attempts = (fresh ? 0 : row.attempts) + 1
+    const nextAttemptAt = new Date(now + delayAfter(attempts, rules))
     await tx
       .update(signInThrottles)
       .set({ attempts, nextAttemptAt, updatedAt: new Date(now) })
@@ -47,11 +61,25 @@ export async function claimSignInAttempt(event: H3Event, email: string, address:
     const retry = Math.ceil(waitMs / 1000)
     setResponseHeader(event, 'Retry-After', retry)
     const when = retry < 90 ? `${retry} seconds` : `${Math.ceil(retry / 60)} minutes`
-    throw tooManyRequests(
-      `Too many failed sign-ins from here. Try again in ${when}, or reset your password.`,
-      retry,
-    )
+    throw tooManyRequests(waitMessage(when), retry)
   }
+}
+
+/** An attempt that turned out right is given back (join codes: only wrong ones count). */
+export async function refundSignInAttempt(
+  email: string,
+  address: string,
+  rules: ThrottleRules = THROTTLE,
+) {
+  await useDb().transaction(async (tx) => {
+    const [row] = await tx.select().from(signInThrottles).where(pair(email, address)).for('update')
+    if (!row || row.attempts === 0) return
+    const attempts = row.attempts - 1
+    await tx
+      .update(signInThrottles)
+      .set({ attempts, nextAttemptAt: new Date(Date.now() + delayAfter(attempts, rules)) })
+      .where(pair(email, address))
+  })
 }
 
 /** The right password: the pair starts afresh. */

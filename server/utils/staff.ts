@@ -13,7 +13,7 @@ export function staffMemberOf(u: UserRow): StaffMember {
   return {
     id: u.id,
     name: u.name,
-    email: u.email,
+    email: mailAddressOf(u),
     role: u.role as StaffRole,
     status: u.disabledAt ? 'disabled' : u.lastSignInAt ? 'active' : 'invited',
     createdAt: u.createdAt.toISOString(),

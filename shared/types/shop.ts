@@ -138,6 +138,9 @@ export interface OrderView {
   canCancel: boolean
   /** The admin's open steps, from the order flow's table. */
   actions: OrderAction[]
+  /** The order's build space (/orders/:id/build): open once paid or its purchase order is
+   *  approved (with a rig per kit unit), not open before, null for an order without kits. */
+  buildSpace: { open: boolean, rigs: number } | null
   refundedAt: string | null
   invoiceVoided: boolean
   /** A word for the admin after a step, e.g. that the invoice will follow. */

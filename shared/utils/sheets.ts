@@ -62,7 +62,8 @@ export function sheetToFile(sheet: {
 export const canSaveSheets = (u: { role: Role } | null | undefined) =>
   u?.role === 'teacher' || u?.role === 'builder'
 
-/** A sheet is its author's; later, the rig's build space and staff working a ticket see it too. */
+/** A sheet is its author's. One saved to a rig is also read by whoever may see the rig (the
+ *  server checks that: server/utils/sheets.ts); only its author changes it. */
 export const canSeeSheet = (
   u: { id: number, role: Role } | null | undefined,
   sheet: { authorId: number },

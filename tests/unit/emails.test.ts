@@ -5,6 +5,7 @@ import { readdirSync, readFileSync } from 'node:fs'
 import { join } from 'node:path'
 import { describe, expect, it } from 'vitest'
 import * as account from '../../server/emails/account'
+import { buildSpaceReadyMail } from '../../server/emails/build'
 import { MAIL_BRAND, renderMail, type RenderedMail } from '../../server/emails/layout'
 import * as shop from '../../server/emails/shop'
 import { staffInvitationMail } from '../../server/emails/staff'
@@ -52,7 +53,15 @@ const accountMails: Record<string, RenderedMail> = {
   staffInvitation: staffInvitationMail(name, 'Marcus Teel', 'support', url),
 }
 
-const allMails = { ...orderMails, ...accountMails }
+const buildMails: Record<string, RenderedMail> = {
+  buildSpaceReady: buildSpaceReadyMail(
+    name,
+    { number: 'TW-10007', rigs: 12 },
+    'https://shop.example/orders/7/build',
+  ),
+}
+
+const allMails = { ...orderMails, ...accountMails, ...buildMails }
 
 describe('every e-mail', () => {
   it('covers every mail the shop module exports', () => {
@@ -91,6 +100,26 @@ describe('every e-mail', () => {
     expect(used.length).toBeGreaterThan(0)
     for (const c of used) expect(ours).toContain(c.toLowerCase())
     expect(mail.html).not.toMatch(/rgba?\(|hsla?\(/)
+  })
+})
+
+describe('the build space mail', () => {
+  const mail = buildMails.buildSpaceReady!
+
+  it('names the order, counts the rigs and links to the progress board', () => {
+    expect(mail.subject).toBe('The build space of order TW-10007 is ready')
+    expect(mail.text).toContain('12 rigs are ready for your class')
+    expect(mail.text).toContain('Open the progress board: https://shop.example/orders/7/build')
+    expect(mail.html).toContain('href="https://shop.example/orders/7/build"')
+  })
+
+  it('says one rig in the singular', () => {
+    const one = buildSpaceReadyMail(name, { number: 'TW-10008', rigs: 1 }, url)
+    expect(one.text).toContain('1 rig is ready')
+  })
+
+  it('reminds the teacher that students join with a code and need no e-mail address', () => {
+    expect(mail.text).toMatch(/join with the code[^.]*need no e-mail\s+address/)
   })
 })
 

@@ -19,7 +19,9 @@ export default defineEventHandler(async (event): Promise<OkReply> => {
     await tx.update(users).set({ passwordHash }).where(eq(users.id, user.id))
     await revokeSessions(tx, user.id, sessionId)
     await spendResetLinks(tx, user.id)
-    await enqueueMail(tx, 'password-changed', user.email, passwordChangedMail(user.name))
+    // A builder who joined with a code has no address: nothing is mailed to students.
+    if (user.email)
+      await enqueueMail(tx, 'password-changed', user.email, passwordChangedMail(user.name))
     await audit(tx, {
       actorId: user.id,
       action: 'account.password-changed',

@@ -18,8 +18,10 @@ export default defineEventHandler(async (event): Promise<OkReply> => {
     const [u] = await tx.select().from(users).where(eq(users.id, id)).limit(1)
     await spendResetLinks(tx, id)
     await revokeSessions(tx, id)
-    await clearSignInThrottles(tx, u!.email)
-    await enqueueMail(tx, 'password-changed', u!.email, passwordChangedMail(u!.name))
+    // Reset links go to e-mail accounts only (a builder's teacher resets theirs).
+    const to = mailAddressOf(u!)
+    await clearSignInThrottles(tx, to)
+    await enqueueMail(tx, 'password-changed', to, passwordChangedMail(u!.name))
     await audit(tx, {
       actorId: id,
       action: 'account.password-reset',

@@ -29,7 +29,8 @@ export default defineEventHandler(async (event): Promise<QuoteCreatedReply> => {
       { number, totalCents: q!.totalCents, validUntil: formatDay(validUntil), lines: src.lines },
       appUrl(`/quotes/${q!.id}`),
     )
-    await enqueueMail(tx, 'quote-issued', user.email, mail, [{ document: 'quote', quoteId: q!.id }])
+    const attach = [{ document: 'quote' as const, quoteId: q!.id }]
+    await enqueueMail(tx, 'quote-issued', mailAddressOf(user), mail, attach)
     await audit(tx, {
       actorId: user.id,
       action: 'quote.issued',

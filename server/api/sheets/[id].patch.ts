@@ -11,12 +11,17 @@ export default defineEventHandler(async (event): Promise<SheetView> => {
   const input = await readBodyAs(event, updateSheetSchema)
   const sheet = await loadVisibleSheet(user, id)
   if (!canEditSheet(user, sheet)) throw forbidden('Only the sheet\'s author can change it.')
-  // A note left out of the body stays as it is (a rename sends only the title).
+  // What the body leaves out stays as it is (a rename sends only the title); null clears.
   const changes = {
     ...(input.title ? { title: input.title } : {}),
     ...(input.note !== undefined ? { note: input.note } : {}),
+    ...(input.verdict !== undefined ? { verdict: input.verdict } : {}),
+    ...(input.measured !== undefined ? { measured: input.measured } : {}),
   }
   if (Object.keys(changes).length)
-    await useDb().update(tuningSheets).set(changes).where(eq(tuningSheets.id, id))
+    await useDb().transaction(async (tx) => {
+      await tx.update(tuningSheets).set(changes).where(eq(tuningSheets.id, id))
+      if (sheet.rigId !== null) await touchRig(tx, sheet.rigId)
+    })
   return sheetView(await loadVisibleSheet(user, id))
 })

@@ -43,19 +43,5 @@ function sheetSummaryOf({ results, ...r }: {
   createdAt: Date
   results: Record<string, unknown>
 }): SheetSummary {
-  const res = results as {
-    analysis?: {
-      stable?: boolean
-      phaseMarginDeg?: number | null
-      step?: { overshootPct?: number | null, settlingTime?: number | null }
-    }
-  }
-  return {
-    ...r,
-    createdAt: r.createdAt.toISOString(),
-    stable: res.analysis?.stable ?? null,
-    phaseMarginDeg: res.analysis?.phaseMarginDeg ?? null,
-    overshootPct: res.analysis?.step?.overshootPct ?? null,
-    settlingTime: res.analysis?.step?.settlingTime ?? null,
-  }
+  return { ...r, createdAt: r.createdAt.toISOString(), ...verdictNumbers(results) }
 }
