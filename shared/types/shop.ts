@@ -147,9 +147,6 @@ export interface OrderView {
   notice?: string | null
   /** After a refused purchase order: the one way to order the same again (for its teacher). */
   wayBack: WayBack | null
-  /** The order's build space for its teacher (null when the order has none and cannot open
-   *  one); the page links to /orders/:id/build when it is open. */
-  buildSpace?: { open: boolean, rigs: number } | null
 }
 
 /** An order as support see it (GET /api/orders/[id]): no totals, no line prices, and the
