@@ -1,6 +1,7 @@
 // Live planner results, computed in the browser from the draft on every change: the
 // suggestion, the check of the gains on the rig, the drawn response (the scenario: a setpoint
 // step, optionally a nudge, a P-only run and a saved sheet to compare) and the stability map.
+// usePlannerRig() plans for a rig of a build space (?rig=ID).
 
 import { analyzeLoop } from '~~/shared/utils/planner/analyze'
 import { firmwareConstants } from '~~/shared/utils/planner/firmware'
@@ -12,6 +13,8 @@ import { simulate } from '~~/shared/utils/planner/simulate'
 import type { SheetInputs } from '~~/shared/schemas/planner'
 import type { ResponseSeries } from '~/components/planner/PlannerResponsePlot.vue'
 import { checkPlannerForm } from '~~/shared/utils/planner-form'
+import type { RigView } from '~~/shared/types/build'
+import { draftForRig, type PlannerRig } from '~/stores/planner'
 
 export interface OverlaySheet {
   id: number
@@ -188,4 +191,63 @@ export function usePlanner() {
     map,
     pick,
   }
+}
+
+/** How planning for a rig stands: no rig asked for, loading, ready, or why not. */
+export type PlannerRigStatus = 'none' | 'loading' | 'ready' | 'signed-out' | 'missing' | 'failed'
+
+const rigRef = (v: RigView): PlannerRig => ({
+  id: v.id,
+  name: v.name,
+  serial: v.serial,
+  groupLabel: v.groupLabel,
+})
+
+/**
+ * Planning for a rig of a build space (/planner?rig=ID): reads the rig, puts the draft aside and
+ * fills the form from the rig. Without the id (or on leaving the page) the draft comes back; a rig
+ * that cannot be read leaves the ordinary planner working.
+ */
+export function usePlannerRig(rigId: Ref<number | null>) {
+  const store = usePlannerStore()
+  const { user } = useCurrentUser()
+  const view = ref<RigView | null>(null)
+  const status = ref<PlannerRigStatus>('none')
+
+  async function load(id: number | null) {
+    if (!id || !user.value) {
+      view.value = null
+      status.value = id ? 'signed-out' : 'none'
+      store.leaveRig()
+      return
+    }
+    status.value = 'loading'
+    try {
+      const v = await $fetch<RigView>(`/api/rigs/${id}`)
+      if (rigId.value !== id) return
+      view.value = v
+      status.value = 'ready'
+      // A new rig fills the form; the same one again (a refresh) leaves the builder's edits.
+      if (store.rig?.id === id) store.rig = rigRef(v)
+      else store.planForRig(rigRef(v), d => draftForRig(d, v))
+    } catch (e) {
+      if (rigId.value !== id) return
+      view.value = null
+      store.leaveRig()
+      status.value = toApiFailure(e).status === 404 ? 'missing' : 'failed'
+    }
+  }
+
+  onMounted(() => {
+    watch([rigId, () => user.value?.id], () => load(rigId.value), { immediate: true })
+  })
+  onBeforeUnmount(() => store.leaveRig())
+
+  /** The server's answer to a change of the rig (dimensions, calibration): the band follows. */
+  function follow(v: RigView) {
+    view.value = v
+    store.rig = rigRef(v)
+  }
+
+  return { view, status, follow, reload: () => load(rigId.value) }
 }

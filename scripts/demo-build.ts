@@ -371,8 +371,9 @@ export async function seedDemoBuild(tx: SeedTx, people: DemoBuildPeople, now = n
       createdAt: paidAt,
     },
     {
-      kind: 'build-space-opened',
-      message: `Build space opened: ${DEMO_RIGS} rigs are ready for the class.`,
+      // The words server/utils/build-spaces.ts writes when it opens a space.
+      kind: 'build-space',
+      message: `Build space opened: ${DEMO_RIGS} rigs ready for the class.`,
       actorId: null,
       createdAt: openedAt,
     },

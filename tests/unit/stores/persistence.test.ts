@@ -4,7 +4,9 @@
 import { createPinia, setActivePinia } from 'pinia'
 import { beforeEach, describe, expect, it } from 'vitest'
 import { useCartStore } from '../../../stores/cart'
-import { usePlannerStore } from '../../../stores/planner'
+import { draftForRig, usePlannerStore, type PlannerDraft } from '../../../stores/planner'
+import { KIT_PRESETS } from '../../../shared/utils/planner/presets'
+import type { RigView } from '../../../shared/types/build'
 
 class MemoryStorage {
   private items = new Map<string, string>()
@@ -103,5 +105,140 @@ describe('planner store', () => {
     expect(JSON.parse(JSON.stringify(store.$state))).toEqual(defaults)
     reload()
     expect(JSON.parse(JSON.stringify(usePlannerStore().$state))).toEqual(defaults)
+  })
+})
+
+describe('planner store, planning for a rig (?rig=)', () => {
+  const benchRig = { id: 3, name: 'Tall Tower', serial: 'TW-10001-03', groupLabel: 'Bench 2' }
+  const rigValues = (d: PlannerDraft): PlannerDraft => ({
+    ...d,
+    form: { ...d.form, beamLengthMm: 612 },
+    calibration: [{ reading: 1, positionMm: 2 }],
+  })
+  const saved = () => JSON.parse(localStorage.getItem(PLANNER)!)
+
+  it('puts the draft aside, keeps only the draft in storage, and brings it back on leaving', () => {
+    const store = usePlannerStore()
+    store.form.beamLengthMm = 450
+    store.sheet = { id: 9, title: 'Mine' }
+    store.planForRig(benchRig, rigValues)
+    expect(store.rig).toEqual(benchRig)
+    expect(store.form.beamLengthMm).toBe(612)
+    store.form.leverArmMm = 31
+    expect(saved().form.beamLengthMm).toBe(450)
+    expect(saved().form.leverArmMm).not.toBe(31)
+    store.leaveRig()
+    expect(store.rig).toBeNull()
+    expect(store.form.beamLengthMm).toBe(450)
+    expect(store.form.leverArmMm).not.toBe(31)
+    expect(store.sheet).toEqual({ id: 9, title: 'Mine' })
+    expect(store.calibration).toHaveLength(5)
+    expect(saved().form.beamLengthMm).toBe(450)
+  })
+
+  it('reloads as the ordinary draft: the rig is never kept', () => {
+    const store = usePlannerStore()
+    store.form.beamLengthMm = 450
+    store.planForRig(benchRig, rigValues)
+    reload()
+    const again = usePlannerStore()
+    expect(again.rig).toBeNull()
+    expect(again.form.beamLengthMm).toBe(450)
+  })
+
+  it('a second rig starts from the draft, not from the first rig', () => {
+    const store = usePlannerStore()
+    store.form.beamLengthMm = 450
+    store.planForRig(benchRig, rigValues)
+    store.form.beamLengthMm = 700
+    store.planForRig({ ...benchRig, id: 4 }, d => d)
+    expect(store.form.beamLengthMm).toBe(450)
+    store.leaveRig()
+    expect(store.form.beamLengthMm).toBe(450)
+  })
+
+  it('reset() (signing out) leaves the rig and forgets the draft too', () => {
+    const store = usePlannerStore()
+    store.form.beamLengthMm = 450
+    store.planForRig(benchRig, rigValues)
+    store.reset()
+    expect(store.rig).toBeNull()
+    expect(localStorage.getItem(PLANNER)).toBeNull()
+    store.leaveRig()
+    expect(store.form.beamLengthMm).not.toBe(450)
+  })
+})
+
+describe('draftForRig', () => {
+  const preset = KIT_PRESETS.find(p => p.id === 'classroom-12')!.rig
+  const draft = (): PlannerDraft => {
+    const d = JSON.parse(JSON.stringify(usePlannerStore().$state)) as PlannerDraft
+    d.form.overshootPct = 4
+    d.form.form = 'PID'
+    d.form.beamLengthMm = 999
+    return d
+  }
+  const sheetWith = (overshootPct: number) => ({
+    id: 7,
+    title: 'Newest',
+    inputs: {
+      rig: preset,
+      targets: {
+        overshootPct,
+        settlingTime: 3,
+        form: 'PD' as const,
+        derivativeFilterN: 10,
+        method: 'lag-aware' as const,
+        derivativeOn: 'measurement' as const,
+      },
+      gains: { kp: 5, kd: 1.5, ki: 0, n: 10, derivativeOn: 'measurement' as const },
+    },
+  }) as unknown as RigView['sheets'][number]
+
+  it('fills the rig from its dimensions and keeps the draft\'s targets without sheets', () => {
+    const d = draftForRig(draft(), { dimensions: preset, calibration: null, sheets: [] })
+    expect(d.form.beamLengthMm).toBe(400)
+    expect(d.form.leverArmMm).toBe(12)
+    expect(d.form.overshootPct).toBe(4)
+    expect(d.form.form).toBe('PID')
+    expect(d.presetId).toBeNull()
+    expect(d.gainSource).toBe(draft().gainSource)
+  })
+
+  it('takes the newest sheet\'s targets and gains', () => {
+    const d = draftForRig(draft(), {
+      dimensions: preset,
+      calibration: null,
+      sheets: [sheetWith(12), sheetWith(30)],
+    })
+    expect(d.form.overshootPct).toBe(12)
+    expect(d.form.settlingTime).toBe(3)
+    expect(d.form.form).toBe('PD')
+    expect(d.gainSource).toBe('own')
+    expect(d.ownGains).toEqual({ kp: 5, kd: 1.5, ki: 0 })
+    expect(d.sheet).toBeNull()
+  })
+
+  it('keeps the draft\'s rig when the rig has no dimensions yet', () => {
+    const d = draftForRig(draft(), { dimensions: null, calibration: null, sheets: [] })
+    expect(d.form).toEqual(draft().form)
+  })
+
+  it('brings the rig\'s calibration readings in mm', () => {
+    const d = draftForRig(draft(), {
+      dimensions: null,
+      calibration: {
+        adcBits: 10,
+        pairs: [
+          { reading: 100, position: 0.04 },
+          { reading: 920, position: 0.36 },
+        ],
+      } as RigView['calibration'],
+      sheets: [],
+    })
+    expect(d.calibration).toEqual([
+      { reading: 100, positionMm: 40 },
+      { reading: 920, positionMm: 360 },
+    ])
   })
 })
