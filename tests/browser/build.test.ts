@@ -1,19 +1,19 @@
 // A class in the browser: the teacher opens the demo build space's progress board and makes a
 // join code; a student on a phone joins with it, is put on a rig by the teacher, ticks two
-// checklist steps with a note and saves a tuning sheet to the rig; the teacher's board shows it
-// after its next refresh. Screenshots go to tests/.artifacts/build/ for a person to look at.
+// checklist steps with a note and saves a tuning sheet to the rig from the Gain Planner; the
+// teacher's board shows it after its next refresh. Screenshots go to tests/.artifacts/build/
+// for a person to look at.
 import { mkdirSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser, Page } from 'playwright-core'
-import type { BoardReply, BuildSpaceSummary } from '../../shared/types/build'
-import { planGains } from '../../shared/utils/planner/plan'
-import { DEFAULT_TARGETS, KIT_PRESETS } from '../../shared/utils/planner/presets'
+import type { BoardReply, BuildSpaceSummary, RigView } from '../../shared/types/build'
 import {
   accessibilityViolations,
   gotoReady,
   launch,
   signInThroughPage,
+  url,
 } from '../helpers/browser'
 import { sql } from '../helpers/db'
 
@@ -38,7 +38,7 @@ const scrollsSideways = (page: Page) =>
 
 /** The demo teacher's order with a build space: from the list of spaces, else a paid order. */
 async function demoOrderId(page: Page): Promise<number> {
-  const spaces = (await (await page.request.get('/api/build-spaces')).json()) as
+  const spaces = (await (await page.request.get(url('/api/build-spaces'))).json()) as
     BuildSpaceSummary[]
   if (spaces[0]) return spaces[0].orderId
   const [row] = await sql<{ id: number }>(
@@ -94,7 +94,7 @@ describe('a class builds in the browser', () => {
 
     // The teacher puts the student on a rig nobody has started (the board refreshes itself).
     const reply = (await (
-      await board.request.get(`/api/orders/${orderId}/board?retired=false`)
+      await board.request.get(url(`/api/orders/${orderId}/board`))
     ).json()) as BoardReply
     const rig = reply.rigs.find(r => r.done === 0) ?? reply.rigs[0]!
     const move = board.getByLabel(`Rig of ${name}`)
@@ -123,30 +123,19 @@ describe('a class builds in the browser', () => {
     expect(await accessibilityViolations(student)).toEqual([])
     await shot(student, 'rig-phone')
 
-    // A sheet saved to the rig (the planner's own save with ?rig= is tested with the planner).
-    const plan = planGains(KIT_PRESETS[0]!.rig, DEFAULT_TARGETS)
+    // The rig page opens the Gain Planner for this rig; the sheet is saved to the rig.
+    await student.getByRole('link', { name: 'Open in the Gain Planner' }).click()
+    await student.waitForURL(u => u.pathname === '/planner' && u.search === `?rig=${rig.id}`)
+    await student.getByRole('heading', { name: 'Save a tuning sheet to this rig' }).waitFor()
     const title = `First gains ${Date.now() % 10_000}`
-    const saved = await student.evaluate(
-      async (body) => {
-        const token = document.querySelector('meta[name="csrf-token"]')?.getAttribute('content')
-        const r = await fetch('/api/sheets', {
-          method: 'POST',
-          headers: { 'content-type': 'application/json', 'csrf-token': token ?? '' },
-          body: JSON.stringify(body),
-        })
-        return r.status
-      },
-      {
-        title,
-        note: 'The ball wobbles twice, then sits still.',
-        rigId: rig.id,
-        verdict: 'balances',
-        inputs: { rig: KIT_PRESETS[0]!.rig, targets: DEFAULT_TARGETS, gains: plan.gains },
-      },
-    )
-    expect(saved).toBe(201)
-    await student.reload()
-    await student.getByTestId('rig-sheet').filter({ hasText: title }).waitFor()
+    await student.locator('#sheet-title').fill(title)
+    await student.locator('#sheet-verdict').selectOption('balances')
+    await student.getByRole('button', { name: 'Save sheet' }).click()
+    await student.getByRole('link', { name: 'See it on the rig page' }).click()
+    await student.waitForURL(u => u.pathname === `/rigs/${rig.id}`)
+    const row = student.getByTestId('rig-sheet').filter({ hasText: title })
+    await row.waitFor()
+    expect(await row.textContent()).toContain('Balances')
 
     // The teacher's board picks it up on its next refresh, without a reload.
     const card = board.getByTestId('board-rig').filter({ hasText: rig.serial })
@@ -159,6 +148,14 @@ describe('a class builds in the browser', () => {
     expect(await accessibilityViolations(board)).toEqual([])
     await shot(board, 'board-desktop')
 
+    // Printed, the board is a table on one landscape page, without the controls.
+    await board.emulateMedia({ media: 'print' })
+    expect(await board.locator('table.board-print').isVisible()).toBe(true)
+    expect(await board.getByRole('search').isVisible()).toBe(false)
+    const pdf = (await board.pdf({ preferCSSPageSize: true })).toString('latin1')
+    expect(pdf.match(/\/Type\s*\/Page(?!s)/g)?.length).toBe(1)
+    await board.emulateMedia({ media: 'screen' })
+
     await board.setViewportSize(projector)
     await board.getByRole('button', { name: 'Projector view' }).click()
     await board.getByTestId('join-codes').waitFor({ state: 'detached' })
@@ -169,6 +166,24 @@ describe('a class builds in the browser', () => {
     expect(columns).toBeGreaterThanOrEqual(4)
     expect(await scrollsSideways(board)).toBe(false)
     await shot(board, 'board-projector')
+
+    // A rig with several sheets: two of them ticked draw their predicted responses together.
+    const views = await Promise.all(
+      reply.rigs.map(async r =>
+        (await (await board.request.get(url(`/api/rigs/${r.id}`))).json()) as RigView),
+    )
+    const tuned = views.find(v => v.sheets.length >= 2)!
+    await board.setViewportSize(desktop)
+    await gotoReady(board, `/rigs/${tuned.id}`)
+    const sheets = board.getByTestId('rig-sheet')
+    await sheets.first().getByRole('checkbox').check()
+    expect(await board.getByTestId('sheet-overlay').count()).toBe(0)
+    await sheets.nth(1).getByRole('checkbox').check()
+    await board.getByTestId('sheet-overlay').getByTestId('response-plot').locator('canvas')
+      .first()
+      .waitFor()
+    expect(await accessibilityViolations(board)).toEqual([])
+    await shot(board, 'rig-overlay-desktop')
     await Promise.all([teacherCtx.close(), studentCtx.close()])
   })
 })
