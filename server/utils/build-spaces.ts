@@ -395,15 +395,11 @@ export const badJoinCode = () =>
 
 /** The live code as typed (already normalised), with its order; 422 on `code` otherwise. */
 export async function liveJoinCode(db: DbOrTx, code: string, lock = false) {
-  const q = db
-    .select({ c: joinCodes, order: orders })
-    .from(joinCodes)
-    .innerJoin(orders, eq(orders.id, joinCodes.orderId))
-    .where(eq(joinCodes.code, code))
-    .limit(1)
-  const [hit] = lock ? await q.for('update') : await q
-  if (!hit || !isCodeLive(hit.c)) throw badJoinCode()
-  return hit
+  // Only the code's row is locked (a join would lock the order's too).
+  const q = db.select().from(joinCodes).where(eq(joinCodes.code, code)).limit(1)
+  const [c] = lock ? await q.for('update') : await q
+  if (!c || !isCodeLive(c)) throw badJoinCode()
+  return { c, order: (await loadOrder(db, c.orderId))! }
 }
 
 /** The key join-code guesses are counted under, beside each address (no account or username

@@ -81,7 +81,7 @@ describe.each(SIZES)('forms on a $name', ({ name, viewport }) => {
     await page.getByLabel('Password').fill('not-the-password')
     await email.focus()
     await page.getByRole('button', { name: 'Sign in' }).click()
-    await summary.getByRole('link', { name: /^Password: That e-mail and password/ }).waitFor()
+    await summary.getByRole('link', { name: /^Password: That sign-in name and password/ }).waitFor()
     await page.waitForFunction(() => document.activeElement?.getAttribute('role') === 'alert')
     expect(await page.locator('[role="alert"]').count()).toBe(1)
     await ctx.close()

@@ -60,7 +60,8 @@ export async function newTeacher(
 }
 
 let seq = 0
-/** A product of its own with one batch, so a test knows exactly how much stock there is. */
+/** A product of its own with one batch, so a test knows exactly how much stock there is (a
+ *  part unless `kind` says kit: each kit unit of a paid order becomes a rig). */
 export async function productWithStock(
   admin: Client,
   quantity: number,
@@ -68,12 +69,13 @@ export async function productWithStock(
     { minQuantity: 1, unitPriceCents: 2500 },
     { minQuantity: 10, unitPriceCents: 2000 },
   ],
+  kind: 'kit' | 'part' = 'part',
 ) {
   const slug = `test-part-${Date.now().toString(36)}-${++seq}`
   const p = await admin.post('/api/admin/products', {
     slug,
-    name: `Test part ${slug}`,
-    kind: 'part',
+    name: `Test ${kind} ${slug}`,
+    kind,
     summary: 'A part made for one test.',
     weightGrams: 100,
     tiers,

@@ -4,7 +4,9 @@ import type { AccountReply } from '../../../shared/types/account'
 
 export default defineEventHandler(async (event): Promise<AccountReply> => {
   const user = await requireUser(event)
-  const [school] = user.schoolId
+  // A builder (a student) is told nothing about the school's address or tax standing: their
+  // build spaces name the school (GET /api/build-spaces).
+  const [school] = user.schoolId && user.role !== 'builder'
     ? await useDb().select().from(schools).where(eq(schools.id, user.schoolId)).limit(1)
     : []
   return { user, school: school ?? null }
