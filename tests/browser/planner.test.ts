@@ -1,5 +1,6 @@
 // The Gain Planner as a builder uses it: change a measurement, see the suggestion and the
-// plots change at once; phone-sized without sideways scrolling; no serious a11y findings.
+// plots change at once; phone-sized without sideways scrolling; no serious a11y findings;
+// planning for a rig of the demo build space (?rig=) and getting the draft back.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Browser } from 'playwright-core'
 import {
@@ -9,6 +10,7 @@ import {
   signInThroughPage,
   url,
 } from '../helpers/browser'
+import { sql } from '../helpers/db'
 
 let browser: Browser
 beforeAll(async () => {
@@ -84,5 +86,78 @@ describe('Gain Planner page', () => {
       .poll(() => page.getByTestId('response-plot').textContent())
       .toContain('sheet: Browser bench sheet')
     await page.close()
+  })
+
+  it('plans for a rig of the demo build space, saves to it, and gives the draft back', async () => {
+    const rigs = await sql<{ id: number, serial: string }>(
+      'SELECT id, serial FROM rigs ORDER BY id',
+    )
+    // The demo build space (scripts/demo-build.ts): 02 is tuning with two sheets, 05 is fresh.
+    const tuning = rigs.find(r => r.serial.endsWith('-02'))!
+    const fresh = rigs.find(r => r.serial.endsWith('-05'))!
+    const page = await browser.newPage({ viewport: { width: 1366, height: 900 } })
+    await signInThroughPage(page, 'builder@tiltwright.test')
+    await gotoReady(page, '/planner')
+    const beam = page.getByLabel('Beam length (mm)')
+    await beam.fill('455')
+
+    await gotoReady(page, `/planner?rig=${tuning.id}`)
+    const band = page.getByTestId('planner-rig-band')
+    await band.getByText(`Planning for rig ${tuning.serial} · Bench 1`).waitFor()
+    expect(await band.getByRole('link', { name: 'Back to the rig page' }).getAttribute('href'))
+      .toBe(`/rigs/${tuning.id}`)
+    // The kit's classroom rig, from the rig's saved dimensions; the newest sheet's gains.
+    await expect.poll(() => beam.inputValue()).toBe('400')
+    expect(await page.getByLabel('Check my own gains').isChecked()).toBe(true)
+    await page.getByLabel('Overlay a sheet').selectOption({ label: 'Bench 1 right, first try' })
+    await expect
+      .poll(() => page.getByTestId('response-plot').textContent())
+      .toContain('sheet: Bench 1 right, first try')
+    expect(await accessibilityViolations(page)).toEqual([])
+
+    // The fresh rig has no measurements: the draft's stay, and can be saved to it.
+    await gotoReady(page, `/planner?rig=${fresh.id}`)
+    await band.getByText('This rig has no measurements saved yet').waitFor()
+    expect(await beam.inputValue()).toBe('455')
+    await page.getByRole('button', { name: 'Save measurements to this rig' }).click()
+    await band.getByText('Saved to the rig').waitFor()
+    const [dims] = await sql<{ beam: number }>(
+      'SELECT JSON_VALUE(dimensions, \'$.beamLength\') AS beam FROM rigs WHERE id = ?',
+      [fresh.id],
+    )
+    expect(Number(dims!.beam)).toBeCloseTo(0.455, 6)
+
+    await page.getByRole('button', { name: 'Save calibration to this rig' }).click()
+    await page.locator('#calibration-heading').locator('..').getByText('Saved to the rig').waitFor()
+
+    await page.getByLabel('Title').fill('Bench 3, first sheet')
+    await page.getByLabel('How did the real rig behave? (optional)').selectOption('slow')
+    await page.getByLabel('Measured settling time (optional) (s)').fill('6.5')
+    await page.getByRole('button', { name: 'Save sheet' }).click()
+    await page.getByRole('link', { name: 'See it on the rig page' }).waitFor()
+    const [sheet] = await sql<{ verdict: string, settling: number }>(
+      'SELECT verdict, JSON_VALUE(measured, \'$.settlingTime\') AS settling FROM tuning_sheets '
+      + 'WHERE rig_id = ? AND title = ?',
+      [fresh.id, 'Bench 3, first sheet'],
+    )
+    expect(sheet).toMatchObject({ verdict: 'slow' })
+    expect(Number(sheet!.settling)).toBe(6.5)
+
+    // Leaving ?rig= gives the ordinary draft back; a rig that cannot be read leaves it too.
+    await beam.fill('430')
+    await gotoReady(page, '/planner')
+    await expect.poll(() => beam.inputValue()).toBe('455')
+    expect(await page.getByTestId('planner-rig-band').count()).toBe(0)
+    await gotoReady(page, '/planner?rig=999999')
+    await page.getByText('That rig was not found').waitFor()
+    expect(await beam.inputValue()).toBe('455')
+    await page.close()
+    // The fresh demo rig is fresh again for the tests after this one.
+    await sql('DELETE FROM tuning_sheets WHERE rig_id = ?', [fresh.id])
+    await sql(
+      'UPDATE rigs SET dimensions = NULL, dimensions_updated_at = NULL, calibration = NULL, '
+      + 'calibrated_at = NULL, last_activity_at = NULL WHERE id = ?',
+      [fresh.id],
+    )
   })
 })
