@@ -131,7 +131,13 @@ describe('card checkout', () => {
       expect(paid.location).toContain(`/orders/${r.body.orderId}?paid=1`)
       const after = await waitForOrder(t.client, r.body.orderId, o => o.status === 'paid')
       expect(after.paidAt).not.toBeNull()
-      expect(after.events.map((e: any) => e.kind)).toEqual(['placed', 'checkout-opened', 'paid'])
+      // Paid, its five kits became rigs for the class (server/utils/build-spaces.ts).
+      expect(after.events.map((e: any) => e.kind)).toEqual([
+        'placed',
+        'checkout-opened',
+        'paid',
+        'build-space',
+      ])
       expect((await fakeStripe().checkout.sessions.retrieve(sessionId)).payment_status).toBe('paid')
 
       await waitForMail(t.email, /^Order TW-\d+ placed/)

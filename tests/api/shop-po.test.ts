@@ -153,6 +153,8 @@ describe('purchase-order checkout', () => {
       'po-received',
       'tax-exempt',
       'po-approved',
+      // Its six kits became rigs for the class (server/utils/build-spaces.ts).
+      'build-space',
       'invoice-issued',
       'paid',
     ])
