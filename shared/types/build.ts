@@ -160,5 +160,12 @@ export interface BuildSpaceSummary extends BuildSpaceRef {
   finished: number
   stuck: number
   /** The caller's own rigs (a builder's; empty for a teacher). */
-  myRigs: { id: number, serial: string, name: string, currentStep: ChecklistStep | null }[]
+  myRigs: {
+    id: number
+    serial: string
+    name: string
+    currentStep: ChecklistStep | null
+    /** The rig's group, when the server sends it. */
+    groupLabel?: string | null
+  }[]
 }

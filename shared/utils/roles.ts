@@ -29,10 +29,10 @@ export const canBuy = (u: Who) => u?.role === 'teacher'
 /** Prices are public, but a student builder's pages never show money. */
 export const canSeePrices = (u: Who) => u?.role !== 'builder'
 
-/** Where each role starts after signing in: builders at the planner (their sheets are a click
+/** Where each role starts after signing in: builders at their rigs (the planner is a click
  *  away), staff at their desk, teachers at home. */
 export function landingFor(u: Who): string {
-  if (u?.role === 'builder') return '/planner'
+  if (u?.role === 'builder') return '/rigs'
   if (isStaff(u)) return '/staff'
   return '/'
 }
@@ -65,7 +65,9 @@ export function navigationFor(u: Who): NavLink[] {
   ]
   if (!u || canBuy(u)) links.push({ to: '/cart', label: 'Cart' })
   if (!u) return links
+  if (u.role === 'builder') links.unshift({ to: '/rigs', label: 'Your rigs' })
   if (canBuy(u)) links.push({ to: '/quotes', label: 'Quotes' }, { to: '/orders', label: 'Orders' })
+  if (canBuy(u)) links.push({ to: '/rigs', label: 'Build spaces' })
   if (isCustomer(u)) links.push({ to: '/sheets', label: 'My sheets' })
   if (isStaff(u)) links.push({ to: '/staff', label: 'Staff desk' })
   if (isAdmin(u)) links.push({ to: '/admin/staff', label: 'Staff accounts' })

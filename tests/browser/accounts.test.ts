@@ -101,11 +101,11 @@ describe('sign-in, reset and sign-out in two browsers at once', () => {
       await Promise.all([laptopContext.close(), phoneContext.close()])
     })
 
-  it('lands a builder at the planner and support at their desk', async () => {
+  it('lands a builder at their rigs and support at their desk', async () => {
     const context = await browser.newContext()
     const page = await context.newPage()
     await signInThroughPage(page, 'builder@tiltwright.test')
-    expect(new URL(page.url()).pathname).toBe('/planner')
+    expect(new URL(page.url()).pathname).toBe('/rigs')
     await gotoReady(page, '/kits')
     await page.getByRole('heading', { name: 'Kits and parts' }).waitFor()
     expect(await page.locator('main').textContent()).not.toMatch(/\$\d/)

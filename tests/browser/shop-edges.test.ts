@@ -57,7 +57,7 @@ describe.each(SIZES)('forms on a $name', ({ name, viewport }) => {
     await gotoReady(page, '/login')
     await page.getByRole('button', { name: 'Sign in' }).click()
     const summary = page.getByTestId('error-summary')
-    await summary.getByRole('link', { name: /^E-mail: / }).waitFor()
+    await summary.getByRole('link', { name: /^E-mail or username: / }).waitFor()
     await summary.getByRole('link', { name: /^Password: / }).waitFor()
     await page.waitForFunction(() => document.activeElement?.getAttribute('role') === 'alert')
     expect(await focusedTestId(page)).toBe('error-summary')
@@ -68,10 +68,12 @@ describe.each(SIZES)('forms on a $name', ({ name, viewport }) => {
     expect(await accessibilityViolations(page)).toEqual([])
     await shot(page, `login-summary-${name}`)
 
-    await summary.getByRole('link', { name: /^E-mail: / }).click()
+    await summary.getByRole('link', { name: /^E-mail or username: / }).click()
     expect(await page.evaluate(() => document.activeElement?.id)).toBe('email')
     await email.fill('nobody@tiltwright.test')
-    await summary.getByRole('link', { name: /^E-mail: / }).waitFor({ state: 'detached' })
+    await summary
+      .getByRole('link', { name: /^E-mail or username: / })
+      .waitFor({ state: 'detached' })
     expect(await email.getAttribute('aria-invalid')).toBe('false')
     expect(await page.locator('#email-error').count()).toBe(0)
 

@@ -80,9 +80,9 @@ describe('text schemas', () => {
 
 describe('role words', () => {
   it(
-    'lands builders at the planner, staff at their desk, teachers at home; builders see '
+    'lands builders at their rigs, staff at their desk, teachers at home; builders see '
     + 'no prices', () => {
-      expect(landingFor({ role: 'builder' })).toBe('/planner')
+      expect(landingFor({ role: 'builder' })).toBe('/rigs')
       expect(landingFor({ role: 'support' })).toBe('/staff')
       expect(landingFor({ role: 'admin' })).toBe('/staff')
       expect(landingFor({ role: 'teacher' })).toBe('/')

@@ -4,6 +4,7 @@ import {
   canManageStaff,
   canUseHelpQueue,
   isStaff,
+  landingFor,
   navigationFor,
 } from '../../shared/utils/roles'
 
@@ -33,5 +34,17 @@ describe('authorization rules', () => {
     expect(labels({ role: 'support' })).toContain('Staff desk')
     expect(labels({ role: 'support' })).not.toContain('Staff accounts')
     expect(labels({ role: 'admin' })).toContain('Staff accounts')
+  })
+
+  it('sends builders to their rigs and gives teachers the build spaces', () => {
+    const links = (r: Parameters<typeof navigationFor>[0]) =>
+      navigationFor(r).map(l => `${l.label} ${l.to}`)
+    expect(links({ role: 'builder' })[0]).toBe('Your rigs /rigs')
+    expect(links({ role: 'builder' })).not.toContain('Build spaces /rigs')
+    expect(links({ role: 'teacher' })).toContain('Build spaces /rigs')
+    expect(links({ role: 'support' }).some(l => l.endsWith('/rigs'))).toBe(false)
+    expect(links(null).some(l => l.endsWith('/rigs'))).toBe(false)
+    expect(landingFor({ role: 'builder' })).toBe('/rigs')
+    expect(landingFor({ role: 'teacher' })).toBe('/')
   })
 })
