@@ -160,12 +160,16 @@ export interface BuildSpaceSummary extends BuildSpaceRef {
   finished: number
   stuck: number
   /** The caller's own rigs (a builder's; empty for a teacher). */
-  myRigs: {
-    id: number
-    serial: string
-    name: string
-    currentStep: ChecklistStep | null
-    /** The rig's group, when the server sends it. */
-    groupLabel?: string | null
-  }[]
+  myRigs: SpaceRig[]
+  /** Every rig of the space in use, which its builders may all open (empty for a teacher). */
+  classRigs: SpaceRig[]
+}
+
+/** A rig as a builder's list shows it. */
+export interface SpaceRig {
+  id: number
+  serial: string
+  name: string
+  groupLabel: string | null
+  currentStep: ChecklistStep | null
 }

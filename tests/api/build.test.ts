@@ -348,6 +348,10 @@ describe('a builder and money', () => {
     const spaces = (await builder.get('/api/build-spaces')).body
     expect(spaces).toHaveLength(1)
     expect(spaces[0]).toMatchObject({ orderId, rigs: 2, myRigs: [] })
+    // Not on a rig yet, the builder still sees every rig of the class, by serial.
+    const serials = spaces[0].classRigs.map((r: { serial: string }) => r.serial)
+    expect(serials).toHaveLength(2)
+    expect(serials).toEqual([...serials].sort())
   })
 
   it('lists a teacher\'s build spaces and none for staff', async () => {
@@ -355,7 +359,7 @@ describe('a builder and money', () => {
     await board(teacher.client, orderId)
     const mine = (await teacher.client.get('/api/build-spaces')).body
     expect(mine.map((s: any) => s.orderId)).toEqual([orderId])
-    expect(mine[0]).toMatchObject({ rigs: 2, finished: 0, stuck: 0, myRigs: [] })
+    expect(mine[0]).toMatchObject({ rigs: 2, finished: 0, stuck: 0, myRigs: [], classRigs: [] })
     const support = await signedIn('support@tiltwright.test')
     expect((await support.get('/api/build-spaces')).body).toEqual([])
   })

@@ -6,8 +6,16 @@ import {
   isStuck,
   rigProgress,
 } from '../../../shared/utils/build'
-import type { BuildSpaceSummary } from '../../../shared/types/build'
+import type { BuildSpaceSummary, SpaceRig } from '../../../shared/types/build'
 import { orders, rigs } from '../../database/schema'
+
+const spaceRig = (x: { rig: typeof rigs.$inferSelect, current: SpaceRig['currentStep'] }) => ({
+  id: x.rig.id,
+  serial: x.rig.serial,
+  name: x.rig.name ?? x.rig.serial,
+  groupLabel: x.rig.groupLabel,
+  currentStep: x.current,
+})
 
 export default defineEventHandler(async (event): Promise<BuildSpaceSummary[]> => {
   const user = await requireUser(event)
@@ -30,7 +38,9 @@ export default defineEventHandler(async (event): Promise<BuildSpaceSummary[]> =>
   const steps = await stepsOf(db, allRigs.map(r => r.id))
   const now = new Date()
   return Promise.all(spaceOrders.map(async ({ o }) => {
-    const mine = allRigs.filter(r => r.orderId === o.id)
+    const mine = allRigs
+      .filter(r => r.orderId === o.id)
+      .sort((a, b) => a.serial.localeCompare(b.serial))
     const openedAt = new Date(Math.min(...mine.map(r => r.createdAt.getTime())))
     const state = mine.map((rig) => {
       const s = steps.filter(x => x.rigId === rig.id)
@@ -47,14 +57,10 @@ export default defineEventHandler(async (event): Promise<BuildSpaceSummary[]> =>
       rigs: mine.filter(r => !r.retiredAt).length,
       finished: state.filter(x => !x.rig.retiredAt && x.current === null).length,
       stuck: state.filter(x => x.stuck).length,
-      myRigs: state
-        .filter(x => myRigIds.has(x.rig.id))
-        .map(x => ({
-          id: x.rig.id,
-          serial: x.rig.serial,
-          name: x.rig.name ?? x.rig.serial,
-          currentStep: x.current,
-        })),
+      myRigs: state.filter(x => myRigIds.has(x.rig.id)).map(spaceRig),
+      classRigs: user.role === 'builder'
+        ? state.filter(x => !x.rig.retiredAt).map(spaceRig)
+        : [],
     }
   }))
 })
