@@ -162,6 +162,26 @@ export function isStuck(since: Date | string | null, retired: boolean, now: Date
   return now.getTime() - new Date(since).getTime() > LESSON_MINUTES * 60_000
 }
 
+/** When a build space opened: its first rig's creation. */
+export const openedAtOf = (rigs: readonly { createdAt: Date }[]) =>
+  new Date(Math.min(...rigs.map(r => r.createdAt.getTime())))
+
+/**
+ * A rig's place on the board: its progress, since when it has been on its current step, and
+ * whether it is stuck. A rig nobody has touched yet is waiting for builders, not stuck.
+ */
+export function rigState(
+  steps: readonly StepState[],
+  openedAt: Date,
+  rig: { retired: boolean, lastActivityAt: Date | string | null },
+  now: Date,
+) {
+  const progress = rigProgress(steps)
+  const since = currentStepSince(steps, openedAt)
+  const started = !!rig.lastActivityAt || steps.length > 0
+  return { progress, since, stuck: started && isStuck(since, rig.retired, now) }
+}
+
 export const BOARD_SORTS = ['serial', 'group', 'progress', 'activity', 'stuck'] as const
 export type BoardSort = (typeof BOARD_SORTS)[number]
 

@@ -15,6 +15,8 @@ import {
   currentStepSince,
   formatJoinCode,
   isStuck,
+  openedAtOf,
+  rigState,
   normaliseJoinCode,
   rigProgress,
   suggestUsername,
@@ -101,6 +103,28 @@ describe('isStuck', () => {
   })
   it('is never stuck when finished (no current step)', () => {
     expect(isStuck(null, false, after(10 * LESSON_MINUTES))).toBe(false)
+  })
+})
+
+describe('rigState', () => {
+  const openedAt = new Date(at(0))
+  const later = new Date(Date.parse(at(0)) + 3 * LESSON_MINUTES * 60_000)
+  it('calls a rig nobody has touched waiting, not stuck', () => {
+    const s = rigState([], openedAt, { retired: false, lastActivityAt: null }, later)
+    expect(s.progress.current).toBe('frame')
+    expect(s.since?.toISOString()).toBe(at(0))
+    expect(s.stuck).toBe(false)
+  })
+  it('flags a started rig that has not moved for longer than a lesson', () => {
+    const touched = { retired: false, lastActivityAt: at(0) }
+    expect(rigState([], openedAt, touched, later).stuck).toBe(true)
+    const ticked = [{ step: 'frame' as const, doneAt: at(0) }]
+    const s = rigState(ticked, openedAt, { retired: false, lastActivityAt: null }, later)
+    expect(s).toMatchObject({ stuck: true, progress: { done: 1, current: 'linkage' } })
+  })
+  it('takes the opening from the first rig made', () => {
+    const rigs = [{ createdAt: new Date(at(9)) }, { createdAt: new Date(at(2)) }]
+    expect(openedAtOf(rigs).toISOString()).toBe(at(2))
   })
 })
 

@@ -1,11 +1,7 @@
 // The build spaces the caller teaches (their school's orders with rigs) or builds in (with
 // their own rigs), each with a progress summary. Staff reach spaces through the orders.
 import { desc, eq, inArray } from 'drizzle-orm'
-import {
-  currentStepSince,
-  isStuck,
-  rigProgress,
-} from '../../../shared/utils/build'
+import { openedAtOf, rigState } from '../../../shared/utils/build'
 import type { BuildSpaceSummary, SpaceRig } from '../../../shared/types/build'
 import { orders, rigs } from '../../database/schema'
 
@@ -41,11 +37,15 @@ export default defineEventHandler(async (event): Promise<BuildSpaceSummary[]> =>
     const mine = allRigs
       .filter(r => r.orderId === o.id)
       .sort((a, b) => a.serial.localeCompare(b.serial))
-    const openedAt = new Date(Math.min(...mine.map(r => r.createdAt.getTime())))
+    const openedAt = openedAtOf(mine)
     const state = mine.map((rig) => {
-      const s = steps.filter(x => x.rigId === rig.id)
-      const since = currentStepSince(s, openedAt)
-      return { rig, current: rigProgress(s).current, stuck: isStuck(since, !!rig.retiredAt, now) }
+      const { progress, stuck } = rigState(
+        steps.filter(x => x.rigId === rig.id),
+        openedAt,
+        { retired: !!rig.retiredAt, lastActivityAt: rig.lastActivityAt },
+        now,
+      )
+      return { rig, current: progress.current, stuck }
     })
     const myRigIds = new Set(
       memberships.filter(m => m.orderId === o.id && m.rigId !== null).map(m => m.rigId),

@@ -5,12 +5,7 @@
 import { and, desc, eq, inArray } from 'drizzle-orm'
 import { idParams } from '../../../../shared/schemas/ids'
 import { boardQuerySchema } from '../../../../shared/schemas/build'
-import {
-  boardRows,
-  currentStepSince,
-  isStuck,
-  rigProgress,
-} from '../../../../shared/utils/build'
+import { boardRows, openedAtOf, rigState } from '../../../../shared/utils/build'
 import type { BoardReply, BoardRig } from '../../../../shared/types/build'
 import { joinCodes, rigs, tuningSheets } from '../../../database/schema'
 
@@ -37,11 +32,15 @@ export default defineEventHandler(async (event): Promise<BoardReply> => {
       : Promise.resolve([]),
     spaceRefOf(db, order),
   ])
-  const openedAt = new Date(Math.min(...rigRows.map(r => r.createdAt.getTime())))
+  const openedAt = openedAtOf(rigRows)
   const all: BoardRig[] = rigRows.map((rig) => {
     const mine = steps.filter(s => s.rigId === rig.id)
-    const progress = rigProgress(mine)
-    const since = currentStepSince(mine, openedAt)
+    const { progress, since, stuck } = rigState(
+      mine,
+      openedAt,
+      { retired: !!rig.retiredAt, lastActivityAt: rig.lastActivityAt },
+      now,
+    )
     const latest = sheets.find(s => s.rigId === rig.id)
     return {
       id: rig.id,
@@ -54,7 +53,7 @@ export default defineEventHandler(async (event): Promise<BoardReply> => {
       total: progress.total,
       currentStep: progress.current,
       currentSince: since?.toISOString() ?? null,
-      stuck: isStuck(since, !!rig.retiredAt, now),
+      stuck,
       latestSheet: latest
         ? {
             id: latest.id,
