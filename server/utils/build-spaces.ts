@@ -399,7 +399,10 @@ export async function liveJoinCode(db: DbOrTx, code: string, lock = false) {
   const q = db.select().from(joinCodes).where(eq(joinCodes.code, code)).limit(1)
   const [c] = lock ? await q.for('update') : await q
   if (!c || !isCodeLive(c)) throw badJoinCode()
-  return { c, order: (await loadOrder(db, c.orderId))! }
+  const order = (await loadOrder(db, c.orderId))!
+  // A cancelled order's build space takes no new builders.
+  if (order.status === 'cancelled' || order.status === 'rejected') throw badJoinCode()
+  return { c, order }
 }
 
 /** The key join-code guesses are counted under, beside each address (no account or username

@@ -129,6 +129,13 @@ describe('join codes', () => {
       expect(j.status, code).toBe(422)
       expect(j.body.data.fields.code).toMatch(/does not work/)
     }
+    // A live code of an order that was since cancelled takes no one either.
+    const { teacher: t2, orderId: cancelled } = await orderOfKits('deadc', 1)
+    const live = await newCode(t2.client, cancelled)
+    expect((await new Client().post('/api/join/check', { code: live.code })).status).toBe(200)
+    await sql('UPDATE orders SET status = ? WHERE id = ?', ['cancelled', cancelled])
+    expect((await join(live.code)).status).toBe(422)
+
     const malformed = await new Client().post('/api/join/check', { code: 'O0I1' })
     expect(malformed.status).toBe(422)
     expect(malformed.body.data.fields.code).toBeTruthy()
