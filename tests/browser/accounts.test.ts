@@ -1,26 +1,14 @@
 // A person's walk through issue 8, in two browsers at once (a school laptop and a phone):
 // sign in on both, reset the password on one (which signs the other out), sign in again and
 // sign out everywhere. Screenshots go to tests/.artifacts/accounts/.
-import { mkdirSync } from 'node:fs'
-import { resolve } from 'node:path'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser, Page } from 'playwright-core'
-import { gotoReady, launch, signInThroughPage } from '../helpers/browser'
+
+import { describe, expect, it } from 'vitest'
+import { artifacts, gotoReady, launchForFile, signInThroughPage } from '../helpers/browser'
 import { Client, uniqueEmail } from '../helpers/client'
 import { linkIn, waitForMail } from '../helpers/mail'
 
-const shots = resolve(import.meta.dirname, '../.artifacts/accounts')
-mkdirSync(shots, { recursive: true })
-const shot = (page: Page, name: string) =>
-  page.screenshot({ path: resolve(shots, `${name}.png`), fullPage: true })
-
-let browser: Browser
-beforeAll(async () => {
-  browser = await launch()
-})
-afterAll(async () => {
-  await browser?.close()
-})
+const { shot } = artifacts('accounts')
+const browser = await launchForFile()
 
 describe('sign-in, reset and sign-out in two browsers at once', () => {
   it(

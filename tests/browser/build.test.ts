@@ -3,36 +3,25 @@
 // checklist steps with a note and saves a tuning sheet to the rig from the Gain Planner; the
 // teacher's board shows it after its next refresh. Screenshots go to tests/.artifacts/build/
 // for a person to look at.
-import { mkdirSync } from 'node:fs'
-import { resolve } from 'node:path'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser, Page } from 'playwright-core'
+import { describe, expect, it } from 'vitest'
+import type { Page } from 'playwright-core'
 import type { BoardReply, BuildSpaceSummary, RigView } from '../../shared/types/build'
 import {
   accessibilityViolations,
+  artifacts,
   gotoReady,
-  launch,
+  launchForFile,
   signInThroughPage,
   url,
 } from '../helpers/browser'
 import { sql } from '../helpers/db'
 
-const shots = resolve(import.meta.dirname, '../.artifacts/build')
-mkdirSync(shots, { recursive: true })
-let browser: Browser
-beforeAll(async () => {
-  browser = await launch()
-})
-afterAll(async () => {
-  await browser?.close()
-})
+const { shot } = artifacts('build')
+const browser = await launchForFile()
 
 const desktop = { width: 1280, height: 800 }
 const projector = { width: 1920, height: 1080 }
 const phone = { width: 390, height: 844 }
-async function shot(page: Page, name: string) {
-  await page.screenshot({ path: resolve(shots, `${name}.png`), fullPage: true })
-}
 const scrollsSideways = (page: Page) =>
   page.evaluate(() => document.documentElement.scrollWidth > document.documentElement.clientWidth)
 
@@ -148,6 +137,24 @@ describe('a class builds in the browser', () => {
     )
     expect(await accessibilityViolations(board)).toEqual([])
     await shot(board, 'board-desktop')
+
+    // A filter shows only the rigs on that step, and stays in the address.
+    const cards = board.getByTestId('board-rig')
+    const before = await cards.count()
+    await board.locator('#board-step').selectOption('wiring')
+    await board.waitForURL(u => u.searchParams.get('step') === 'wiring')
+    const onWiring = await cards.allTextContents()
+    expect(onWiring.length).toBeGreaterThan(0)
+    expect(onWiring.length).toBeLessThan(before)
+    expect(onWiring.every(t => t.includes('Wiring'))).toBe(true)
+    expect(onWiring.some(t => t.includes(rig.serial))).toBe(true)
+    // A reload (or the link shared) shows the same filter.
+    await gotoReady(board, new URL(board.url()).pathname + new URL(board.url()).search)
+    expect(await board.locator('#board-step').inputValue()).toBe('wiring')
+    expect(await cards.allTextContents()).toHaveLength(onWiring.length)
+    await board.locator('#board-step').selectOption('')
+    await board.waitForURL(u => !u.searchParams.has('step'))
+    expect(await cards.count()).toBe(before)
 
     // Printed, the board is a table on one landscape page, without the controls.
     await board.emulateMedia({ media: 'print' })

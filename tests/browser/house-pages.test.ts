@@ -1,24 +1,22 @@
 // The pages issue 9 put in order: sign-out forgets the planner draft on a shared classroom
 // computer even when the planner was not opened since the last reload, and the tables read on
 // a phone (390×844) and a laptop (1280×800). Screenshots go to tests/.artifacts/house-pages/.
-import { mkdirSync } from 'node:fs'
-import { resolve } from 'node:path'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser } from 'playwright-core'
-import { accessibilityViolations, gotoReady, launch, signInThroughPage } from '../helpers/browser'
 
-const shots = resolve(import.meta.dirname, '../.artifacts/house-pages')
-mkdirSync(shots, { recursive: true })
+import { resolve } from 'node:path'
+import { describe, expect, it } from 'vitest'
+import {
+  accessibilityViolations,
+  artifacts,
+  gotoReady,
+  launchForFile,
+  signInThroughPage,
+} from '../helpers/browser'
+
+const { dir: shots } = artifacts('house-pages')
 
 const PLANNER_KEY = 'tiltwright.planner.v1'
 
-let browser: Browser
-beforeAll(async () => {
-  browser = await launch()
-})
-afterAll(async () => {
-  await browser?.close()
-})
+const browser = await launchForFile()
 
 describe('signing out of a shared computer', () => {
   it('clears the planner draft though the planner was not opened since the reload', async () => {

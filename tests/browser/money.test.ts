@@ -2,26 +2,15 @@
 // quote, ordered from the quote with a purchase order, approved (invoice issued), then
 // cancelled by the admin with a reason after confirming; the teacher sees the invoice void and
 // the simulator's invoice page refuses payment. Screenshots go to tests/.artifacts/money/.
-import { mkdirSync, writeFileSync } from 'node:fs'
+import { writeFileSync } from 'node:fs'
 import { resolve } from 'node:path'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser, Page } from 'playwright-core'
-import { gotoReady, launch, signInThroughPage } from '../helpers/browser'
+import { describe, expect, it } from 'vitest'
+import { artifacts, gotoReady, launchForFile, signInThroughPage } from '../helpers/browser'
 import { waitForMail } from '../helpers/mail'
 import { PDF_BYTES, newTeacher, pdfText, productWithStock, signedIn } from '../helpers/shop'
 
-const shots = resolve(import.meta.dirname, '../.artifacts/money')
-mkdirSync(shots, { recursive: true })
-let browser: Browser
-beforeAll(async () => {
-  browser = await launch()
-})
-afterAll(async () => {
-  await browser?.close()
-})
-const shot = (page: Page, name: string) =>
-  page.screenshot({ path: resolve(shots, `${name}.png`), fullPage: true })
-
+const { dir: shots, shot } = artifacts('money')
+const browser = await launchForFile()
 describe('a purchase order from quote to void', () => {
   it(
     'walks a teacher and an admin from a saved quote to a cancelled order whose '

@@ -1,24 +1,17 @@
 // The Gain Planner as a builder uses it: change a measurement, see the suggestion and the
 // plots change at once; phone-sized without sideways scrolling; no serious a11y findings;
 // planning for a rig of the demo build space (?rig=) and getting the draft back.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser } from 'playwright-core'
+import { describe, expect, it } from 'vitest'
 import {
   accessibilityViolations,
   gotoReady,
-  launch,
+  launchForFile,
   signInThroughPage,
   url,
 } from '../helpers/browser'
 import { sql } from '../helpers/db'
 
-let browser: Browser
-beforeAll(async () => {
-  browser = await launch()
-})
-afterAll(async () => {
-  await browser?.close()
-})
+const browser = await launchForFile()
 
 describe('Gain Planner page', () => {
   it('re-plans and redraws when a measurement changes', async () => {

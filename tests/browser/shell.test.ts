@@ -1,22 +1,15 @@
 // A person's view of the shell: signing in through the page, the role's navigation,
 // field errors tied to their inputs, and an automated accessibility check.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser } from 'playwright-core'
+import { describe, expect, it } from 'vitest'
 import {
   accessibilityViolations,
   gotoReady,
-  launch,
+  launchForFile,
   signInThroughPage,
   url,
 } from '../helpers/browser'
 
-let browser: Browser
-beforeAll(async () => {
-  browser = await launch()
-})
-afterAll(async () => {
-  await browser?.close()
-})
+const browser = await launchForFile()
 
 const navFor: Record<string, { has: string[], lacks: string[] }> = {
   teacher: { has: ['Gain Planner'], lacks: ['Staff desk', 'Staff accounts'] },

@@ -3,30 +3,25 @@
 // cart and the kit page counts it against the stock; an out-of-stock kit offers a quote for the
 // next batch; the home page's steps fill their grid; shipments are recorded with a carrier from
 // the list and link its tracking page. Screenshots go to tests/.artifacts/shop-edges/.
-import { mkdirSync } from 'node:fs'
-import { resolve } from 'node:path'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser, Page } from 'playwright-core'
-import { accessibilityViolations, gotoReady, launch, signInThroughPage } from '../helpers/browser'
+
+import { beforeAll, describe, expect, it } from 'vitest'
+import type { Page } from 'playwright-core'
+import {
+  accessibilityViolations,
+  artifacts,
+  gotoReady,
+  launchForFile,
+  signInThroughPage,
+} from '../helpers/browser'
 import type { Client } from '../helpers/client'
 import { newTeacher, poForm, productWithStock, signedIn } from '../helpers/shop'
 
-const shots = resolve(import.meta.dirname, '../.artifacts/shop-edges')
-mkdirSync(shots, { recursive: true })
-let browser: Browser
-beforeAll(async () => {
-  browser = await launch()
-})
-afterAll(async () => {
-  await browser?.close()
-})
+const { shot } = artifacts('shop-edges')
+const browser = await launchForFile()
 const SIZES = [
   { name: 'phone', viewport: { width: 390, height: 844 } },
   { name: 'desktop', viewport: { width: 1280, height: 800 } },
 ] as const
-const shot = (page: Page, name: string) =>
-  page.screenshot({ path: resolve(shots, `${name}.png`), fullPage: true })
-
 async function pageAt(viewport: { width: number, height: number }) {
   const ctx = await browser.newContext({ viewport })
   return { ctx, page: await ctx.newPage() }

@@ -1,21 +1,14 @@
 // The shop pages' QA fixes in the browser: the admin catalog form recovers as it is corrected,
 // the cart says what is wrong with a quantity instead of changing it, pages a role cannot use
 // are not found, and the tables fit a phone. Screenshots go to tests/.artifacts/shop/.
-import { mkdirSync } from 'node:fs'
-import { resolve } from 'node:path'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser, Page } from 'playwright-core'
-import { gotoReady, launch, signInThroughPage } from '../helpers/browser'
 
-const shots = resolve(import.meta.dirname, '../.artifacts/shop')
-mkdirSync(shots, { recursive: true })
-let browser: Browser
-beforeAll(async () => {
-  browser = await launch()
-})
-afterAll(async () => {
-  await browser?.close()
-})
+import { resolve } from 'node:path'
+import { describe, expect, it } from 'vitest'
+import type { Page } from 'playwright-core'
+import { artifacts, gotoReady, launchForFile, signInThroughPage } from '../helpers/browser'
+
+const { dir: shots } = artifacts('shop')
+const browser = await launchForFile()
 const phone = { width: 390, height: 844 }
 
 /** Opens a page on a phone as `email`: the page must not scroll sideways, and `last` (its

@@ -2,22 +2,14 @@
 // same lines; leaving the payment page comes back to the order, whose "Pay now" works and whose
 // cart is kept until it is paid; the teacher corrects the school's address. Screenshots go to
 // tests/.artifacts/shop/.
-import { mkdirSync } from 'node:fs'
+
 import { resolve } from 'node:path'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser } from 'playwright-core'
-import { gotoReady, launch, signInThroughPage } from '../helpers/browser'
+import { describe, expect, it } from 'vitest'
+import { artifacts, gotoReady, launchForFile, signInThroughPage } from '../helpers/browser'
 import { newTeacher, poForm, productWithStock, signedIn } from '../helpers/shop'
 
-const shots = resolve(import.meta.dirname, '../.artifacts/shop')
-mkdirSync(shots, { recursive: true })
-let browser: Browser
-beforeAll(async () => {
-  browser = await launch()
-})
-afterAll(async () => {
-  await browser?.close()
-})
+const { dir: shots } = artifacts('shop')
+const browser = await launchForFile()
 const PASSWORD = 'a-long-password-1' // newTeacher's
 
 describe('paperwork in the browser', () => {

@@ -1,34 +1,23 @@
 // A teacher in the browser: from the catalog to a paid order by card on the fake's page, and
 // through a purchase order that an admin approves and ships. Screenshots of each step go to
 // tests/.artifacts/shop/ (desktop and phone) for a person to look at.
-import { mkdirSync } from 'node:fs'
-import { resolve } from 'node:path'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser, BrowserContext, Page } from 'playwright-core'
+import { describe, expect, it } from 'vitest'
+import type { BrowserContext } from 'playwright-core'
 import {
   accessibilityViolations,
+  artifacts,
   gotoReady,
-  launch,
+  launchForFile,
   signInThroughPage,
 } from '../helpers/browser'
 import { waitForMail } from '../helpers/mail'
 import { PDF_BYTES } from '../helpers/shop'
 
-const shots = resolve(import.meta.dirname, '../.artifacts/shop')
-mkdirSync(shots, { recursive: true })
-let browser: Browser
-beforeAll(async () => {
-  browser = await launch()
-})
-afterAll(async () => {
-  await browser?.close()
-})
+const { shot } = artifacts('shop')
+const browser = await launchForFile()
 
 const desktop = { width: 1366, height: 900 }
 const phone = { width: 390, height: 844 }
-async function shot(page: Page, name: string) {
-  await page.screenshot({ path: resolve(shots, `${name}.png`), fullPage: true })
-}
 async function context(viewport = desktop): Promise<BrowserContext> {
   return browser.newContext({ viewport })
 }

@@ -3,30 +3,24 @@
 // page; an empty list says so), support sees no order lists, and on the staff page an admin
 // sees each colleague's status, changes a role, disables (after confirming) and enables an
 // account, and reads the server's refusal. Screenshots go to tests/.artifacts/shop-edges/.
-import { mkdirSync } from 'node:fs'
-import { resolve } from 'node:path'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Browser, Page } from 'playwright-core'
-import { accessibilityViolations, gotoReady, launch, signInThroughPage } from '../helpers/browser'
+
+import { beforeAll, describe, expect, it } from 'vitest'
+import {
+  accessibilityViolations,
+  artifacts,
+  gotoReady,
+  launchForFile,
+  signInThroughPage,
+} from '../helpers/browser'
 import { uniqueEmail } from '../helpers/client'
 import { newTeacher, poForm, productWithStock, signedIn } from '../helpers/shop'
 
-const shots = resolve(import.meta.dirname, '../.artifacts/shop-edges')
-mkdirSync(shots, { recursive: true })
-let browser: Browser
-beforeAll(async () => {
-  browser = await launch()
-})
-afterAll(async () => {
-  await browser?.close()
-})
+const { shot } = artifacts('shop-edges')
+const browser = await launchForFile()
 const SIZES = [
   { name: 'phone', viewport: { width: 390, height: 844 } },
   { name: 'desktop', viewport: { width: 1280, height: 800 } },
 ] as const
-const shot = (page: Page, name: string) =>
-  page.screenshot({ path: resolve(shots, `${name}.png`), fullPage: true })
-
 async function signedInPage(email: string, viewport: { width: number, height: number }) {
   const ctx = await browser.newContext({ viewport })
   const page = await ctx.newPage()

@@ -1,8 +1,9 @@
 // Debian's Chromium driven by playwright-core, plus an axe-core accessibility check.
-import { readFileSync } from 'node:fs'
+import { mkdirSync, readFileSync } from 'node:fs'
 import { createRequire } from 'node:module'
+import { resolve } from 'node:path'
 import { chromium, type Browser, type Page } from 'playwright-core'
-import { inject } from 'vitest'
+import { afterAll, inject } from 'vitest'
 
 const axeSource = readFileSync(
   createRequire(import.meta.url).resolve('axe-core/axe.min.js'),
@@ -71,4 +72,23 @@ export async function signInThroughPage(page: Page, email: string, password = 't
   await page.getByLabel('Password').fill(password)
   await page.getByRole('button', { name: 'Sign in' }).click()
   await page.waitForURL(u => !u.pathname.startsWith('/login'))
+}
+
+/** Chromium for one test file: launched as the file starts, closed after its last test. */
+export async function launchForFile(): Promise<Browser> {
+  const browser = await launch()
+  afterAll(async () => {
+    await browser.close()
+  })
+  return browser
+}
+
+/** A test file's folder under tests/.artifacts/, and a whole-page screenshot into it, for a
+ *  person to look at. */
+export function artifacts(folder: string) {
+  const dir = resolve(import.meta.dirname, '../.artifacts', folder)
+  mkdirSync(dir, { recursive: true })
+  const shot = (page: Page, name: string) =>
+    page.screenshot({ path: resolve(dir, `${name}.png`), fullPage: true })
+  return { dir, shot }
 }
