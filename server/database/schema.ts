@@ -8,8 +8,12 @@ import {
   JOB_STATES,
   PO_STATUSES,
   PRODUCT_KINDS,
+  ATTACHMENT_KINDS,
   RESERVATION_STATUSES,
+  SHIPMENT_KINDS,
   TAX_EXEMPTION_STATES,
+  TICKET_PRIORITIES,
+  TICKET_STATUSES,
   TOKEN_PURPOSES,
   UPLOAD_KINDS,
 } from '../../shared/utils/states'
@@ -442,6 +446,8 @@ export const stockReservations = mysqlTable(
       .references(() => batches.id),
     quantity: int('quantity').notNull(),
     status: mysqlEnum('status', RESERVATION_STATUSES).notNull().default('reserved'),
+    /** The replacement shipment these units left in (status `sent`). */
+    shipmentId: ref('shipment_id'),
     createdAt: createdAt(),
   },
   t => [
@@ -475,12 +481,31 @@ export const shipments = mysqlTable(
       .references(() => orders.id),
     carrier: varchar('carrier', { length: 60 }).notNull(),
     tracking: varchar('tracking', { length: 80 }).notNull(),
+    /** The order's goods, or free replacement parts sent from a ticket (`ticketId`). */
+    kind: mysqlEnum('kind', SHIPMENT_KINDS).notNull().default('order'),
+    ticketId: ref('ticket_id'),
     createdById: ref('created_by_id')
       .notNull()
       .references(() => users.id),
     shippedAt: createdAt(),
   },
-  t => [index('shipments_order_idx').on(t.orderId)],
+  t => [index('shipments_order_idx').on(t.orderId), index('shipments_ticket_idx').on(t.ticketId)],
+)
+
+/** What a replacement shipment carried (an order's own shipment carries its lines). */
+export const shipmentItems = mysqlTable(
+  'shipment_items',
+  {
+    id: id(),
+    shipmentId: ref('shipment_id')
+      .notNull()
+      .references(() => shipments.id),
+    productId: ref('product_id')
+      .notNull()
+      .references(() => products.id),
+    quantity: int('quantity').notNull(),
+  },
+  t => [index('shipment_items_shipment_idx').on(t.shipmentId)],
 )
 
 export const purchaseOrders = mysqlTable(
@@ -646,4 +671,117 @@ export const joinCodes = mysqlTable(
     uniqueIndex('join_codes_code_unique').on(t.code),
     index('join_codes_order_idx').on(t.orderId),
   ],
+)
+
+// ── Tickets: a builder or teacher asks for help on a rig or an order; support answers ──────
+// docs/tickets.md. The customer side never reads a row of ticket_messages with internal = true.
+
+export const tickets = mysqlTable(
+  'tickets',
+  {
+    id: id(),
+    /** The school whose teacher sees it (the order's school). */
+    schoolId: ref('school_id')
+      .notNull()
+      .references(() => schools.id),
+    orderId: ref('order_id')
+      .notNull()
+      .references(() => orders.id),
+    /** The rig it is about; null for a ticket on the order as a whole. */
+    rigId: ref('rig_id'),
+    subject: varchar('subject', { length: 120 }).notNull(),
+    status: mysqlEnum('status', TICKET_STATUSES).notNull().default('needs reply'),
+    priority: mysqlEnum('priority', TICKET_PRIORITIES).notNull().default('normal'),
+    /** The staff member working it; null while unassigned. */
+    assigneeId: ref('assignee_id'),
+    openedById: ref('opened_by_id')
+      .notNull()
+      .references(() => users.id),
+    createdAt: createdAt(),
+    /** The last message or note (the queue's "last activity"). */
+    lastMessageAt: datetime('last_message_at', { mode: 'date', fsp: 3 })
+      .notNull()
+      .default(sql`CURRENT_TIMESTAMP(3)`),
+    /** When the status last changed (the queue's "waiting since"). */
+    statusChangedAt: datetime('status_changed_at', { mode: 'date', fsp: 3 })
+      .notNull()
+      .default(sql`CURRENT_TIMESTAMP(3)`),
+    resolvedAt: datetime('resolved_at', { mode: 'date', fsp: 3 }),
+  },
+  t => [
+    index('tickets_school_idx').on(t.schoolId, t.createdAt),
+    index('tickets_order_idx').on(t.orderId),
+    index('tickets_rig_idx').on(t.rigId),
+    index('tickets_queue_idx').on(t.status, t.priority, t.createdAt),
+    index('tickets_assignee_idx').on(t.assigneeId, t.status),
+  ],
+)
+
+/** A ticket's thread: messages both sides see, and the staff's internal notes. */
+export const ticketMessages = mysqlTable(
+  'ticket_messages',
+  {
+    id: id(),
+    ticketId: ref('ticket_id')
+      .notNull()
+      .references(() => tickets.id),
+    authorId: ref('author_id')
+      .notNull()
+      .references(() => users.id),
+    /** A staff note: never in a customer's reply, page or e-mail. */
+    internal: boolean('internal').notNull().default(false),
+    body: text('body').notNull(),
+    /** A tuning sheet attached to the message (staff see it inline). */
+    sheetId: ref('sheet_id'),
+    /** The stock reply the staff member started from, if any. */
+    stockReplyId: ref('stock_reply_id'),
+    createdAt: createdAt(),
+  },
+  t => [index('ticket_messages_ticket_idx').on(t.ticketId, t.createdAt)],
+)
+
+/** A file sent with a message: uploaded first (no message yet, only its uploader sees it), then
+ *  claimed by the message that sends it. Kept in Nitro storage under `storageKey`. */
+export const ticketAttachments = mysqlTable(
+  'ticket_attachments',
+  {
+    id: id(),
+    ticketId: ref('ticket_id'),
+    messageId: ref('message_id'),
+    kind: mysqlEnum('kind', ATTACHMENT_KINDS).notNull(),
+    storageKey: varchar('storage_key', { length: 120 }).notNull(),
+    filename: varchar('filename', { length: 200 }).notNull(),
+    contentType: varchar('content_type', { length: 80 }).notNull(),
+    size: int('size').notNull(),
+    /** Pixels, for images (checked against a limit before storing). */
+    width: int('width'),
+    height: int('height'),
+    uploadedById: ref('uploaded_by_id')
+      .notNull()
+      .references(() => users.id),
+    createdAt: createdAt(),
+  },
+  t => [
+    index('ticket_attachments_message_idx').on(t.messageId),
+    index('ticket_attachments_uploader_idx').on(t.uploadedById, t.messageId),
+  ],
+)
+
+/** Saved answers support inserts into a reply and edits before sending. */
+export const stockReplies = mysqlTable(
+  'stock_replies',
+  {
+    id: id(),
+    title: varchar('title', { length: 80 }).notNull(),
+    body: text('body').notNull(),
+    createdById: ref('created_by_id')
+      .notNull()
+      .references(() => users.id),
+    updatedAt: datetime('updated_at', { mode: 'date', fsp: 3 })
+      .notNull()
+      .default(sql`CURRENT_TIMESTAMP(3)`),
+    archivedAt: datetime('archived_at', { mode: 'date', fsp: 3 }),
+    createdAt: createdAt(),
+  },
+  t => [uniqueIndex('stock_replies_title_unique').on(t.title)],
 )

@@ -19,12 +19,19 @@ export default defineEventHandler(async (event) => {
   const boundary = type.startsWith('multipart/form-data')
     ? (type.match(/boundary="?([^";]+)"?/i)?.[1] ?? null)
     : null
-  const limit = boundary ? BODY_LIMITS.multipartBytes : BODY_LIMITS.bodyBytes
+  // A ticket attachment is one file that may be a short video: its own, larger limits.
+  const attachment = boundary && event.path.split('?')[0] === ATTACHMENT_UPLOAD_PATH
+  const limit = attachment
+    ? BODY_LIMITS.attachmentBytes
+    : boundary
+      ? BODY_LIMITS.multipartBytes
+      : BODY_LIMITS.bodyBytes
+  const partLimit = attachment ? BODY_LIMITS.attachmentBytes : BODY_LIMITS.partBytes
   const declared = Number(getRequestHeader(event, 'content-length') || 0)
   if (declared > limit) throw tooLarge(event, limit)
   const chunked = /chunked/i.test(getRequestHeader(event, 'transfer-encoding') ?? '')
   if (!declared && !chunked) return
-  const body = await readBodyWithin(event, limit, boundary)
+  const body = await readBodyWithin(event, limit, boundary, partLimit)
   // h3 takes a Buffer here as it is (readRawBody checks Buffer.isBuffer first).
   if (body.length) event._requestBody = body as unknown as BodyInit
 })

@@ -3,6 +3,7 @@
 // refused with 413 the moment it passes the limit, so nothing past the limit is ever kept.
 import type { H3Event } from 'h3'
 import { UPLOAD_LIMIT_BYTES } from '../../shared/schemas/shop'
+import { ATTACHMENT_MAX_BYTES } from '../../shared/utils/tickets'
 
 export const BODY_LIMITS = {
   /** JSON, form and any other non-multipart body. */
@@ -11,7 +12,13 @@ export const BODY_LIMITS = {
   multipartBytes: 12_000_000,
   /** One part of a multipart request: one file plus its part headers. */
   partBytes: UPLOAD_LIMIT_BYTES + 16_384,
+  /** A ticket attachment's upload (POST /api/ticket-attachments): one file, up to the largest
+   *  kind's limit (a short video); the route then holds each kind to its own limit. */
+  attachmentBytes: ATTACHMENT_MAX_BYTES + 65_536,
 }
+
+/** The paths whose multipart bodies may be as large as one ticket attachment. */
+export const ATTACHMENT_UPLOAD_PATH = '/api/ticket-attachments'
 
 /** How long the rest of a refused body may keep arriving (read and dropped, never kept) after the
  *  413 has gone out. Closing at once would reset the connection under the client before it has
@@ -61,9 +68,10 @@ export function readBodyWithin(
   event: H3Event,
   limit: number,
   boundary: string | null,
+  partLimit: number = BODY_LIMITS.partBytes,
 ): Promise<Buffer> {
   const req = event.node.req
-  const partOk = boundary ? partWatcher(boundary, BODY_LIMITS.partBytes) : () => true
+  const partOk = boundary ? partWatcher(boundary, partLimit) : () => true
   return new Promise((resolve, reject) => {
     const chunks: Buffer[] = []
     let total = 0
@@ -74,7 +82,7 @@ export function readBodyWithin(
     const onData = (chunk: Buffer) => {
       total += chunk.length
       if (total > limit) return refuse(limit)
-      if (!partOk(chunk)) return refuse(BODY_LIMITS.partBytes)
+      if (!partOk(chunk)) return refuse(partLimit)
       chunks.push(chunk)
     }
     req.on('data', onData)

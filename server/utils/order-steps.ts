@@ -57,10 +57,12 @@ export interface StepActor {
 
 export const SYSTEM: StepActor = { kind: 'system', id: null, name: 'Tiltwright' }
 
-/** The step's actor for a signed-in user; support staff take no order steps. */
+/** The step's actor for a signed-in user; support staff take only the steps the order flow gives
+ *  them (replacement parts). */
 export function actorOf(user: SessionUser): StepActor {
   if (user.role === 'admin') return { kind: 'admin', id: user.id, name: user.name }
   if (user.role === 'teacher') return { kind: 'teacher', id: user.id, name: user.name }
+  if (user.role === 'support') return { kind: 'support', id: user.id, name: user.name }
   throw forbidden('Your role cannot change orders.')
 }
 

@@ -1,11 +1,13 @@
 // Order queries that the order engine (order-steps.ts) and the routes share: stock
 // reservation under row locks, the checkout's lines and money, the timeline, the order's view.
-import { and, asc, eq, inArray } from 'drizzle-orm'
+import { and, asc, eq, inArray, type SQL } from 'drizzle-orm'
 import type { H3Event } from 'h3'
 import {
   batches,
   orderEvents,
   orderLines,
+  products,
+  shipmentItems,
   orders,
   purchaseOrders,
   quoteLines,
@@ -17,6 +19,7 @@ import {
   users,
 } from '../database/schema'
 import type {
+  ShipmentView,
   AdminOrderReply,
   OrderDocument,
   OrderSummary,
@@ -302,11 +305,7 @@ export async function orderView(
       .from(orderEvents)
       .where(eq(orderEvents.orderId, order.id))
       .orderBy(asc(orderEvents.createdAt), asc(orderEvents.id)),
-    db
-      .select()
-      .from(shipments)
-      .where(eq(shipments.orderId, order.id))
-      .orderBy(asc(shipments.shippedAt)),
+    shipmentViews(db, eq(shipments.orderId, order.id)),
     db
       .select({ r: stockReservations, code: batches.code })
       .from(stockReservations)
@@ -391,12 +390,7 @@ export async function orderView(
       message: e.message,
       createdAt: e.createdAt.toISOString(),
     })),
-    shipments: ships.map(s => ({
-      id: s.id,
-      ...shipmentCarrier(s.carrier, s.tracking),
-      tracking: s.tracking,
-      shippedAt: s.shippedAt.toISOString(),
-    })),
+    shipments: ships,
     documents: docs,
     payUrl: canSeeOrderDocuments(user, order) ? payUrl : null,
     invoice: order.invoiceId
@@ -488,4 +482,34 @@ export function orderRowOf(r: {
     poNumber: r.poNumber,
     paid: !!r.o.paidAt,
   }
+}
+
+/** Shipments as the pages show them, oldest first: the order's own and replacement parts sent
+ *  from tickets, each replacement with its parts. `where` picks them (an order's, a ticket's). */
+export async function shipmentViews(db: DbOrTx, where: SQL): Promise<ShipmentView[]> {
+  const ships = await db.select().from(shipments).where(where).orderBy(asc(shipments.shippedAt))
+  const ids = ships.filter(s => s.kind === 'replacement').map(s => s.id)
+  const items = ids.length
+    ? await db
+        .select({
+          shipmentId: shipmentItems.shipmentId,
+          name: products.name,
+          quantity: shipmentItems.quantity,
+        })
+        .from(shipmentItems)
+        .innerJoin(products, eq(products.id, shipmentItems.productId))
+        .where(inArray(shipmentItems.shipmentId, ids))
+        .orderBy(asc(shipmentItems.id))
+    : []
+  return ships.map(s => ({
+    id: s.id,
+    ...shipmentCarrier(s.carrier, s.tracking),
+    tracking: s.tracking,
+    shippedAt: s.shippedAt.toISOString(),
+    kind: s.kind,
+    items: items
+      .filter(i => i.shipmentId === s.id)
+      .map(i => ({ name: i.name, quantity: i.quantity })),
+    ticketId: s.ticketId,
+  }))
 }

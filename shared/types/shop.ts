@@ -7,6 +7,7 @@ import type { WayBack } from '../utils/resubmit'
 import type { ShipmentCarrier } from '../utils/shipments'
 import type {
   OrderDocumentKind,
+  ShipmentKind,
   PoStatus,
   ProductKind,
   ReservationStatus,
@@ -90,6 +91,12 @@ export interface ShipmentView extends ShipmentCarrier {
   id: number
   tracking: string
   shippedAt: string
+  /** The order's goods, or free replacement parts sent from a ticket. */
+  kind: ShipmentKind
+  /** A replacement's parts (empty for the order's own shipment, which carries its lines). */
+  items: { name: string, quantity: number }[]
+  /** The ticket a replacement answered; null for the order's own shipment. */
+  ticketId: number | null
 }
 export interface OrderDocument {
   kind: 'quote' | OrderDocumentKind | UploadKind

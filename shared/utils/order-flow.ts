@@ -43,6 +43,7 @@ export const ORDER_ACTIONS = [
   'cancel',
   'expire',
   'refund',
+  'sendReplacement',
 ] as const
 export type OrderAction = (typeof ORDER_ACTIONS)[number]
 
@@ -60,10 +61,12 @@ export const ACTION_EVENT: Record<OrderAction, string> = {
   cancel: 'cancelled',
   expire: 'cancelled',
   refund: 'refunded',
+  sendReplacement: 'replacement-shipped',
 }
 
-/** Who takes a step: the school's teacher, an admin, or Tiltwright itself (a webhook, a sweep). */
-export type Actor = 'teacher' | 'admin' | 'system'
+/** Who takes a step: the school's teacher, an admin, support staff (replacement parts only), or
+ *  Tiltwright itself (a webhook, a sweep). */
+export type Actor = 'teacher' | 'admin' | 'support' | 'system'
 
 export interface FlowRow {
   from: OrderStatus | null
@@ -199,6 +202,18 @@ export const ORDER_FLOW: readonly FlowRow[] = [
     wording:
       'The card payment was not completed within {reference} hours, so the order was cancelled.',
   },
+  // Free parts sent from a ticket, once the order is paid or its purchase order approved (its
+  // build space is open); the order's state does not change.
+  ...(['awaiting payment', 'paid', 'shipped', 'delivered'] as const).map(
+    (from): FlowRow => ({
+      from,
+      action: 'sendReplacement',
+      to: from,
+      who: ['support', 'admin'],
+      ...(from === 'awaiting payment' ? { method: PO } : {}),
+      wording: 'Replacement parts sent free by {actor}: {reference}.',
+    }),
+  ),
   ...CLOSED_STATUSES.map(
     (from): FlowRow => ({
       from,
