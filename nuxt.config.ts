@@ -24,6 +24,8 @@ export default defineNuxtConfig({
     'nuxt-security',
   ],
   ssr: true,
+  // components/tickets/Ticket*.vue keep their own names (TicketThread, not TicketsTicketThread).
+  components: [{ path: '~/components/tickets', pathPrefix: false }, '~/components'],
   devtools: { enabled: false },
   app: {
     head: {

@@ -30,9 +30,10 @@ export const canBuy = (u: Who) => u?.role === 'teacher'
 export const canSeePrices = (u: Who) => u?.role !== 'builder'
 
 /** Where each role starts after signing in: builders at their rigs (the planner is a click
- *  away), staff at their desk, teachers at home. */
+ *  away), support at the help queue, admins at their desk, teachers at home. */
 export function landingFor(u: Who): string {
   if (u?.role === 'builder') return '/rigs'
+  if (u?.role === 'support') return '/help-queue'
   if (isStaff(u)) return '/staff'
   return '/'
 }
@@ -69,6 +70,8 @@ export function navigationFor(u: Who): NavLink[] {
   if (canBuy(u)) links.push({ to: '/quotes', label: 'Quotes' }, { to: '/orders', label: 'Orders' })
   if (canBuy(u)) links.push({ to: '/rigs', label: 'Build spaces' })
   if (isCustomer(u)) links.push({ to: '/sheets', label: 'My sheets' })
+  if (isCustomer(u)) links.push({ to: '/tickets', label: 'Tickets' })
+  if (canUseHelpQueue(u)) links.push({ to: '/help-queue', label: 'Help queue' })
   if (isStaff(u)) links.push({ to: '/staff', label: 'Staff desk' })
   if (isAdmin(u)) links.push({ to: '/admin/staff', label: 'Staff accounts' })
   return links

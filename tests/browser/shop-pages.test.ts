@@ -173,7 +173,7 @@ describe('pages for the role', () => {
       for (const who of ['support', 'builder'] as const) {
         const page = await browser.newPage()
         await signInThroughPage(page, `${who}@tiltwright.test`)
-        if (who === 'support') expect(new URL(page.url()).pathname).toBe('/staff')
+        if (who === 'support') expect(new URL(page.url()).pathname).toBe('/help-queue')
         for (const path of ['/orders', '/quotes', '/cart', '/checkout']) {
           const reply = await gotoReady(page, path)
           expect({ who, path, status: reply?.status() }).toEqual({ who, path, status: 404 })

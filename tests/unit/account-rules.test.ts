@@ -83,7 +83,7 @@ describe('role words', () => {
     'lands builders at their rigs, staff at their desk, teachers at home; builders see '
     + 'no prices', () => {
       expect(landingFor({ role: 'builder' })).toBe('/rigs')
-      expect(landingFor({ role: 'support' })).toBe('/staff')
+      expect(landingFor({ role: 'support' })).toBe('/help-queue')
       expect(landingFor({ role: 'admin' })).toBe('/staff')
       expect(landingFor({ role: 'teacher' })).toBe('/')
       expect(canSeePrices({ role: 'builder' })).toBe(false)

@@ -36,6 +36,22 @@ describe('authorization rules', () => {
     expect(labels({ role: 'admin' })).toContain('Staff accounts')
   })
 
+  it('links customers to their tickets and the staff to the help queue', () => {
+    const links = (r: Parameters<typeof navigationFor>[0]) =>
+      navigationFor(r).map(l => `${l.label} ${l.to}`)
+    for (const role of ['teacher', 'builder'] as const) {
+      expect(links({ role })).toContain('Tickets /tickets')
+      expect(links({ role })).not.toContain('Help queue /help-queue')
+    }
+    for (const role of ['support', 'admin'] as const) {
+      expect(links({ role })).toContain('Help queue /help-queue')
+      expect(links({ role })).not.toContain('Tickets /tickets')
+    }
+    expect(links(null).some(l => l.includes('/tickets') || l.includes('/help-queue'))).toBe(false)
+    expect(landingFor({ role: 'support' })).toBe('/help-queue')
+    expect(landingFor({ role: 'admin' })).toBe('/staff')
+  })
+
   it('sends builders to their rigs and gives teachers the build spaces', () => {
     const links = (r: Parameters<typeof navigationFor>[0]) =>
       navigationFor(r).map(l => `${l.label} ${l.to}`)
