@@ -42,6 +42,8 @@ export default defineNuxtConfig({
     smtpUser: '',
     smtpPassword: '',
     mailFrom: 'Tiltwright <hello@tiltwright.test>',
+    /** Where new tickets and customers' messages on unassigned tickets are mailed. */
+    supportEmail: 'support@tiltwright.test',
     mailCatcherUrl: 'http://127.0.0.1:1080',
     /** First retry delay of a failed job (mail, provider call, webhook delivery); doubles after. */
     outboxRetryBaseMs: 15_000,

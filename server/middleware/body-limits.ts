@@ -31,6 +31,7 @@ export default defineEventHandler(async (event) => {
   if (declared > limit) throw tooLarge(event, limit)
   const chunked = /chunked/i.test(getRequestHeader(event, 'transfer-encoding') ?? '')
   if (!declared && !chunked) return
+  if (attachment) takeAttachmentSlot(event)
   const body = await readBodyWithin(event, limit, boundary, partLimit)
   // h3 takes a Buffer here as it is (readRawBody checks Buffer.isBuffer first).
   if (body.length) event._requestBody = body as unknown as BodyInit

@@ -3,7 +3,18 @@
 // Types are decided from the bytes, never from the name or the browser's claim.
 import { randomBytes } from 'node:crypto'
 import { fileTypeFromBuffer } from 'file-type'
+import { imageSize } from 'image-size'
 import { UPLOAD_LIMIT_BYTES, UPLOAD_TYPES } from '../../shared/schemas/shop'
+import {
+  ATTACHMENT_LIMIT_BYTES,
+  ATTACHMENT_RULE,
+  ATTACHMENT_TYPES,
+  formatBytes,
+  IMAGE_MAX_PIXELS,
+  IMAGE_MAX_SIDE,
+  type AttachmentType,
+} from '../../shared/utils/tickets'
+import type { AttachmentKind } from '../../shared/utils/states'
 
 export interface IncomingFile {
   filename?: string
@@ -11,12 +22,17 @@ export interface IncomingFile {
   data: Buffer
 }
 
-const EXTENSIONS: Record<(typeof UPLOAD_TYPES)[number], string> = {
+/** The extension a stored file's name gets, from its sniffed type. */
+const EXTENSIONS: Record<(typeof UPLOAD_TYPES)[number] | AttachmentType, string> = {
   'application/pdf': 'pdf',
   'image/png': 'png',
   'image/jpeg': 'jpg',
   'image/webp': 'webp',
+  'video/mp4': 'mp4',
+  'video/quicktime': 'mov',
+  'video/webm': 'webm',
 }
+type KnownType = keyof typeof EXTENSIONS
 
 /** A field error for an upload that is empty, too large or not a PDF or image; null when fine. */
 export async function uploadProblem(
@@ -43,7 +59,7 @@ export async function uploadProblem(
  *  characters, which could break the download's Content-Disposition header; the real extension. */
 export function safeFilename(
   original: string | undefined,
-  mime: (typeof UPLOAD_TYPES)[number],
+  mime: KnownType,
   fallback: string,
 ) {
   const base = (original ?? '')
@@ -54,6 +70,61 @@ export function safeFilename(
     .trim()
     .slice(0, 80)
   return `${base || fallback}.${EXTENSIONS[mime]}`
+}
+
+/** A ticket attachment that passed every check: its type and kind from the bytes, and an
+ *  image's declared size. */
+export interface CheckedAttachment {
+  mime: AttachmentType
+  kind: AttachmentKind
+  width: number | null
+  height: number | null
+}
+
+/**
+ * Judges a ticket attachment from its bytes: one of ATTACHMENT_TYPES (whatever the name or the
+ * browser says), within its kind's size limit, and an image no larger than IMAGE_MAX_SIDE on a
+ * side or IMAGE_MAX_PIXELS in all, read from its header without decoding it (a small file can
+ * claim a picture that would take gigabytes to decode). A problem is the words for `file`.
+ */
+export async function attachmentProblem(
+  file: IncomingFile | undefined,
+): Promise<{ problem: string } | CheckedAttachment> {
+  if (!file || !file.data.length) return { problem: `Choose a file to attach. ${ATTACHMENT_RULE}` }
+  const sniffed = await fileTypeFromBuffer(file.data)
+  const mime = sniffed?.mime as AttachmentType | undefined
+  if (!mime || !(mime in ATTACHMENT_TYPES))
+    return {
+      problem:
+        'This file is not a photo, video or PDF that Tiltwright accepts, whatever its name says. '
+        + ATTACHMENT_RULE,
+    }
+  const kind: AttachmentKind = ATTACHMENT_TYPES[mime]
+  const limit = ATTACHMENT_LIMIT_BYTES[kind]
+  if (file.data.length > limit)
+    return {
+      problem:
+        `This ${kind === 'pdf' ? 'PDF' : kind} is ${formatBytes(file.data.length)}; the limit is `
+        + `${formatBytes(limit)}. ${ATTACHMENT_RULE}`,
+    }
+  if (kind !== 'image') return { mime, kind, width: null, height: null }
+  let size: { width?: number, height?: number }
+  try {
+    size = imageSize(new Uint8Array(file.data.buffer, file.data.byteOffset, file.data.length))
+  } catch {
+    return { problem: 'This photo could not be read. Take or save it again, then attach it.' }
+  }
+  const width = size.width ?? 0
+  const height = size.height ?? 0
+  if (!width || !height) return { problem: 'This photo has no size in it, so it cannot be shown.' }
+  if (width > IMAGE_MAX_SIDE || height > IMAGE_MAX_SIDE || width * height > IMAGE_MAX_PIXELS)
+    return {
+      problem:
+        `This photo claims to be ${width} × ${height} pixels, more than Tiltwright opens (at `
+        + `most ${IMAGE_MAX_SIDE} on a side and ${IMAGE_MAX_PIXELS / 1_000_000} million in all). `
+        + 'Send a smaller photo.',
+    }
+  return { mime, kind, width, height }
 }
 
 function uploads() {

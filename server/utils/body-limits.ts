@@ -20,12 +20,44 @@ export const BODY_LIMITS = {
 /** The paths whose multipart bodies may be as large as one ticket attachment. */
 export const ATTACHMENT_UPLOAD_PATH = '/api/ticket-attachments'
 
+/** Ticket attachments being received at once, server-wide: each may hold up to
+ *  `attachmentBytes` in memory, so a burst cannot pile up buffers. */
+export const ATTACHMENT_UPLOADS_IN_FLIGHT = 4
+let attachmentUploads = 0
+
+/**
+ * Takes one of the attachment upload slots for this request (given back when its response
+ * ends, however it ends); 429 without reading the body when all are taken.
+ */
+export function takeAttachmentSlot(event: H3Event) {
+  if (attachmentUploads >= ATTACHMENT_UPLOADS_IN_FLIGHT) {
+    dropRestOfBody(event)
+    setResponseHeader(event, 'Retry-After', 5)
+    throw createError({
+      statusCode: 429,
+      statusMessage: 'Too Many Requests',
+      message: 'Tiltwright is receiving several files right now. Try again in a moment.',
+      data: { code: 'uploads-busy', retryAfterSeconds: 5 },
+    })
+  }
+  attachmentUploads++
+  let given = false
+  const give = () => {
+    if (given) return
+    given = true
+    attachmentUploads--
+  }
+  event.node.res.once('close', give)
+  event.node.res.once('finish', give)
+}
+
 /** How long the rest of a refused body may keep arriving (read and dropped, never kept) after the
  *  413 has gone out. Closing at once would reset the connection under the client before it has
  *  read the answer; this lets it read the 413, then cuts off a sender that does not stop. */
 const DRAIN_AFTER_REFUSAL_MS = 3000
 
-export function tooLarge(event: H3Event, limit: number) {
+/** Drops whatever of a refused body is still arriving, and cuts off a sender that keeps on. */
+function dropRestOfBody(event: H3Event) {
   const { req, res } = event.node
   req.removeAllListeners('data')
   req.resume()
@@ -34,6 +66,10 @@ export function tooLarge(event: H3Event, limit: number) {
       if (!req.complete) req.socket.destroy()
     }, DRAIN_AFTER_REFUSAL_MS).unref()
   })
+}
+
+export function tooLarge(event: H3Event, limit: number) {
+  dropRestOfBody(event)
   const mb = Math.round((limit / 1_000_000) * 10) / 10
   return createError({
     statusCode: 413,

@@ -298,7 +298,16 @@ async function rigSheetsOf(db: DbOrTx, rigId: number): Promise<RigSheet[]> {
     .innerJoin(users, eq(users.id, tuningSheets.authorId))
     .where(and(eq(tuningSheets.rigId, rigId), eq(tuningSheets.archived, false)))
     .orderBy(desc(tuningSheets.createdAt), desc(tuningSheets.id))
-  return rows.map(({ s, authorName }) => ({
+  return rows.map(rigSheetOf)
+}
+
+/** A tuning sheet as a rig's history (and a ticket's thread) shows it. */
+export function rigSheetOf(r: {
+  s: typeof tuningSheets.$inferSelect
+  authorName: string
+}): RigSheet {
+  const { s, authorName } = r
+  return {
     id: s.id,
     title: s.title,
     note: s.note,
@@ -308,7 +317,7 @@ async function rigSheetsOf(db: DbOrTx, rigId: number): Promise<RigSheet[]> {
     measured: s.measured ?? null,
     inputs: s.inputs as unknown as SheetInputs,
     ...verdictNumbers(s.results),
-  }))
+  }
 }
 
 export async function rigView(db: DbOrTx, rigId: number, role: SpaceRole): Promise<RigView> {

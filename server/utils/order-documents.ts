@@ -59,7 +59,8 @@ export async function renderOrderDocument(db: DbOrTx, order: OrderRow, kind: Ord
     const [shipment] = await db
       .select()
       .from(shipments)
-      .where(eq(shipments.orderId, order.id))
+      // The order's own shipment: replacement parts sent from tickets have their own tracking.
+      .where(and(eq(shipments.orderId, order.id), eq(shipments.kind, 'order')))
       .orderBy(desc(shipments.shippedAt))
       .limit(1)
     const names = new Map(lines.map(l => [l.productId, l.name]))

@@ -9,12 +9,15 @@ import {
   orderEvents,
   orderLines,
   orders,
+  products,
   purchaseOrders,
   quotes,
   schools,
+  shipmentItems,
   shipments,
   stockReservations,
   storedFiles,
+  tickets,
   users,
 } from '../database/schema'
 import {
@@ -48,6 +51,9 @@ import {
   shippedMail,
   ACCOUNTS_PAYABLE,
 } from '../emails/shop'
+import { replacementShippedMail } from '../emails/tickets'
+import { ticketRef } from '../../shared/utils/tickets'
+import type { ReplacementInput } from '../../shared/schemas/tickets'
 
 export interface StepActor {
   kind: Actor
@@ -915,4 +921,100 @@ async function batchCodes(tx: DbOrTx, ids: number[]) {
     .from(batches)
     .where(inArray(batches.id, [...new Set(ids)]))
   return new Map(rows.map(r => [r.id, r.code]))
+}
+
+// ── Replacement parts ─────────────────────────────────────────────────────────────────────
+
+/**
+ * Free parts sent from a ticket on the ticket's order (support or admin): the order flow's
+ * `sendReplacement` row (409 unless paid or its purchase order approved), the units reserved
+ * and marked `sent` with the shipment (never released, never the order's own to pack), a
+ * `replacement` shipment with its parts and the ticket, the timeline entry naming the ticket,
+ * parts and tracking, an audit row and the teacher's mail. Answers the shipment's id.
+ */
+export async function sendReplacement(
+  staff: SessionUser,
+  ticketId: number,
+  input: ReplacementInput,
+): Promise<number> {
+  return transactionWithRetry(async (tx) => {
+    const [ticket] = await tx.select().from(tickets).where(eq(tickets.id, ticketId)).limit(1)
+    if (!ticket) throw notFound('That ticket')
+    const order = await lockOrder(tx, ticket.orderId)
+    const wanted = input.items.map(i => i.productId)
+    const fields: Record<string, string> = {}
+    input.items.forEach((item, i) => {
+      if (wanted.indexOf(item.productId) !== i)
+        fields[`items.${i}.productId`] = 'This part is already in the list.'
+    })
+    const found = await tx
+      .select({ id: products.id, name: products.name })
+      .from(products)
+      .where(and(inArray(products.id, wanted), eq(products.active, true)))
+    const names = new Map(found.map(p => [p.id, p.name]))
+    input.items.forEach((item, i) => {
+      if (!names.has(item.productId))
+        fields[`items.${i}.productId`] = 'Choose a part from the list.'
+    })
+    if (Object.keys(fields).length) throw invalid(fields)
+    const parts = input.items.map(i => ({ ...i, name: names.get(i.productId)! }))
+    const carrier = shipmentCarrier(input.carrier, input.tracking)
+    const partWords = parts.map(p => `${p.name} × ${p.quantity}`).join(', ')
+    const ref = ticketRef(ticketId)
+    let shipmentId = 0
+    await applyStep(
+      tx,
+      order,
+      'sendReplacement',
+      actorOf(staff),
+      {
+        reference:
+          `${partWords} for ticket ${ref}; ${carrier.carrierName}, tracking ${input.tracking}`,
+      },
+      async () => {
+        const reserved = await reserveStock(tx, order.id, parts, 'items')
+        const [ship] = await tx
+          .insert(shipments)
+          .values({
+            orderId: order.id,
+            carrier: input.carrier,
+            tracking: input.tracking,
+            kind: 'replacement',
+            ticketId,
+            createdById: staff.id,
+          })
+          .$returningId()
+        shipmentId = ship!.id
+        await tx.insert(shipmentItems).values(
+          parts.map(p => ({ shipmentId, productId: p.productId, quantity: p.quantity })),
+        )
+        await tx
+          .update(stockReservations)
+          .set({ status: 'sent', shipmentId })
+          .where(inArray(stockReservations.id, reserved))
+        return ''
+      },
+    )
+    await audit(tx, {
+      actorId: staff.id,
+      action: 'ticket.replacement',
+      subjectType: 'ticket',
+      subjectId: ticketId,
+      detail: { shipmentId, orderId: order.id, items: input.items },
+    })
+    const facts = await ticketMailFacts(tx, ticket)
+    await enqueueMail(
+      tx,
+      'replacement-shipped',
+      facts.teacher.email,
+      replacementShippedMail(
+        facts.teacher.name,
+        { ...facts.ref, orderNumber: facts.orderNumber },
+        parts,
+        { name: carrier.carrierName, tracking: input.tracking, url: carrier.trackingUrl },
+        ticketUrl(ticketId),
+      ),
+    )
+    return shipmentId
+  })
 }

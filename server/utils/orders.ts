@@ -84,12 +84,14 @@ export async function addOrderEvent(
 
 /** Reserves every line's units from the product's batches, oldest first. The batch rows are
  *  locked (SELECT … FOR UPDATE, in id order) so concurrent checkouts queue rather than both
- *  seeing the same last units. Short stock throws 409 naming each short line. */
+ *  seeing the same last units. Short stock throws 409 naming each short line (`lines.N.quantity`,
+ *  or `<field>.N.quantity`). Answers the ids of the reservation rows it made. */
 export async function reserveStock(
   tx: Tx,
   orderId: number,
   lines: { productId: number, quantity: number, name: string }[],
-) {
+  field = 'lines',
+): Promise<number[]> {
   const locked = await tx
     .select()
     .from(batches)
@@ -106,7 +108,7 @@ export async function reserveStock(
   lines.forEach((l, i) => {
     const left = fifo.filter(b => b.productId === l.productId).reduce((s, b) => s + unitsLeft(b), 0)
     if (left < l.quantity)
-      fields[`lines.${i}.quantity`] = left
+      fields[`${field}.${i}.quantity`] = left
         ? `Only ${left} of ${l.name} left.`
         : `${l.name} is out of stock.`
   })
@@ -116,6 +118,7 @@ export async function reserveStock(
       'out-of-stock',
       fields,
     )
+  const made: number[] = []
   for (const l of lines) {
     let need = l.quantity
     for (const b of fifo) {
@@ -130,11 +133,14 @@ export async function reserveStock(
       if (res.affectedRows !== 1) throw new Error(`batch ${b.id} changed under its row lock`)
       b.reserved += take
       need -= take
-      await tx
+      const [ins] = await tx
         .insert(stockReservations)
         .values({ orderId, productId: l.productId, batchId: b.id, quantity: take })
+        .$returningId()
+      made.push(ins!.id)
     }
   }
+  return made
 }
 
 /** Gives an order's reserved or allocated units back to their batches. */

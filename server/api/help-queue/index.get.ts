@@ -1,0 +1,62 @@
+// The help queue: every ticket, paged, sorted and filtered on the server (status, priority,
+// assignee, school, age) with a search through subjects and every message body, the staff's
+// internal notes included. Priority and status sort by their rank, not alphabetically; ties go
+// by id, oldest first.
+import { and, asc, desc, eq, isNull, lte, ne, sql } from 'drizzle-orm'
+import { queueQuerySchema } from '../../../shared/schemas/tickets'
+import { containsPattern } from '../../../shared/utils/paging'
+import { PRIORITY_RANK, TICKET_AGE_HOURS } from '../../../shared/utils/tickets'
+import { TICKET_STATUSES } from '../../../shared/utils/states'
+import { schools, tickets } from '../../database/schema'
+import type { QueueReply } from '../../../shared/types/tickets'
+
+type Ranked = typeof tickets.priority | typeof tickets.status
+const rankOf = (column: Ranked, ranks: [string, number][]) =>
+  sql`(case ${column} ${sql.join(
+    ranks.map(([v, n]) => sql`when ${v} then ${n}`),
+    sql` `,
+  )} end)`
+
+const SORTS = {
+  createdAt: tickets.createdAt,
+  lastMessageAt: tickets.lastMessageAt,
+  priority: rankOf(tickets.priority, Object.entries(PRIORITY_RANK)),
+  status: rankOf(
+    tickets.status,
+    TICKET_STATUSES.map((s, i) => [s, i]),
+  ),
+  subject: tickets.subject,
+  school: schools.name,
+}
+
+export default defineEventHandler(async (event): Promise<QueueReply> => {
+  const user = await requireRole(event, 'support', 'admin')
+  const q = queryAs(event, queueQuerySchema)
+  const hours = q.age ? TICKET_AGE_HOURS[q.age] : 0
+  const where = and(
+    q.status === 'open'
+      ? ne(tickets.status, 'resolved')
+      : q.status
+        ? eq(tickets.status, q.status)
+        : undefined,
+    q.priority ? eq(tickets.priority, q.priority) : undefined,
+    q.assignee === 'none'
+      ? isNull(tickets.assigneeId)
+      : q.assignee
+        ? eq(tickets.assigneeId, q.assignee === 'me' ? user.id : Number(q.assignee))
+        : undefined,
+    q.school ? eq(tickets.schoolId, q.school) : undefined,
+    q.age ? lte(tickets.createdAt, new Date(Date.now() - hours * 3_600_000)) : undefined,
+    q.q ? ticketSearch(containsPattern(q.q), true) : undefined,
+  )
+  const dir = q.dir === 'asc' ? asc : desc
+  const db = useDb()
+  return pagedList(
+    q,
+    summaryCount(db, where),
+    summaryQuery(db)
+      .where(where)
+      .orderBy(dir(SORTS[q.sort]), asc(tickets.id)),
+    queueRowOf,
+  )
+})
