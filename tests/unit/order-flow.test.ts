@@ -218,6 +218,63 @@ describe('the order flow, as a table', () => {
     expect(openActions(po('po review'), 'admin')).toEqual(['approve', 'reject', 'cancel'])
   })
 
+  // Replacement parts from a ticket: once the order is paid or its purchase order approved
+  // (its build space is open), for support and admin only; the order's state stays as it is.
+  describe('sendReplacement', () => {
+    const open: [string, OrderFacts][] = [
+      ['a paid card order', card('paid', { paid: true })],
+      ['a paid, allocated card order', card('paid', { paid: true, allocated: true })],
+      ['a shipped card order', card('shipped', { paid: true, allocated: true })],
+      ['a delivered card order', card('delivered', { paid: true, allocated: true })],
+      ['an approved PO awaiting payment', po('awaiting payment')],
+      ['an approved, allocated PO awaiting payment', po('awaiting payment', { allocated: true })],
+      ['a paid PO', po('paid', { paid: true })],
+      ['a shipped PO, still unpaid', po('shipped', { allocated: true })],
+      ['a delivered PO', po('delivered', { paid: true, allocated: true })],
+    ]
+    const closed: [string, OrderFacts][] = [
+      ['a card order awaiting payment', card('awaiting payment')],
+      ['a PO in review', po('po review')],
+      ['a cancelled card order', card('cancelled')],
+      ['a cancelled PO', po('cancelled')],
+      ['a rejected PO', po('rejected')],
+      ['an order not placed yet', card(null)],
+    ]
+
+    it.each(open)('is open to support and admin for %s, keeping its state', (_what, order) => {
+      for (const actor of ['support', 'admin'] as const) {
+        const row = findTransition(order, 'sendReplacement', actor)
+        expect(row?.to).toBe(order.status)
+        expect(openActions(order, actor)).toContain('sendReplacement')
+      }
+    })
+
+    it.each(open)('is never open to the teacher or the system for %s', (_what, order) => {
+      for (const actor of ['teacher', 'system'] as const)
+        expect(findTransition(order, 'sendReplacement', actor)).toBeNull()
+    })
+
+    it.each(closed)('is closed for %s, whoever asks', (_what, order) => {
+      for (const actor of ['support', 'admin', 'teacher', 'system'] as const)
+        expect(findTransition(order, 'sendReplacement', actor)).toBeNull()
+    })
+
+    it('gives support no other step than replacement parts', () => {
+      const orders = [...open, ...closed].map(([, o]) => o)
+      for (const o of orders)
+        for (const a of openActions(o, 'support')) expect(a).toBe('sendReplacement')
+      expect(ORDER_FLOW.filter(r => r.who.includes('support')).every(
+        r => r.action === 'sendReplacement')).toBe(true)
+    })
+
+    it('records who sent which parts on the timeline', () => {
+      const row = findTransition(card('paid', { paid: true }), 'sendReplacement', 'support')!
+      expect(flowWording(row, { actor: 'Ruth Okafor-Lane', reference: 'T-7: 1 × Beam' })).toBe(
+        'Replacement parts sent free by Ruth Okafor-Lane: T-7: 1 × Beam.',
+      )
+    })
+  })
+
   it('fills the timeline wording', () => {
     const row = findTransition(po('po review'), 'reject', 'admin')!
     expect(flowWording(row, { actor: 'Ada Admin', reason: 'PO unsigned!' })).toBe(
