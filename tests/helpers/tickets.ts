@@ -88,3 +88,26 @@ export function pngClaiming(width: number, height: number) {
     chunk('IEND', Buffer.alloc(0)),
   ])
 }
+
+/** A small, complete RGB PNG (a steel-blue beam on a chalk background) that any decoder shows. */
+export function validPng(width: number, height: number) {
+  const ihdr = Buffer.alloc(13)
+  ihdr.writeUInt32BE(width, 0)
+  ihdr.writeUInt32BE(height, 4)
+  ihdr[8] = 8 // bit depth
+  ihdr[9] = 2 // truecolour
+  const rows: Buffer[] = []
+  for (let y = 0; y < height; y++) {
+    const row = Buffer.alloc(1 + width * 3)
+    const beam = Math.abs(y - height / 2) < height / 10
+    for (let x = 0; x < width; x++)
+      row.set(beam ? [0x2b, 0x59, 0x8c] : [0xf7, 0xf6, 0xf2], 1 + x * 3)
+    rows.push(row)
+  }
+  return Buffer.concat([
+    Buffer.from('89504e470d0a1a0a', 'hex'),
+    chunk('IHDR', ihdr),
+    chunk('IDAT', deflateSync(Buffer.concat(rows))),
+    chunk('IEND', Buffer.alloc(0)),
+  ])
+}
