@@ -15,10 +15,13 @@ describe('what a ticket is about, in words', () => {
     )
   })
 
+  const gains = (kp: number, kd: number, ki: number) =>
+    ({ kp, kd, ki, n: 10, derivativeOn: 'error' as const })
+
   it('says a sheet\'s gains in degrees per mm and what was measured', () => {
     // 1 rad/m = 180/π °/m = 0.0573 °/mm.
-    expect(gainsText({ kp: 1, kd: 0.5, ki: 0 })).toBe('Kp 0.0573°/mm, Kd 0.0286°·s/mm')
-    expect(gainsText({ kp: 1, kd: 0.5, ki: 2 })).toContain('Ki 0.115°/(mm·s)')
+    expect(gainsText(gains(1, 0.5, 0))).toBe('Kp 0.0573°/mm, Kd 0.0286°·s/mm')
+    expect(gainsText(gains(1, 0.5, 2))).toContain('Ki 0.115°/(mm·s)')
     expect(measuredText(null)).toBe('—')
     expect(measuredText({ settlingTime: 1.42, overshootPct: 12 })).toBe(
       'settled in 1.42 s, 12 % overshoot',
