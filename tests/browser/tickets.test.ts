@@ -49,6 +49,8 @@ describe('a ticket from a phone to the help queue and back', () => {
     await gotoReady(builder, `/rigs/${rigId}`)
     const help = builder.getByTestId('rig-help')
     await help.getByRole('heading', { name: 'Help with this rig' }).waitFor()
+    await help.scrollIntoViewIfNeeded()
+    await shot(builder, '0-builder-rig-phone')
     await help.getByRole('link', { name: 'Ask for help' }).click()
     await builder.waitForURL(u => u.pathname === '/tickets/new')
     await builder.getByRole('heading', { name: 'Ask for help' }).waitFor()
@@ -180,6 +182,11 @@ describe('a ticket from a phone to the help queue and back', () => {
     expect(await teacher.getByTestId('stock-picker').count()).toBe(0)
     expect(await teacher.getByTestId('replacement-form').count()).toBe(0)
     await shot(teacher, '5-teacher-ticket-desktop')
+    await gotoReady(teacher, '/tickets')
+    const listed = teacher.getByRole('row').filter({ hasText: tag })
+    await listed.waitFor()
+    expect(await listed.textContent()).toContain('Reply from support: your turn')
+    await shot(teacher, '5b-teacher-tickets-desktop')
     const order = await (await teacher.request.get(url(`/api/tickets/${ticketId}`))).json() as
       { ticket: { order: { id: number } } }
     await gotoReady(teacher, `/orders/${order.ticket.order.id}`)
