@@ -1,5 +1,6 @@
 // Demo data: an invented scenario (Cobalt Hills School District, Wrenfield Middle School
 // and its people). Every demo account's password is `tiltwright-demo`.
+import { resolve } from 'node:path'
 import mysql from 'mysql2/promise'
 import { drizzle } from 'drizzle-orm/mysql2'
 import { count } from 'drizzle-orm'
@@ -8,6 +9,8 @@ import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
 import * as schema from '../server/database/schema'
 import { DEMO_CATALOG } from './demo-catalog'
 import { seedDemoBuild } from './demo-build'
+import { seedDemoTickets } from './demo-tickets'
+import { projectRoot } from './lib/mariadb'
 
 export const DEMO_PASSWORD = 'tiltwright-demo'
 
@@ -21,10 +24,15 @@ export const DEMO_ACCOUNTS = [
 /**
  * Seeds the demo scenario into what is empty: the school and its people when there are no users,
  * the catalog when there are no products (so a data folder from before the shop still gets
- * one). With the people come the teacher's paid order and its build space (scripts/demo-build.ts).
- * Returns what it seeded.
+ * one). With the people come the teacher's paid order and its build space (scripts/demo-build.ts)
+ * and the tickets on it (scripts/demo-tickets.ts), whose files go where the app's `uploads`
+ * storage reads them: `uploadDir`, by default the folder the app is built with
+ * (`TILTWRIGHT_UPLOAD_DIR`, else `data/uploads`). Returns what it seeded.
  */
-export async function seedDemo(url: string): Promise<{ people: boolean, catalog: boolean }> {
+export async function seedDemo(
+  url: string,
+  uploadDir = process.env.TILTWRIGHT_UPLOAD_DIR || resolve(projectRoot, 'data/uploads'),
+): Promise<{ people: boolean, catalog: boolean }> {
   const conn = await mysql.createConnection({ uri: url })
   try {
     const db = drizzle(conn, { schema, mode: 'default' })
@@ -94,12 +102,26 @@ export async function seedDemo(url: string): Promise<{ people: boolean, catalog:
         }
       }
       if (seeded.people) {
-        await seedDemoBuild(tx, {
+        const space = await seedDemoBuild(tx, {
           schoolId,
           teacher: people.get('teacher')!,
           builder: people.get('builder')!,
           passwordHash,
         })
+        if (space) {
+          await seedDemoTickets(
+            tx,
+            {
+              schoolId,
+              teacher: people.get('teacher')!,
+              builder: people.get('builder')!,
+              support: people.get('support')!,
+              admin: people.get('admin')!,
+            },
+            space,
+            uploadDir,
+          )
+        }
       }
     })
     return seeded

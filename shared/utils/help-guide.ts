@@ -196,8 +196,9 @@ export const HELP_GUIDE: readonly GuideEntry[] = [
       'Does the firmware filter the derivative? The Gain Planner\'s firmware constants include '
       + 'a derivative filter; a plain difference of two readings has none.',
       'Check the supply while the servo moves: a supply that sags (a weak battery, a thin USB '
-      + 'lead) makes the servo and the readings wobble together. A standard hobby servo wants '
-      + '5 to 6 V and a supply good for 2 A or more (common practice).',
+      + 'lead) makes the servo and the readings wobble together. The kit\'s TW-S20 servo draws '
+      + 'up to 2.5 A when it stalls: it wants the 6 V 3 A bench supply, not a laptop\'s USB '
+      + 'port.',
       'Watch the servo horn closely when the ball is centred: small back-and-forth steps mean '
       + 'the servo is hunting around its deadband, the smallest change it reacts to.',
     ],
@@ -350,8 +351,9 @@ export const HELP_GUIDE: readonly GuideEntry[] = [
       + 'boards and example sketches put the controller to sleep when nothing seems to happen.',
       'Is the rig powered from a USB power bank? Many switch themselves off when the current '
       + 'stays low for a while (below about 50 to 100 mA for some tens of seconds is common).',
-      'Does it happen when the servo hits an end stop or works hard? A stalling servo can pull '
-      + '1 to 2 A and drag the supply low enough to reset the board (a brown-out).',
+      'Does it happen when the servo hits an end stop or works hard? A stalling servo (the '
+      + 'kit\'s TW-S20 draws up to 2.5 A) can drag the supply low enough to reset the board (a '
+      + 'brown-out).',
     ],
     change: [
       'Keep the watchdog, but make sure the loop resets it every pass and never blocks longer '
