@@ -95,8 +95,8 @@ export const HELP_GUIDE: readonly GuideEntry[] = [
       + 'eye level: the rails should be parallel and the ball should sit on both.',
       'Are the rail wires firmly on their terminals, and is the wiper (the rail the ball reads '
       + 'from) on the pin the firmware reads?',
-      'With the ball held still, does the reading change when you move it by hand from one end '
-      + 'to the other? A steady climb means the sensor works and the trouble was contact.',
+      'Slide the ball slowly by hand from one end of the track to the other: does the reading '
+      + 'climb steadily? Then the sensor works and the trouble was contact.',
     ],
     change: [
       'Use the steel ball from the kit, or any bare, clean bearing ball of the same size.',

@@ -2,6 +2,7 @@
 // anchor exists and a link to it scrolls there, the page never scrolls sideways, its headings go
 // in order, axe finds nothing serious, and the footer links to it. Screenshots go to
 // tests/.artifacts/help/.
+import type { Page } from 'playwright-core'
 import { describe, expect, it } from 'vitest'
 import {
   accessibilityViolations,
@@ -14,6 +15,13 @@ import { GUIDE_SLUGS, HELP_GUIDE } from '../../shared/utils/help-guide'
 
 const { shot } = artifacts('help')
 const browser = await launchForFile()
+
+/** The entry's heading is on screen (its link or the address scrolled there). */
+const inView = (page: Page, slug: string) =>
+  page.locator(`[id="${slug}"]`).evaluate((el) => {
+    const r = el.getBoundingClientRect()
+    return r.top >= 0 && r.top < window.innerHeight
+  })
 
 describe.each([
   ['phone', 390, 844],
@@ -52,10 +60,7 @@ describe.each([
     // Following a symptom's link scrolls its entry into view.
     await page.locator('#symptoms a[href="#oscillates"]').click()
     await expect.poll(() => page.evaluate(() => location.hash)).toBe('#oscillates')
-    await expect.poll(() => page.locator('[id="oscillates"]').evaluate((el) => {
-      const r = el.getBoundingClientRect()
-      return r.top >= 0 && r.top < window.innerHeight
-    })).toBe(true)
+    await expect.poll(() => inView(page, 'oscillates')).toBe(true)
     await context.close()
   })
 }, 60_000)
@@ -65,10 +70,7 @@ describe('getting to /help', () => {
     const context = await browser.newContext({ viewport: { width: 390, height: 844 } })
     const page = await context.newPage()
     await gotoReady(page, '/help#reads-backwards')
-    await expect.poll(() => page.locator('[id="reads-backwards"]').evaluate((el) => {
-      const r = el.getBoundingClientRect()
-      return r.top >= 0 && r.top < window.innerHeight
-    })).toBe(true)
+    await expect.poll(() => inView(page, 'reads-backwards')).toBe(true)
 
     await gotoReady(page, '/safety')
     await page.getByRole('contentinfo').getByRole('link', { name: 'troubleshooting guide' })
