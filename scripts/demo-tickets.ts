@@ -436,11 +436,13 @@ function readingsPdf(): Promise<Buffer> {
       [320, '690', '402-951'],
       [360, '905', '0-1023'],
     ] as const
-    doc.font('Helvetica-Bold').text('Position (mm)    Average    Lowest-highest')
-    doc.font('Helvetica')
+    // A fixed-width font keeps the columns in line.
+    doc.font('Courier-Bold').text(`${'Position (mm)'.padEnd(20)}${'Average'.padEnd(14)}Range`)
+    doc.font('Courier')
     for (const [mm, avg, range] of rows)
       doc.text(`${String(mm).padEnd(20)}${avg.padEnd(14)}${range}`)
-    doc.moveDown().text('From 280 mm on the reading jumps even with the ball still.')
+    doc.moveDown().font('Helvetica')
+      .text('From 280 mm on, the reading jumps even with the ball still.')
     doc.end()
   })
 }

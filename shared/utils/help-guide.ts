@@ -538,7 +538,8 @@ const bullets = (list: readonly string[]) => list.map(s => `- ${s}`).join('\n')
 /** An entry as a stock reply's text, ending with a link to its place in /help. */
 export function guideReplyText(entry: GuideEntry, baseUrl = ''): string {
   const parts = [
-    `${entry.title}: here is what usually causes this, and what to try.`,
+    `Here is what usually causes this ("${entry.title}" in our troubleshooting guide), and `
+    + 'what to try.',
     `Check, in this order:\n${bullets(entry.check)}`,
     `Then change, one thing at a time:\n${bullets(entry.change)}`,
   ]

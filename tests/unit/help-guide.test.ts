@@ -142,7 +142,7 @@ describe('guideReplyText', () => {
   it.each([...GUIDE_SLUGS])('makes a stock reply from %s', (slug) => {
     const e = guideEntry(slug)
     const text = guideReplyText(e, 'https://tiltwright.test')
-    expect(text).toMatch(/here is what usually causes this/)
+    expect(text.startsWith(`Here is what usually causes this ("${e.title}"`)).toBe(true)
     expect(text).not.toMatch(/^(Hello|Hi|Dear)/)
     for (const line of [...e.check, ...e.change, ...e.cautions]) expect(text).toContain(`- ${line}`)
     expect(text.indexOf(e.check[0]!)).toBeLessThan(text.indexOf(e.change[0]!))
