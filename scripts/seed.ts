@@ -8,6 +8,7 @@ import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
 import * as schema from '../server/database/schema'
 import { DEMO_CATALOG } from './demo-catalog'
 import { seedDemoBuild } from './demo-build'
+import { seedDemoTickets } from './demo-tickets'
 
 export const DEMO_PASSWORD = 'tiltwright-demo'
 
@@ -21,10 +22,15 @@ export const DEMO_ACCOUNTS = [
 /**
  * Seeds the demo scenario into what is empty: the school and its people when there are no users,
  * the catalog when there are no products (so a data folder from before the shop still gets
- * one). With the people come the teacher's paid order and its build space (scripts/demo-build.ts).
- * Returns what it seeded.
+ * one). With the people come the teacher's paid order and its build space (scripts/demo-build.ts)
+ * and tickets on it (scripts/demo-tickets.ts).
+ * The demo tickets' files go to `uploadDir` (the app's `uploads` storage; by default where
+ * nuxt.config.ts puts it). Returns what it seeded.
  */
-export async function seedDemo(url: string): Promise<{ people: boolean, catalog: boolean }> {
+export async function seedDemo(
+  url: string,
+  opts: { uploadDir?: string } = {},
+): Promise<{ people: boolean, catalog: boolean }> {
   const conn = await mysql.createConnection({ uri: url })
   try {
     const db = drizzle(conn, { schema, mode: 'default' })
@@ -94,12 +100,19 @@ export async function seedDemo(url: string): Promise<{ people: boolean, catalog:
         }
       }
       if (seeded.people) {
-        await seedDemoBuild(tx, {
+        const space = await seedDemoBuild(tx, {
           schoolId,
           teacher: people.get('teacher')!,
           builder: people.get('builder')!,
           passwordHash,
         })
+        if (space)
+          await seedDemoTickets(tx, space, {
+            teacher: people.get('teacher')!,
+            builder: people.get('builder')!,
+            support: people.get('support')!,
+            admin: people.get('admin')!,
+          }, opts.uploadDir)
       }
     })
     return seeded

@@ -345,3 +345,33 @@ describe('replacement parts', () => {
       expect(unchanged.reserved).toBe(2)
     })
 })
+
+describe('the demo tickets', () => {
+  it('cover every state, with files, a note, a stock reply used and a replacement', async () => {
+    const demoTeacher = await signedIn('teacher@tiltwright.test')
+    const mine = (await demoTeacher.get('/api/tickets?pageSize=100')).body.data as any[]
+    expect(new Set(mine.map(t => t.status))).toEqual(
+      new Set(['needs reply', 'awaiting builder', 'resolved']),
+    )
+    const threads = await Promise.all(
+      mine.map(async t => (await support.get(`/api/tickets/${t.id}`)).body),
+    )
+    const messages = threads.flatMap(t => t.messages)
+    expect(messages.some((m: any) => m.internal)).toBe(true)
+    expect(messages.some((m: any) => m.stockReplyTitle)).toBe(true)
+    expect(messages.some((m: any) => m.sheet)).toBe(true)
+    const files = messages.flatMap((m: any) => m.attachments)
+    expect(new Set(files.map((f: any) => f.kind))).toEqual(new Set(['image', 'pdf']))
+    const photo = files.find((f: any) => f.kind === 'image')
+    const res = await demoTeacher.raw(photo.url)
+    expect(res.status).toBe(200)
+    expect(Buffer.from(await res.arrayBuffer()).subarray(1, 4).toString()).toBe('PNG')
+    expect(threads.some(t => t.replacements.length === 1)).toBe(true)
+    // The teacher's own view of the same threads carries no note.
+    for (const t of mine) {
+      const own = await demoTeacher.get(`/api/tickets/${t.id}`)
+      expect(own.body.messages.every((m: any) => !m.internal)).toBe(true)
+      expect(JSON.stringify(own.body)).not.toContain('oxidation')
+    }
+  })
+})

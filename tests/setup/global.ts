@@ -33,7 +33,8 @@ export default async function setup(project: TestProject) {
   )
   const db = await startMariaDb(testDatabase(), { fresh: true })
   await migrateDatabase(db.db.url)
-  await seedDemo(db.db.url)
+  const uploadDir = resolve(projectRoot, `data/uploads-test${SUFFIX}`)
+  await seedDemo(db.db.url, { uploadDir })
   const catcher = await startMailCatcher({
     smtpPort: SMTP_PORT,
     httpPort: MAIL_HTTP_PORT,
@@ -46,7 +47,7 @@ export default async function setup(project: TestProject) {
     ...process.env,
     TILTWRIGHT_BUILD_DIR: `.nuxt-test${SUFFIX}`,
     TILTWRIGHT_OUTPUT_DIR: `.output-test${SUFFIX}`,
-    TILTWRIGHT_UPLOAD_DIR: resolve(projectRoot, `data/uploads-test${SUFFIX}`),
+    TILTWRIGHT_UPLOAD_DIR: uploadDir,
   }
   const build = spawnSync(resolve(projectRoot, 'node_modules/.bin/nuxt'), ['build'], {
     cwd: projectRoot,
