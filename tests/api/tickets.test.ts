@@ -311,6 +311,9 @@ describe('replacement parts', () => {
         tracking: '1Z999AA10123456784',
       })
       expect(ship.items).toEqual([{ name: expect.stringContaining('Test part'), quantity: 2 }])
+      // The sent units are not the order's own to pack: they are listed with their shipment.
+      expect(order.reservations.length).toBeGreaterThan(0)
+      expect(order.reservations.every((r: any) => r.status !== 'sent')).toBe(true)
       const entry = order.events.find((e: any) => e.kind === 'replacement-shipped')
       expect(entry.message).toContain(`T-${id}`)
       expect(entry.message).toContain('1Z999AA10123456784')
