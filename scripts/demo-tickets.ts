@@ -247,7 +247,7 @@ export async function seedDemoTickets(
     priority: 'normal',
     assigneeId: people.support.id,
     openedById: people.teacher.id,
-    ago: 4 * DAY,
+    ago: 3 * DAY,
     changedAgo: 2 * DAY,
   })
   await message(buzz, {
@@ -255,7 +255,7 @@ export async function seedDemoTickets(
     body:
       'The group on this rig raised the derivative gain and now the servo hums and the beam '
       + 'twitches even when the ball sits still. Their wiring check is attached.',
-    ago: 4 * DAY,
+    ago: 3 * DAY,
     files: [wiring],
   })
   await message(buzz, {
@@ -277,25 +277,25 @@ export async function seedDemoTickets(
     priority: 'low',
     assigneeId: people.admin.id,
     openedById: people.teacher.id,
-    ago: 12 * DAY,
-    changedAgo: 9 * DAY,
+    ago: 5 * DAY,
+    changedAgo: 2 * DAY,
   })
   await message(bent, {
     by: people.teacher.id,
     body: 'One of the six servos has a bent shaft: the horn wobbles when it turns.',
-    ago: 12 * DAY,
+    ago: 5 * DAY,
   })
   await message(bent, {
     by: people.admin.id,
     body:
       'Sorry about that. A replacement servo is on its way, free of charge; the tracking is on '
       + 'this ticket and your order.',
-    ago: 11 * DAY,
+    ago: 4 * DAY,
   })
   await message(bent, {
     by: people.teacher.id,
     body: 'It arrived and works. Thank you!',
-    ago: 9 * DAY,
+    ago: 2 * DAY,
   })
   const [servo] = await tx
     .select({ id: schema.products.id, name: schema.products.name })
@@ -321,7 +321,7 @@ export async function seedDemoTickets(
         kind: 'replacement',
         ticketId: bent,
         createdById: people.admin.id,
-        shippedAt: at(11 * DAY),
+        shippedAt: at(4 * DAY),
       })
       .$returningId()
     await tx
@@ -338,7 +338,7 @@ export async function seedDemoTickets(
       quantity: 1,
       status: 'sent',
       shipmentId: ship!.id,
-      createdAt: at(11 * DAY),
+      createdAt: at(4 * DAY),
     })
     await tx.insert(schema.orderEvents).values({
       orderId: space.orderId,
@@ -347,7 +347,7 @@ export async function seedDemoTickets(
         `Replacement parts sent free by ${people.admin.name}: ${servo.name} × 1 for ticket `
         + `T-${bent}; UPS, tracking ${tracking}.`,
       actorId: people.admin.id,
-      createdAt: at(11 * DAY),
+      createdAt: at(4 * DAY),
     })
   }
   return { tickets: [sensed, buzz, bent], stockReplies: [rails, level] }
