@@ -83,7 +83,7 @@ export function replacementShippedMail(
         `Tiltwright sent replacement parts for ticket ${t.ref} (order ${t.orderNumber}), free of `
         + 'charge:',
     },
-    { paragraph: parts.map(p => `- ${p.name} × ${p.quantity}`).join('\n') },
+    ...parts.map(p => ({ paragraph: `${p.name} × ${p.quantity}` })),
     { paragraph: `Carrier: ${carrier.name}, tracking ${carrier.tracking}.` },
     ...(carrier.url ? [{ link: { label: 'Track the parcel', url: carrier.url } }] : []),
     { link: { label: `Read ${t.ref}`, url: ticketUrl } },

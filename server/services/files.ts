@@ -67,6 +67,7 @@ export function safeFilename(
     .pop()!
     .replace(/\.[^.]*$/, '')
     .replace(/[^\w .,()=+&#@!~-]+/g, '')
+    .replace(/^[\s.]+/, '')
     .trim()
     .slice(0, 80)
   return `${base || fallback}.${EXTENSIONS[mime]}`

@@ -410,7 +410,8 @@ export async function orderView(
           rejectReason: people.po.rejectReason,
         }
       : null,
-    reservations: held.map(h => ({
+    // Units sent as replacement parts show under their shipment, not as the order's own.
+    reservations: held.filter(h => h.r.status !== 'sent').map(h => ({
       batchCode: h.code,
       productName: names.get(h.r.productId) ?? '',
       quantity: h.r.quantity,

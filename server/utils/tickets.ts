@@ -183,6 +183,30 @@ export async function ticketSummary(db: DbOrTx, id: number): Promise<TicketSumma
   return summaryOf(row)
 }
 
+/** The list's status filter: one status, `open` (not resolved), or any. */
+export function statusWhere(status: TicketStatus | 'open' | undefined): SQL | undefined {
+  if (status === 'open') return ne(tickets.status, 'resolved')
+  return status ? eq(tickets.status, status) : undefined
+}
+
+/** A page of ticket summaries (the customer's list, the queue): counted and read alike. */
+export function pagedTickets<T>(
+  q: { page: number, pageSize: number },
+  where: SQL | undefined,
+  order: SQL[],
+  shape: (r: SummaryRecord) => T,
+) {
+  const db = useDb()
+  return pagedList(
+    q,
+    summaryCount(db, where),
+    summaryQuery(db)
+      .where(where)
+      .orderBy(...order),
+    shape,
+  )
+}
+
 /** A search in the subject and the message bodies (notes too when `notes`). */
 export function ticketSearch(pattern: string, notes: boolean): SQL {
   return or(
@@ -529,6 +553,27 @@ export const newestFirst = [desc(tickets.createdAt), desc(tickets.id)]
 // ── Stock replies ───────────────────────────────────────────────────────────────────────────
 
 export const STOCK_REPLY_TITLE_TAKEN = 'Another stock reply already has that title.'
+
+/** Changes a stock reply that is not archived (404 otherwise), with its audit row. */
+export async function changeStockReply(
+  tx: Tx,
+  user: SessionUser,
+  id: number,
+  set: Partial<typeof stockReplies.$inferInsert>,
+  action: 'update' | 'archive',
+) {
+  const [res] = await tx
+    .update(stockReplies)
+    .set(set)
+    .where(and(eq(stockReplies.id, id), isNull(stockReplies.archivedAt)))
+  if (res.affectedRows !== 1) throw notFound('That stock reply')
+  await audit(tx, {
+    actorId: user.id,
+    action: `stock-reply.${action}`,
+    subjectType: 'stock-reply',
+    subjectId: id,
+  })
+}
 
 /** The stock replies not archived, by title, with how many sent messages started from each
  *  (or just the one with `id`). */

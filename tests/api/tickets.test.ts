@@ -243,8 +243,12 @@ describe('the status flow', () => {
       expect(done.status).toBe(200)
       expect(done.body.status).toBe('resolved')
       // A customer message goes to support, which has nobody assigned yet.
-      const mail = await waitForMail(SUPPORT_ADDRESS, new RegExp(`T-${id}: new message`))
-      expect(mail.text).toContain('It drifts again.')
+      await waitForMail(SUPPORT_ADDRESS, new RegExp(`T-${id}: new message from Teacher`))
+      const toSupport = (await mailsTo(SUPPORT_ADDRESS))
+        .filter(m => m.subject.startsWith(`T-${id}: new message`))
+        .map(m => m.text)
+      expect(toSupport.some(t => t.includes('It drifts again.'))).toBe(true)
+      expect(toSupport.some(t => t.includes('Done.'))).toBe(true)
     })
 
   it('checks the sheet and assignee it is given', async () => {
@@ -307,6 +311,9 @@ describe('replacement parts', () => {
         tracking: '1Z999AA10123456784',
       })
       expect(ship.items).toEqual([{ name: expect.stringContaining('Test part'), quantity: 2 }])
+      // The sent units are not the order's own to pack: they are listed with their shipment.
+      expect(order.reservations.length).toBeGreaterThan(0)
+      expect(order.reservations.every((r: any) => r.status !== 'sent')).toBe(true)
       const entry = order.events.find((e: any) => e.kind === 'replacement-shipped')
       expect(entry.message).toContain(`T-${id}`)
       expect(entry.message).toContain('1Z999AA10123456784')
@@ -340,4 +347,35 @@ describe('replacement parts', () => {
       const [unchanged] = await sql('select reserved from batches where id = ?', [part.batchId])
       expect(unchanged.reserved).toBe(2)
     })
+})
+
+describe('the demo tickets', () => {
+  it('cover every state, with files, a note, a stock reply used and a replacement', async () => {
+    const demoTeacher = await signedIn('teacher@tiltwright.test')
+    const mine = (await demoTeacher.get('/api/tickets?pageSize=100')).body.data as any[]
+    expect(new Set(mine.map(t => t.status))).toEqual(
+      new Set(['needs reply', 'awaiting builder', 'resolved']),
+    )
+    const threads = await Promise.all(
+      mine.map(async t => (await support.get(`/api/tickets/${t.id}`)).body),
+    )
+    const messages = threads.flatMap(t => t.messages)
+    expect(messages.some((m: any) => m.internal)).toBe(true)
+    expect(messages.some((m: any) => m.stockReplyTitle)).toBe(true)
+    expect(messages.some((m: any) => m.sheet)).toBe(true)
+    const files = messages.flatMap((m: any) => m.attachments)
+    expect(new Set(files.map((f: any) => f.kind))).toEqual(new Set(['image', 'pdf']))
+    const photo = files.find((f: any) => f.kind === 'image')
+    const res = await demoTeacher.raw(photo.url)
+    expect(res.status).toBe(200)
+    expect(Buffer.from(await res.arrayBuffer()).subarray(1, 4).toString()).toBe('PNG')
+    expect(threads.some(t => t.replacements.length === 1)).toBe(true)
+    // The teacher's own view of the same threads carries no note, nor any note's words.
+    const notes = messages.filter((m: any) => m.internal).map((m: any) => m.body as string)
+    for (const t of mine) {
+      const own = await demoTeacher.get(`/api/tickets/${t.id}`)
+      expect(own.body.messages.every((m: any) => !m.internal)).toBe(true)
+      for (const note of notes) expect(JSON.stringify(own.body)).not.toContain(note.slice(0, 40))
+    }
+  })
 })

@@ -9,6 +9,7 @@ import { buildSpaceReadyMail } from '../../server/emails/build'
 import { MAIL_BRAND, renderMail, type RenderedMail } from '../../server/emails/layout'
 import * as shop from '../../server/emails/shop'
 import { staffInvitationMail } from '../../server/emails/staff'
+import * as tickets from '../../server/emails/tickets'
 import { hoursInWords, LINK_LIFETIME_HOURS } from '../../shared/utils/lifetimes'
 import { palette } from '../../shared/utils/palette'
 import { INVOICE_NET_DAYS } from '../../shared/utils/pricing'
@@ -61,7 +62,32 @@ const buildMails: Record<string, RenderedMail> = {
   ),
 }
 
-const allMails = { ...orderMails, ...accountMails, ...buildMails }
+const ticket = {
+  ref: 'T-12',
+  subject: 'The ball will not settle',
+  schoolName: 'Wrenfield Middle School',
+  about: 'rig TW-10007-03 of order TW-10007',
+}
+const ticketUrl = 'https://shop.example/tickets/12'
+const ticketMails: Record<string, RenderedMail> = {
+  customerMessage: tickets.customerMessageMail(
+    name,
+    ticket,
+    { name: 'Ada R.', role: 'Builder' },
+    'It still rolls off.',
+    ticketUrl,
+  ),
+  staffReply: tickets.staffReplyMail(name, ticket, 'Ruth', 'Level the beam.', false, ticketUrl),
+  replacementShipped: tickets.replacementShippedMail(
+    name,
+    { ...ticket, orderNumber: 'TW-10007' },
+    [{ name: 'Servo horn', quantity: 2 }],
+    { name: 'UPS', tracking: '1Z 999', url: 'https://www.ups.com/track?tracknum=1Z999' },
+    ticketUrl,
+  ),
+}
+
+const allMails = { ...orderMails, ...accountMails, ...buildMails, ...ticketMails }
 
 describe('every e-mail', () => {
   it('covers every mail the shop module exports', () => {
@@ -120,6 +146,35 @@ describe('the build space mail', () => {
 
   it('reminds the teacher that students join with a code and need no e-mail address', () => {
     expect(mail.text).toMatch(/join with the code[^.]*need no e-mail\s+address/)
+  })
+})
+
+describe('the ticket mails', () => {
+  it('name the ticket ref in the subject and link to the ticket', () => {
+    for (const mail of Object.values(ticketMails)) {
+      expect(mail.subject).toMatch(/^T-12: /)
+      expect(mail.text).toContain(ticketUrl)
+    }
+  })
+
+  it('greet support by role when a new ticket arrives, quoting the first message', () => {
+    const mail = tickets.ticketOpenedMail(
+      ticket,
+      { name: 'Ada R.', role: 'Builder' },
+      'It rolls off.',
+      ticketUrl,
+    )
+    expect(mail.text).toContain('\nHello Tiltwright support,\n')
+    expect(mail.text).toContain('It rolls off.')
+    expect(mail.subject).toBe('T-12: new ticket — The ball will not settle')
+  })
+
+  it('quote the staff reply and list replacement parts with their tracking', () => {
+    expect(ticketMails.staffReply!.text).toContain('Level the beam.')
+    const shipped = ticketMails.replacementShipped!.text
+    expect(shipped).toContain('Servo horn × 2')
+    expect(shipped).toContain('UPS, tracking 1Z 999')
+    expect(shipped).toContain('Track the parcel: https://www.ups.com/track?tracknum=1Z999')
   })
 })
 

@@ -2,7 +2,7 @@
 // assignee, school, age) with a search through subjects and every message body, the staff's
 // internal notes included. Priority and status sort by their rank, not alphabetically; ties go
 // by id, oldest first.
-import { and, asc, desc, eq, isNull, lte, ne, sql } from 'drizzle-orm'
+import { and, asc, desc, eq, isNull, lte, sql } from 'drizzle-orm'
 import { queueQuerySchema } from '../../../shared/schemas/tickets'
 import { containsPattern } from '../../../shared/utils/paging'
 import { PRIORITY_RANK, TICKET_AGE_HOURS } from '../../../shared/utils/tickets'
@@ -34,11 +34,7 @@ export default defineEventHandler(async (event): Promise<QueueReply> => {
   const q = queryAs(event, queueQuerySchema)
   const hours = q.age ? TICKET_AGE_HOURS[q.age] : 0
   const where = and(
-    q.status === 'open'
-      ? ne(tickets.status, 'resolved')
-      : q.status
-        ? eq(tickets.status, q.status)
-        : undefined,
+    statusWhere(q.status),
     q.priority ? eq(tickets.priority, q.priority) : undefined,
     q.assignee === 'none'
       ? isNull(tickets.assigneeId)
@@ -50,13 +46,5 @@ export default defineEventHandler(async (event): Promise<QueueReply> => {
     q.q ? ticketSearch(containsPattern(q.q), true) : undefined,
   )
   const dir = q.dir === 'asc' ? asc : desc
-  const db = useDb()
-  return pagedList(
-    q,
-    summaryCount(db, where),
-    summaryQuery(db)
-      .where(where)
-      .orderBy(dir(SORTS[q.sort]), asc(tickets.id)),
-    queueRowOf,
-  )
+  return pagedTickets(q, where, [dir(SORTS[q.sort]), asc(tickets.id)], queueRowOf)
 })

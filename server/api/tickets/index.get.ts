@@ -1,6 +1,6 @@
 // The customer side's tickets: a teacher's school's, a builder's (their rigs' and their own);
 // `rigId` / `orderId` narrow it to one rig or order, `status=open` leaves resolved ones out.
-import { and, asc, desc, eq, ne } from 'drizzle-orm'
+import { and, asc, desc, eq } from 'drizzle-orm'
 import { ticketListQuery } from '../../../shared/schemas/tickets'
 import { containsPattern } from '../../../shared/utils/paging'
 import { tickets } from '../../database/schema'
@@ -11,24 +11,12 @@ export default defineEventHandler(async (event): Promise<TicketListReply> => {
   const q = queryAs(event, ticketListQuery)
   const where = and(
     visibleTickets(user),
-    q.status === 'open'
-      ? ne(tickets.status, 'resolved')
-      : q.status
-        ? eq(tickets.status, q.status)
-        : undefined,
+    statusWhere(q.status),
     q.rigId ? eq(tickets.rigId, q.rigId) : undefined,
     q.orderId ? eq(tickets.orderId, q.orderId) : undefined,
     q.q ? ticketSearch(containsPattern(q.q), false) : undefined,
   )
   const column = q.sort === 'createdAt' ? tickets.createdAt : tickets.lastMessageAt
   const dir = q.dir === 'asc' ? asc : desc
-  const db = useDb()
-  return pagedList(
-    q,
-    summaryCount(db, where),
-    summaryQuery(db)
-      .where(where)
-      .orderBy(dir(column), dir(tickets.id)),
-    summaryOf,
-  )
+  return pagedTickets(q, where, [dir(column), dir(tickets.id)], summaryOf)
 })
