@@ -175,6 +175,8 @@ export const sweepCardHoldsJob: JobDefinition<Record<string, never>> = {
             old.map(j => j.id),
           ),
         )
+    // Uploads left behind by a ticket form nobody sent.
+    await dropAbandonedUploads()
     return { again: Number(cfg.cardHoldSweepMs) || 600_000 }
   },
 }

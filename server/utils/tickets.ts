@@ -3,7 +3,7 @@
 // messages and notes with their attachments and sheet, and the ticket's mail. The customer side
 // never reads a row of ticket_messages with `internal` set: every query here that a customer's
 // reply comes from says so in its WHERE.
-import { and, asc, count, desc, eq, inArray, isNull, ne, or, sql, type SQL } from 'drizzle-orm'
+import { and, asc, count, desc, eq, inArray, isNull, lt, ne, or, sql, type SQL } from 'drizzle-orm'
 import { alias } from 'drizzle-orm/mysql-core'
 import {
   orders,
@@ -23,7 +23,12 @@ import {
   ticketOpenedMail,
 } from '../emails/tickets'
 import { isStaff, ROLE_LABELS, type SessionUser } from '../../shared/utils/roles'
-import { statusAfterMessage, ticketRef } from '../../shared/utils/tickets'
+import {
+  PENDING_UPLOAD_HOURS,
+  statusAfterMessage,
+  ticketRef,
+} from '../../shared/utils/tickets'
+import { removeStoredFile } from '../services/files'
 import type { TicketStatus } from '../../shared/utils/states'
 import type { TicketMessageInput } from '../../shared/schemas/tickets'
 import type {
@@ -184,9 +189,11 @@ export async function ticketSummary(db: DbOrTx, id: number): Promise<TicketSumma
 }
 
 /** The list's status filter: one status, `open` (not resolved), or any. */
-export function statusWhere(status: TicketStatus | 'open' | undefined): SQL | undefined {
+export function statusWhere(
+  status: TicketStatus | 'open' | 'any' | undefined,
+): SQL | undefined {
   if (status === 'open') return ne(tickets.status, 'resolved')
-  return status ? eq(tickets.status, status) : undefined
+  return status && status !== 'any' ? eq(tickets.status, status) : undefined
 }
 
 /** A page of ticket summaries (the customer's list, the queue): counted and read alike. */
@@ -594,4 +601,26 @@ export async function stockReplyViews(db: DbOrTx, id?: number): Promise<StockRep
     updatedAt: r.updatedAt.toISOString(),
     uses,
   }))
+}
+
+/** Deletes uploads that no message sent within PENDING_UPLOAD_HOURS (an abandoned form): their
+ *  files, then their rows. Run by the recurring sweep; returns how many went. */
+export async function dropAbandonedUploads(now = new Date()): Promise<number> {
+  const cutoff = new Date(now.getTime() - PENDING_UPLOAD_HOURS * 3600_000)
+  const stale = await useDb()
+    .select({ id: ticketAttachments.id, key: ticketAttachments.storageKey })
+    .from(ticketAttachments)
+    .where(and(isNull(ticketAttachments.messageId), lt(ticketAttachments.createdAt, cutoff)))
+    .limit(200)
+  if (!stale.length) return 0
+  // The row goes only if a message has not claimed it meanwhile; then its file.
+  const gone: typeof stale = []
+  for (const s of stale) {
+    const [res] = await useDb()
+      .delete(ticketAttachments)
+      .where(and(eq(ticketAttachments.id, s.id), isNull(ticketAttachments.messageId)))
+    if (res.affectedRows === 1) gone.push(s)
+  }
+  for (const s of gone) await removeStoredFile(s.key)
+  return gone.length
 }

@@ -94,10 +94,11 @@ export const bulkAssignSchema = z.object({
   assigneeId: plainId('Choose someone on the staff.').nullable(),
 })
 
-/** GET /api/help-queue. `assignee` is `me`, `none` or a staff id. */
+/** GET /api/help-queue. `assignee` is `me`, `none` or a staff id. The page starts on `open`
+ *  tickets; `any` says every status in the address (an empty filter would fall back to open). */
 export const queueQuerySchema = listQuerySchema(QUEUE_SORTS, 'createdAt', 'asc').extend({
   status: z
-    .enum([...TICKET_STATUSES, 'open'] as const, { error: 'Filter by a known status.' })
+    .enum([...TICKET_STATUSES, 'open', 'any'] as const, { error: 'Filter by a known status.' })
     .optional(),
   priority: z.enum(TICKET_PRIORITIES, { error: 'Filter by low, normal or urgent.' }).optional(),
   assignee: z

@@ -70,6 +70,8 @@ export const NOTE_MAX = 4000
 export const ATTACHMENTS_PER_MESSAGE = 6
 /** Uploads a person may hold that no message has sent yet (refused past this, under a lock). */
 export const PENDING_UPLOADS_MAX = 12
+/** An upload no message has sent within this many hours is deleted by the recurring sweep. */
+export const PENDING_UPLOAD_HOURS = 24
 
 const MB = 1024 * 1024
 /** The largest file of each kind; a short phone video fits in the video limit. */

@@ -10,8 +10,10 @@ import { openTicket, pngClaiming, ticketSpace, upload, uploaded } from '../helpe
 import {
   ATTACHMENT_LIMIT_BYTES,
   IMAGE_MAX_SIDE,
+  PENDING_UPLOAD_HOURS,
   PENDING_UPLOADS_MAX,
 } from '../../shared/utils/tickets'
+import { sql, sweepRunsAgain } from '../helpers/db'
 
 type World = Awaited<ReturnType<typeof ticketSpace>>
 let w: World
@@ -80,6 +82,22 @@ describe('hostile uploads', () => {
 })
 
 describe('pending uploads and downloads', () => {
+  it('deletes a file no message sent within a day, and keeps a newer one', async () => {
+    const old = await uploaded(w.one.client, PNG_BYTES, 'left-behind.png')
+    const fresh = await uploaded(w.one.client, PNG_BYTES, 'still-typing.png')
+    await sql(
+      'UPDATE ticket_attachments SET created_at = NOW(3) - INTERVAL ? HOUR WHERE id = ?',
+      [PENDING_UPLOAD_HOURS + 1, old.id],
+    )
+    await sweepRunsAgain()
+    const left = await sql<{ id: number }>(
+      'SELECT id FROM ticket_attachments WHERE id IN (?, ?)', [old.id, fresh.id])
+    expect(left.map(r => r.id)).toEqual([fresh.id])
+    expect((await w.one.client.raw(old.url)).status).toBe(404)
+    expect((await w.one.client.raw(fresh.url)).status).toBe(200)
+    expect((await w.one.client.delete(fresh.url)).status).toBe(204)
+  })
+
   it('shows a pending file to its uploader only, and only the uploader can send it', async () => {
     const photo = await uploaded(w.one.client, PNG_BYTES, 'rig.png')
     expect((await w.one.client.raw(photo.url)).status).toBe(200)

@@ -11,6 +11,7 @@ import {
   signInThroughPage,
 } from '../helpers/browser'
 import { sql } from '../helpers/db'
+import { ticketRef } from '../../shared/utils/tickets'
 
 const { shot } = artifacts('ticket-shipments')
 const browser = await launchForFile()
@@ -28,7 +29,10 @@ describe('a replacement on the order page', () => {
     const page = await ctx.newPage()
     await signInThroughPage(page, 'teacher@tiltwright.test')
     await gotoReady(page, `/orders/${row!.orderId}`)
-    const line = page.getByTestId('replacement-shipment')
+    // Other test files may send parts on the same order: take this ticket's shipment.
+    const line = page
+      .getByTestId('replacement-shipment')
+      .filter({ hasText: new RegExp(`ticket\\s+${ticketRef(row!.ticketId)}\\s*:`) })
     await expect(line.textContent()).resolves.toMatch(
       /Replacement parts for ticket\s+T-\d+\s*:\s+1 × Lever Arm and Pushrod Set, 1 × Steel Ball/,
     )
