@@ -19,6 +19,7 @@ export type CalibrationIssueCode
     | 'readings-identical'
     | 'poor-fit'
     | 'outlier'
+    | 'reads-backwards'
 
 export interface CalibrationIssue {
   code: CalibrationIssueCode
@@ -38,6 +39,10 @@ export interface CalibrationFit {
   offsetMm: number | null
   /** 1/|slope|: the k_s to give the planner, counts per metre. */
   countsPerMeter: number | null
+  /** +1 when the reading rises as the ball moves toward larger positions, −1 when it falls (the
+   *  track reads backwards: the firmware must flip the reading, or the loop pushes the ball away);
+   *  null without a fit. */
+  direction: 1 | -1 | null
   /** Coefficient of determination over the readings used. */
   r2: number | null
   /** position − fitted position per pair, m; null for a reading left out. */
@@ -97,6 +102,7 @@ export function fitCalibration(pairs: readonly CalibrationPair[], adcBits: numbe
     offset: null,
     offsetMm: null,
     countsPerMeter: null,
+    direction: null,
     r2: null,
     residuals,
     worstResidual: null,
@@ -177,6 +183,18 @@ export function fitCalibration(pairs: readonly CalibrationPair[], adcBits: numbe
       })
     }
   }
+  if (slope < 0) {
+    issues.push({
+      code: 'reads-backwards',
+      index: null,
+      message:
+        'The track reads backwards: the readings fall as the ball moves toward the far end. '
+        + 'As it is, the loop would push the ball away from the setpoint and run it to the end '
+        + 'stop. Unplug the rig, then swap the two wires at the ends of the rail, or flip the '
+        + `reading in the firmware (reading = ${2 ** adcBits - 1} − raw reading), and take the `
+        + 'readings again.',
+    })
+  }
   return {
     ok: true,
     slope,
@@ -184,6 +202,7 @@ export function fitCalibration(pairs: readonly CalibrationPair[], adcBits: numbe
     offset,
     offsetMm: offset * 1000,
     countsPerMeter: slope !== 0 ? 1 / Math.abs(slope) : null,
+    direction: slope < 0 ? -1 : 1,
     r2,
     residuals,
     worstResidual: worst,

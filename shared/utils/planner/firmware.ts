@@ -10,6 +10,10 @@ import type { PlannerWarning } from './warnings'
 
 const DEG = 180 / Math.PI
 
+/** The soft start: for this long after power-up the command is scaled from 0 up to 1, so the
+ *  servo eases the beam into the loop instead of jumping to wherever the first error sends it. */
+export const SOFT_START_SECONDS = 0.5
+
 export interface FirmwareConstants {
   /** What the constants were computed for (Tustin falls back to backward Euler when refused). */
   discretization: Discretization
@@ -32,6 +36,8 @@ export interface FirmwareConstants {
   kiTDegPerCount: number
   /** Kd in servo degrees per mm/s of ball speed, for people rather than firmware. */
   kdDegPerMmPerS: number
+  /** Samples of the soft start (SOFT_START_SECONDS at the loop rate, at least 1). */
+  softStartSamples: number
   /**
    * Clamp the command to ±this, degrees: half the servo travel, or less where a lever linkage folds
    * back.
@@ -54,6 +60,7 @@ export interface FirmwareJson {
   kiTDegPerCount: number
   servoLimitDeg: number
   countsPerMeter: number
+  softStartSamples: number
   units: Record<
     | 'kpDegPerCount'
     | 'dA'
@@ -61,6 +68,7 @@ export interface FirmwareJson {
     | 'kiTDegPerCount'
     | 'servoLimitDeg'
     | 'countsPerMeter'
+    | 'softStartSamples'
     | 'loopRateHz',
     string
   >
@@ -114,16 +122,21 @@ export function firmwareConstants(
   const loopRateHz = rig.loopRate
   const sSignal = gains.derivativeOn === 'measurement' ? '-reading' : 'error'
   const method = discretization === 'tustin' ? 'Tustin' : 'backward Euler'
+  const softStartSamples = Math.max(1, Math.round(SOFT_START_SECONDS * loopRateHz))
   const cSource = [
     '/* Tiltwright Gain Planner: firmware constants.',
     ` * Loop rate ${fmt(loopRateHz)} Hz (T = ${fmt(T * 1000)} ms), derivative on `
     + `${gains.derivativeOn}, ${method}.`,
-    ' * Units: ADC counts in, servo degrees out (0 = beam level). Every sample:',
+    ' * Units: ADC counts in, servo degrees out (0 = beam level).',
+    ' * First sample only: d = 0; i = 0; n = 0; and s_prev = s of that sample, so the',
+    ' *   derivative sees no jump from 0 to the first reading (no kick at power-up).',
+    ' * Every sample:',
     ' *   error = setpoint - reading;                       counts',
     ` *   s = ${sSignal};`,
     ' *   d = TW_D_A * d + TW_D_B * (s - s_prev); s_prev = s;',
     ' *   i = i + TW_KI_T * error;   (hold i while the servo sits at its limit)',
     ' *   servo = TW_KP * error + i + d, clamped to +/- TW_SERVO_LIMIT_DEG',
+    ' *   if (n < TW_SOFT_START) { n = n + 1; servo = servo * n / TW_SOFT_START; }',
     ' *   write servo on the next tick, so the delay is the one the planner assumed. */',
     `#define TW_LOOP_RATE_HZ     ${c(loopRateHz)}  /* Hz */`,
     `#define TW_KP               ${c(kpDegPerCount)}  /* servo deg per count of error */`,
@@ -133,6 +146,8 @@ export function firmwareConstants(
     + `sample */`,
     `#define TW_SERVO_LIMIT_DEG  ${c(servoLimitDeg)}  /* deg either side of level */`,
     `#define TW_COUNTS_PER_M     ${c(ks)}  /* sensor counts per metre */`,
+    `#define TW_SOFT_START       ${softStartSamples}  /* samples to ease the command in `
+    + `(${fmt(SOFT_START_SECONDS)} s) */`,
     '',
   ].join('\n')
   const json: FirmwareJson = {
@@ -145,6 +160,7 @@ export function firmwareConstants(
     kiTDegPerCount,
     servoLimitDeg,
     countsPerMeter: ks,
+    softStartSamples,
     units: {
       loopRateHz: 'Hz',
       kpDegPerCount: 'servo degrees per ADC count of error',
@@ -153,6 +169,7 @@ export function firmwareConstants(
       kiTDegPerCount: 'servo degrees per ADC count of error per sample',
       servoLimitDeg: 'servo degrees either side of level',
       countsPerMeter: 'ADC counts per metre of ball travel',
+      softStartSamples: 'samples over which the command is eased in after power-up',
     },
   }
   return {
@@ -170,6 +187,7 @@ export function firmwareConstants(
     bDegPerCount,
     kiTDegPerCount,
     kdDegPerMmPerS: (gains.kd * DEG) / 1000,
+    softStartSamples,
     servoLimitDeg,
     cSource,
     json,

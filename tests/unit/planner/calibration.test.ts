@@ -110,3 +110,30 @@ describe('fitCalibration', () => {
     expect(same.issues.map(i => i.code)).toContain('readings-identical')
   })
 })
+
+describe('a track that reads backwards', () => {
+  // Readings that fall as the ball moves toward +x: the same line as a forward track, mirrored.
+  const positions = [0.05, 0.15, 0.25, 0.35]
+  const forward = positions.map(p => ({ reading: 100 + p * 2000, position: p }))
+  const backward = positions.map(p => ({ reading: 923 - p * 2000, position: p }))
+
+  it('keeps the direction and says what to do, with the same counts per metre', () => {
+    const fwd = fitCalibration(forward, 10)
+    const back = fitCalibration(backward, 10)
+    expect(fwd.direction).toBe(1)
+    expect(fwd.issues.map(i => i.code)).not.toContain('reads-backwards')
+    expect(back.ok).toBe(true)
+    expect(back.direction).toBe(-1)
+    expect(back.slope!).toBeLessThan(0)
+    expect(back.countsPerMeter).toBeCloseTo(fwd.countsPerMeter!, 9)
+    const issue = back.issues.find(i => i.code === 'reads-backwards')
+    expect(issue?.message).toMatch(/reads backwards/)
+    // What to do: swap the end wires, or flip the reading against the ADC's full scale.
+    expect(issue?.message).toMatch(/swap the two wires/)
+    expect(issue?.message).toContain('reading = 1023 − raw reading')
+  })
+
+  it('has no direction without a fit', () => {
+    expect(fitCalibration([{ reading: 300, position: 0.1 }], 10).direction).toBeNull()
+  })
+})

@@ -6,6 +6,8 @@ import {
   firmwareConstants,
   type Gains,
 } from '../../../shared/utils/planner'
+import { DEFAULT_TARGETS, KIT_PRESETS } from '../../../shared/utils/planner/presets'
+import { planGains } from '../../../shared/utils/planner/plan'
 
 const rig = REFERENCE_RIG // 50 Hz, 2560 counts/m
 const DEG = 180 / Math.PI
@@ -74,5 +76,68 @@ describe('firmwareConstants', () => {
     const fw = firmwareConstants(rig, { ...gains, derivativeOn: 'error' })
     expect(fw.cSource).toMatch(/s = error/)
     expect(fw.json.derivativeOn).toBe('error')
+  })
+})
+
+describe('the exported recipe at power-up', () => {
+  // Runs the C block's arithmetic the way the microcontroller does, with the constants read back
+  // from its #defines: the ball rests near one end, the setpoint is mid-track.
+  const kit = KIT_PRESETS[0]!.rig
+  const planned = planGains(kit, DEFAULT_TARGETS).gains!
+  const fw = firmwareConstants(kit, planned)
+  const defines = Object.fromEntries(
+    [...fw.cSource.matchAll(/#define (TW_\w+)\s+(-?[\d.]+(?:e[-+]?\d+)?)f?/gi)].map(m => [
+      m[1]!,
+      Number(m[2]),
+    ]),
+  )
+  const clamp = (v: number) =>
+    Math.max(-defines.TW_SERVO_LIMIT_DEG!, Math.min(defines.TW_SERVO_LIMIT_DEG!, v))
+
+  function firstCommands(readings: number[], setpoint: number, asExported: boolean) {
+    let d = 0
+    let i = 0
+    let n = 0
+    let sPrev = 0
+    const out: number[] = []
+    readings.forEach((reading, k) => {
+      const error = setpoint - reading
+      const s = -reading // derivative on measurement
+      if (k === 0 && asExported) sPrev = s
+      d = defines.TW_D_A! * d + defines.TW_D_B! * (s - sPrev)
+      sPrev = s
+      i = i + defines.TW_KI_T! * error
+      let servo = clamp(defines.TW_KP! * error + i + d)
+      if (asExported && n < defines.TW_SOFT_START!) {
+        n = n + 1
+        servo = (servo * n) / defines.TW_SOFT_START!
+      }
+      out.push(servo)
+    })
+    return out
+  }
+
+  it('starts the servo gently: no derivative kick, the command eased in over half a second', () => {
+    expect(fw.cSource).toMatch(/First sample only: .*s_prev = s of that sample/s)
+    expect(defines.TW_SOFT_START).toBe(Math.round(0.5 * kit.loopRate))
+    expect(fw.json.softStartSamples).toBe(defines.TW_SOFT_START)
+    // The ball rests near the far end (900 counts), the setpoint is mid-track (512).
+    const still = Array.from({ length: 60 }, () => 900)
+    const eased = firstCommands(still, 512, true)
+    // The first command is the proportional and integral terms alone, scaled by 1/TW_SOFT_START.
+    expect(eased[0]).toBeCloseTo(
+      clamp((defines.TW_KP! + defines.TW_KI_T!) * -388) / defines.TW_SOFT_START!, 9)
+    expect(Math.abs(eased[0]!)).toBeLessThan(2)
+    // Without the first-sample line and the soft start (the recipe as it used to read), the
+    // derivative jumps from 0 to the reading and throws the servo to its clamp at once.
+    expect(defines.TW_KP! * 388).toBeLessThan(defines.TW_SERVO_LIMIT_DEG! / 2)
+    const kicked = firstCommands(still, 512, false)
+    expect(Math.abs(kicked[0]!)).toBeCloseTo(defines.TW_SERVO_LIMIT_DEG!, 6)
+    // The soft start never lets a command grow faster than the eased-in limit.
+    eased.forEach((v, k) => {
+      const n = Math.min(k + 1, defines.TW_SOFT_START!)
+      const limit = (defines.TW_SERVO_LIMIT_DEG! * n) / defines.TW_SOFT_START!
+      expect(Math.abs(v)).toBeLessThanOrEqual(limit + 1e-9)
+    })
   })
 })
