@@ -12,7 +12,7 @@ import PDFDocument from 'pdfkit'
 import * as schema from '../server/database/schema'
 import type { SeedTx } from './demo-build'
 import { ORDER_FLOW, flowWording } from '../shared/utils/order-flow'
-import { carrierById } from '../shared/utils/carriers'
+import { replacementReference } from '../shared/utils/shipments'
 import { palette } from '../shared/utils/palette'
 import type { Role } from '../shared/utils/roles'
 import type { TicketPriority, TicketStatus } from '../shared/utils/states'
@@ -652,7 +652,7 @@ async function seedReplacement(
     })
     .$returningId()
   const shipmentId = ship!.id
-  const words: string[] = []
+  const sent: { name: string, quantity: number }[] = []
   for (const want of r.parts) {
     const product = parts.find(p => p.slug === want.slug)
     if (!product) throw new Error(`the demo catalog has no ${want.slug}`)
@@ -681,7 +681,7 @@ async function seedReplacement(
       productId: product.id,
       quantity: want.quantity,
     })
-    words.push(`${product.name} × ${want.quantity}`)
+    sent.push({ name: product.name, quantity: want.quantity })
   }
   const [order] = await tx
     .select({ status: schema.orders.status })
@@ -689,15 +689,13 @@ async function seedReplacement(
     .where(eq(schema.orders.id, space.orderId))
   const row = ORDER_FLOW.find(f => f.action === 'sendReplacement' && f.from === order!.status)
   if (!row) throw new Error(`replacement parts are not open for a ${order!.status} order`)
-  const carrierName = carrierById(r.carrier)?.name ?? r.carrier
   await tx.insert(schema.orderEvents).values({
     orderId: space.orderId,
     kind: 'replacement-shipped',
-    // The words the order engine writes (server/utils/order-steps.ts, sendReplacement).
+    // The words the order engine writes (replacementReference, as sendReplacement does).
     message: flowWording(row, {
       actor: sender.name,
-      reference: `${words.join(', ')} for ticket ${ticketRef(ticketId)}; ${carrierName}, `
-        + `tracking ${r.tracking}`,
+      reference: replacementReference(sent, ticketRef(ticketId), r.carrier, r.tracking),
     }),
     actorId: sender.id,
     createdAt: shippedAt,

@@ -34,7 +34,7 @@ import { formatCents, INVOICE_NET_DAYS } from '../../shared/utils/pricing'
 import { formatDay } from '../../shared/utils/dates'
 import type { SessionUser } from '../../shared/utils/roles'
 import type { CarrierId } from '../../shared/utils/carriers'
-import { shipmentCarrier } from '../../shared/utils/shipments'
+import { replacementReference, shipmentCarrier } from '../../shared/utils/shipments'
 import type { UploadKind } from '../../shared/utils/states'
 import type { CartLine } from '../../shared/schemas/shop'
 import type { CheckoutAddresses } from '../../shared/schemas/address'
@@ -959,7 +959,6 @@ export async function sendReplacement(
     if (Object.keys(fields).length) throw invalid(fields)
     const parts = input.items.map(i => ({ ...i, name: names.get(i.productId)! }))
     const carrier = shipmentCarrier(input.carrier, input.tracking)
-    const partWords = parts.map(p => `${p.name} × ${p.quantity}`).join(', ')
     const ref = ticketRef(ticketId)
     let shipmentId = 0
     await applyStep(
@@ -968,8 +967,7 @@ export async function sendReplacement(
       'sendReplacement',
       actorOf(staff),
       {
-        reference:
-          `${partWords} for ticket ${ref}; ${carrier.carrierName}, tracking ${input.tracking}`,
+        reference: replacementReference(parts, ref, input.carrier, input.tracking),
       },
       async () => {
         const reserved = await reserveStock(tx, order.id, parts, 'items')

@@ -17,3 +17,16 @@ export function shipmentCarrier(carrier: string, tracking: string): ShipmentCarr
     trackingUrl: known ? known.trackingUrl(tracking) : null,
   }
 }
+
+/** The timeline's reference for replacement parts sent from a ticket ("Lever Arm × 1 for ticket
+ *  T-3; USPS, tracking 9400…"): the order engine and the demo data write the same words. */
+export function replacementReference(
+  parts: readonly { name: string, quantity: number }[],
+  ticket: string,
+  carrier: string,
+  tracking: string,
+): string {
+  const what = parts.map(p => `${p.name} × ${p.quantity}`).join(', ')
+  return `${what} for ticket ${ticket}; ${shipmentCarrier(carrier, tracking).carrierName}, `
+    + `tracking ${tracking}`
+}

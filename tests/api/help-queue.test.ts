@@ -206,7 +206,9 @@ describe('the help queue', () => {
       assigneeId: Number(teacherRow.placed_by_id),
     })
     expect(bad.status).toBe(422)
-    expect(bad.body.data.fields.assigneeId).toBeTruthy()
+    expect(bad.body.data.fields.assigneeId).toBe(
+      'Choose someone on the support staff from the list.',
+    )
     const back = await admin.post('/api/help-queue/assign', { ticketIds: free, assigneeId: null })
     expect(back.body).toEqual({ updated: 3 })
     const audited = await sql(

@@ -24,7 +24,7 @@ describe('a replacement on the order page', () => {
       + 'WHERE u.email = ? AND s.kind = \'replacement\' ORDER BY s.id LIMIT 1',
       ['teacher@tiltwright.test'],
     )
-    expect(row).toBeTruthy()
+    expect(row?.ticketId).toBeGreaterThan(0)
     const ctx = await browser.newContext({ viewport: { width: 1280, height: 800 } })
     const page = await ctx.newPage()
     await signInThroughPage(page, 'teacher@tiltwright.test')

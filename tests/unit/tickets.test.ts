@@ -114,11 +114,13 @@ describe('the attachment limits', () => {
 
 describe('the words and orders of states', () => {
   it('labels every status for the staff and for the customer, and every priority', () => {
-    for (const s of TICKET_STATUSES) {
-      expect(TICKET_STATUS_LABELS[s]).toBeTruthy()
-      expect(TICKET_STATUS_FOR_CUSTOMER[s]).toBeTruthy()
+    // Each word list names every value once, and no two values read alike.
+    for (const labels of [TICKET_STATUS_LABELS, TICKET_STATUS_FOR_CUSTOMER]) {
+      expect(Object.keys(labels).sort()).toEqual([...TICKET_STATUSES].sort())
+      expect(new Set(Object.values(labels)).size).toBe(TICKET_STATUSES.length)
     }
-    for (const p of TICKET_PRIORITIES) expect(TICKET_PRIORITY_LABELS[p]).toBeTruthy()
+    expect(Object.keys(TICKET_PRIORITY_LABELS).sort()).toEqual([...TICKET_PRIORITIES].sort())
+    expect(new Set(Object.values(TICKET_PRIORITY_LABELS)).size).toBe(TICKET_PRIORITIES.length)
   })
 
   it('ranks urgent above normal above low', () => {
