@@ -25,6 +25,15 @@ export interface PlannerForm {
   adcBits: number
   sensorSpanRatio: number | null
   sensorLengthMm: number | null
+  /** The track reads backwards (set from a calibration whose counts fall along the beam). */
+  sensorReversed: boolean
+  /** Actuator and sensor details; blank = the model's default (see the schema). */
+  servoCenterUs: number | null
+  servoUsPerDeg: number | null
+  servoResolution: NonNullable<Rig['servoResolution']>
+  servoDeadbandUs: number | null
+  servoFrameHz: number | null
+  adcNoiseCounts: number | null
   overshootPct: number
   settlingTime: number
   form: Targets['form']
@@ -56,6 +65,13 @@ export const FORM_FIELD_OF: Record<string, keyof PlannerForm> = {
   adcBits: 'adcBits',
   sensorSpanRatio: 'sensorSpanRatio',
   sensorLength: 'sensorLengthMm',
+  sensorReversed: 'sensorReversed',
+  servoCenterUs: 'servoCenterUs',
+  servoUsPerDeg: 'servoUsPerDeg',
+  servoResolution: 'servoResolution',
+  servoDeadbandUs: 'servoDeadbandUs',
+  servoFrameHz: 'servoFrameHz',
+  adcNoiseCounts: 'adcNoiseCounts',
   overshootPct: 'overshootPct',
   settlingTime: 'settlingTime',
   form: 'form',
@@ -90,6 +106,13 @@ export function rigFromForm(f: PlannerForm): Rig {
     adcBits: num(f.adcBits),
     sensorSpanRatio: opt(f.sensorSpanRatio),
     sensorLength: opt(f.sensorLengthMm, MM),
+    sensorReversed: f.sensorReversed ? true : undefined,
+    servoCenterUs: opt(f.servoCenterUs),
+    servoUsPerDeg: opt(f.servoUsPerDeg),
+    servoResolution: f.servoResolution,
+    servoDeadbandUs: opt(f.servoDeadbandUs),
+    servoFrameHz: opt(f.servoFrameHz),
+    adcNoiseCounts: opt(f.adcNoiseCounts),
   }
 }
 
@@ -128,6 +151,13 @@ export function formFrom(rig: Rig, targets: Targets): PlannerForm {
     adcBits: rig.adcBits,
     sensorSpanRatio: rig.sensorSpanRatio ?? null,
     sensorLengthMm: rig.sensorLength === undefined ? null : round(rig.sensorLength / MM),
+    sensorReversed: rig.sensorReversed ?? false,
+    servoCenterUs: rig.servoCenterUs ?? null,
+    servoUsPerDeg: rig.servoUsPerDeg ?? null,
+    servoResolution: rig.servoResolution ?? 'microsecond',
+    servoDeadbandUs: rig.servoDeadbandUs ?? null,
+    servoFrameHz: rig.servoFrameHz ?? null,
+    adcNoiseCounts: rig.adcNoiseCounts ?? null,
     overshootPct: targets.overshootPct,
     settlingTime: targets.settlingTime,
     form: targets.form,

@@ -1,4 +1,4 @@
-// Checking a set of gains (docs/planner.md §4): margins on the continuous loop with its 1.5·T
+// Checking a set of gains (docs/planner-model.md §4): margins on the continuous loop with its 1.5·T
 // delay, exact stability of the sampled loop, and step metrics of the sampled loop.
 import { filterTimeConstant } from './design'
 import {
@@ -41,6 +41,19 @@ export interface LoopAnalysis {
   delayMargin: number | null
   /** Closed-loop −3 dB bandwidth, rad/s; null when unstable. */
   closedLoopBandwidth: number | null
+  /**
+   * The continuous stand-in's margins (the loop with its 1.5·T delay), kept as a secondary line;
+   * the top-level margins are those of the sampled loop the firmware runs.
+   */
+  continuous: {
+    gainMarginDb: number | null
+    phaseMarginDeg: number | null
+    delayMargin: number | null
+  }
+  /** Sensitivity peak Ms = max |1/(1 + L)|; null when unstable. */
+  sensitivityPeak: number | null
+  /** Why the loop is unstable, in plain words; null when stable. */
+  explanation: string | null
   step: {
     /** % of the step; null when unstable. */
     overshootPct: number | null
@@ -160,6 +173,13 @@ export function analyzePlantLoop(
     phaseCrossover: f.phaseCrossover,
     delayMargin: f.delayMargin,
     closedLoopBandwidth: bandwidth,
+    continuous: {
+      gainMarginDb: f.gainMarginDb,
+      phaseMarginDeg: f.phaseMarginDeg,
+      delayMargin: f.delayMargin,
+    },
+    sensitivityPeak: null,
+    explanation: null,
     step,
   }
 }

@@ -1,4 +1,4 @@
-// Rail sensor calibration (docs/planner.md §6): a least-squares line
+// Rail sensor calibration (docs/planner-model.md §6): a least-squares line
 // position = slope·reading + offset through (ADC reading, measured position) pairs. Readings
 // pinned at 0 or at full scale carry no position (no ball bridging the rails, or a ball that does
 // not conduct) and are left out.

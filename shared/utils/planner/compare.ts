@@ -1,4 +1,5 @@
-// P only next to PD (docs/planner.md §3): on K_b/s² a P controller swings for ever at √(K_b·Kp);
+// P only next to PD (docs/planner-model.md §3): on K_b/s² a P controller swings for ever at
+// √(K_b·Kp);
 // with the servo's lag and the loop's delay every swing grows. The growth rate is read from
 // the dominant pole of the sampled loop.
 import { analyzePlantLoop, sampledLoopOf, type LoopAnalysis } from './analyze'

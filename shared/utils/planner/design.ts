@@ -1,4 +1,4 @@
-// Suggesting gains from targets (docs/planner.md §3). Second-order relations are from Nise,
+// Suggesting gains from targets (docs/planner-model.md §3). Second-order relations are from Nise,
 // Control Systems Engineering, ch. 4; the lag-aware placement matches the characteristic
 // polynomial of C(s)·K_b/(s²(τ_eff s + 1)) term by term.
 import type { Plant } from './plant'
@@ -85,7 +85,7 @@ export function settlingTimeBounds(
   return { fastest: 8 / room, recommended: 28 / room }
 }
 
-/** docs/planner.md §3: ideal (method A) or lag-aware (method B) placement, PD or PID. */
+/** docs/planner-model.md §3: ideal (method A) or lag-aware (method B) placement, PD or PID. */
 export function designGains(plant: Plant, targets: Targets): GainDesign {
   const zeta = zetaFromOvershoot(targets.overshootPct)
   const wn = naturalFrequency(zeta, targets.settlingTime)

@@ -1,5 +1,7 @@
-// Firmware constants (docs/planner.md §5). The firmware works in ADC counts in and servo degrees
+// Firmware constants (docs/planner-model.md §5). The firmware works in ADC counts in and servo
+// degrees
 // out, so every gain is also given in those units: Kp°/count = Kp·(180/π)/k_s, b°/count likewise.
+import { actuatorOf } from './actuator'
 import { filterTimeConstant } from './design'
 import { fmt } from './format'
 import { beamAngleRange } from './geometry'
@@ -43,6 +45,14 @@ export interface FirmwareConstants {
    * back.
    */
   servoLimitDeg: number
+  /** −1 when the track reads backwards: the firmware negates the reading (TW_READING_SIGN). */
+  readingSign: 1 | -1
+  /** Pulse that holds the beam level, µs. */
+  servoCenterUs: number
+  /** Pulse width per servo degree, µs. */
+  usPerDeg: number
+  /** The command clamp in µs either side of the centre pulse. */
+  servoLimitUs: number
   /** A C block to paste into the sketch. */
   cSource: string
   /** The same constants as plain JSON with their units spelled out. */
@@ -91,6 +101,7 @@ export function firmwareConstants(
   options: FirmwareOptions = {},
 ): FirmwareConstants {
   const plant = plantOf(rig)
+  const actuator = actuatorOf(rig)
   const T = plant.period
   const ks = plant.countsPerMeter
   const tf = filterTimeConstant(gains.kp, gains.kd, gains.n)
@@ -189,6 +200,10 @@ export function firmwareConstants(
     kdDegPerMmPerS: (gains.kd * DEG) / 1000,
     softStartSamples,
     servoLimitDeg,
+    readingSign: rig.sensorReversed ? -1 : 1,
+    servoCenterUs: actuator.centerUs,
+    usPerDeg: actuator.usPerRad / DEG,
+    servoLimitUs: servoLimitDeg * (actuator.usPerRad / DEG),
     cSource,
     json,
     warnings,

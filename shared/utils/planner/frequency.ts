@@ -1,6 +1,6 @@
 // Stability margins of L(s) = C(s)·1/(τ_s s + 1)·K_b/s²·e^(−δ s), evaluated exactly on s = jω
 // (no Padé), with C(s) = Kp + Ki/s + Kd s/(1 + T_f s) — the whole controller, whichever signal
-// the derivative acts on (docs/planner.md §4).
+// the derivative acts on (docs/planner-model.md §4).
 //
 // Method: one fixed log-spaced frequency grid (16 points a decade) brackets every gain
 // crossover (|L| = 1) and every phase crossover (unwrapped phase = −180° − k·360°); Brent's

@@ -1,4 +1,5 @@
-// Exact lever linkage (docs/planner.md §1): the pushrod joint on the beam is B = L_a(cos α, sin α),
+// Exact lever linkage (docs/planner-model.md §1): the pushrod joint on the beam is B = L_a(cos α,
+// sin α),
 // the horn tip is P = (L_a − d + d cos θ, −ℓ + d sin θ), and the pushrod keeps |B − P| = ℓ.
 // At θ = 0 the horn lies along the beam and the rod stands vertical, so the beam is level.
 // Both directions reduce to  a cos φ + b sin φ = c, solved in closed form on the branch that

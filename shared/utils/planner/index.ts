@@ -1,4 +1,5 @@
-// The Gain Planner model: pure TypeScript, SI units, no framework imports. See docs/planner.md.
+// The Gain Planner model: pure TypeScript, SI units, no framework imports. See docs/planner-
+// model.md.
 export * from './schema'
 export * from './plant'
 export * from './geometry'
@@ -16,4 +17,11 @@ export * from './limits'
 export * from './warnings'
 export * from './plan'
 export * from './presets'
+export * from './actuator'
+export * from './loop-view'
+export * from './commissioning'
+export * from './envelope'
+export * from './measured-run'
+export * from './jitter'
+export * from './jobs'
 export { fmt } from './format'

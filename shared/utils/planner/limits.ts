@@ -1,4 +1,5 @@
-// What the hardware lets a set of gains do (docs/planner.md §4, Limits). The step simulation is
+// What the hardware lets a set of gains do (docs/planner-model.md §4, Limits). The step simulation
+// is
 // linear, so its peak command and peak servo speed scale with the step: the largest step is
 // the hardware limit divided by the peak per metre. The servo is centred on a level beam,
 // so the command may swing ±travel/2.
@@ -35,7 +36,7 @@ export interface PlannerLimits {
   linkageReachable: boolean
   /** Largest ball acceleration the beam can give, eta·g·sin(beam angle limit), m/s². */
   maxBallAcceleration: number
-  /** Servo jump per ADC count of noise, Kp(1 + N)/k_s (docs/planner.md §4), rad. */
+  /** Servo jump per ADC count of noise, Kp(1 + N)/k_s (docs/planner-model.md §4), rad. */
   servoJumpPerCount: number
   servoJumpPerCountDeg: number
   /** What the firmware actually does on a one-count jump, (Kp + b)/k_s, degrees. */

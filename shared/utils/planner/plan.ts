@@ -37,6 +37,16 @@ export interface GainPlan
   /** The setpoint step the limits were checked against, m. */
   stepSize: number
   warnings: PlannerWarning[]
+  /** How the exported firmware discretises (Tustin falls back to backward Euler when refused):
+   *  the analysis, the margins and the drawn response all use this. */
+  discretization: Discretization
+  /**
+   * P only: the gains the method gives (Kp = ω_n²/K_b, Kd = Ki = 0), for drawing the swing it
+   * predicts and its verdict. Never loaded as a suggestion; null for PD and PID.
+   */
+  proportional: Gains | null
+  /** Why there is no suggestion, in plain words (the real reason); null when feasible. */
+  reason: string | null
 }
 
 export function planGains(rig: Rig, targets: Targets): GainPlan {
@@ -107,5 +117,8 @@ export function planGains(rig: Rig, targets: Targets): GainPlan {
     limits,
     stepSize,
     warnings,
+    discretization: firmware?.discretization ?? targets.discretization ?? 'backward-euler',
+    proportional: null,
+    reason: null,
   }
 }

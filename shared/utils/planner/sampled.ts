@@ -1,4 +1,4 @@
-// The sampled loop as the firmware runs it (docs/planner.md §4–5), linear, no limits:
+// The sampled loop as the firmware runs it (docs/planner-model.md §4–5), linear, no limits:
 //   the ball is sampled at kT; e_k = r − x_k; s_k = −x_k (derivative on measurement) or e_k;
 //   D_k = a·D_{k−1} + b·(s_k − s_{k−1}); I_k = I_{k−1} + Ki·T·e_k; u_k = Kp·e_k + I_k + D_k;
 //   u_k is held from (k+1)T to (k+2)T (0 on [0, T)), D_{−1} = s_{−1} = 0.

@@ -33,6 +33,16 @@ export const CONTROLLER_FORMS = ['P', 'PD', 'PID'] as const
 export const TUNING_METHODS = ['lag-aware', 'ideal'] as const
 export const DERIVATIVE_SIGNALS = ['measurement', 'error'] as const
 export const DISCRETIZATIONS = ['backward-euler', 'tustin'] as const
+export const SERVO_RESOLUTIONS = ['degree', 'microsecond'] as const
+
+/**
+ * What the trade builds (docs/planner-model.md, "Input bounds"): a hobby servo takes a new pulse
+ * 50 to 330 times a second, so a loop faster than 1000 Hz changes nothing it can follow, and
+ * slower than 10 Hz no ball on a beam can be caught. A balancing rig settles in seconds; a
+ * minute is far past any target a class sets.
+ */
+export const LOOP_RATE_RANGE = [10, 1000] as const
+export const SETTLING_TIME_MAX = 60
 
 const rigShape = z.object({
   beamLength: positive('beamLength', 'Beam length', 'm', 5),
@@ -55,7 +65,15 @@ const rigShape = z.object({
   /** Total servo travel, rad (180° = pi). */
   servoTravel: positive('servoTravel', 'Servo travel', 'rad', 2 * Math.PI),
   servoType: oneOf('servoType', 'Servo type', SERVO_TYPES).optional(),
-  loopRate: positive('loopRate', 'Loop rate', 'Hz', 100000),
+  loopRate: finite('loopRate', 'Loop rate')
+    .min(LOOP_RATE_RANGE[0], {
+      error: `Loop rate (loopRate) must be at least ${LOOP_RATE_RANGE[0]} Hz: slower than that `
+        + 'the ball rolls away between two readings',
+    })
+    .max(LOOP_RATE_RANGE[1], {
+      error: `Loop rate (loopRate) must be at most ${LOOP_RATE_RANGE[1]} Hz: a hobby servo takes `
+        + 'a new position at most a few hundred times a second, so a faster loop gains nothing',
+    }),
   adcBits: finite('adcBits', 'ADC resolution')
     .int({ error: 'ADC resolution (adcBits) must be a whole number of bits' })
     .min(6, { error: 'ADC resolution (adcBits) must be at least 6 bits' })
@@ -71,6 +89,40 @@ const rigShape = z.object({
   gravity: positive('gravity', 'Gravity', 'm/s²', 30).optional(),
   /** l: pushrod length for the exact lever geometry; 0.1 m when absent. */
   pushrodLength: positive('pushrodLength', 'Pushrod length', 'm', 5).optional(),
+  /**
+   * The track reads backwards: counts fall as the ball moves towards +x. The firmware negates
+   * the reading (TW_READING_SIGN −1); false when absent.
+   */
+  sensorReversed: z
+    .boolean({ error: 'Track reads backwards (sensorReversed) must be true or false' })
+    .optional(),
+  /** Servo pulse that holds the beam level, µs; 1500 when absent. */
+  servoCenterUs: finite('servoCenterUs', 'Servo centre pulse')
+    .min(500, { error: 'Servo centre pulse (servoCenterUs) must be at least 500 µs' })
+    .max(2500, { error: 'Servo centre pulse (servoCenterUs) must be at most 2500 µs' })
+    .optional(),
+  /** Pulse width per degree of horn, µs/°; 1000/90 when absent. */
+  servoUsPerDeg: finite('servoUsPerDeg', 'Pulse per degree')
+    .min(2, { error: 'Pulse per degree (servoUsPerDeg) must be at least 2 µs per degree' })
+    .max(40, { error: 'Pulse per degree (servoUsPerDeg) must be at most 40 µs per degree' })
+    .optional(),
+  /** What the firmware can write to the servo; 'microsecond' when absent. */
+  servoResolution: oneOf('servoResolution', 'Servo output steps', SERVO_RESOLUTIONS).optional(),
+  /** Pulse change the servo ignores, µs; 0 when absent. */
+  servoDeadbandUs: finite('servoDeadbandUs', 'Servo deadband')
+    .min(0, { error: 'Servo deadband (servoDeadbandUs) must be 0 µs or more' })
+    .max(50, { error: 'Servo deadband (servoDeadbandUs) must be at most 50 µs' })
+    .optional(),
+  /** Servo PWM frame rate, Hz; 50 when absent. */
+  servoFrameHz: finite('servoFrameHz', 'Servo frame rate')
+    .min(20, { error: 'Servo frame rate (servoFrameHz) must be at least 20 Hz' })
+    .max(400, { error: 'Servo frame rate (servoFrameHz) must be at most 400 Hz' })
+    .optional(),
+  /** ADC noise with the ball held still, counts RMS; none when absent. */
+  adcNoiseCounts: finite('adcNoiseCounts', 'Sensor noise')
+    .min(0, { error: 'Sensor noise (adcNoiseCounts) must be 0 counts or more' })
+    .max(200, { error: 'Sensor noise (adcNoiseCounts) must be at most 200 counts' })
+    .optional(),
 })
 
 /** A field that passed its own check; relations between fields are only judged between these. */
@@ -126,7 +178,7 @@ export const targetsSchema = z.object({
   overshootPct: finite('overshootPct', 'Overshoot')
     .min(0, { error: 'Overshoot (overshootPct) must be 0 % or more' })
     .lt(100, { error: 'Overshoot (overshootPct) must be less than 100 %' }),
-  settlingTime: positive('settlingTime', 'Settling time', 's', 600),
+  settlingTime: positive('settlingTime', 'Settling time', 's', SETTLING_TIME_MAX),
   form: oneOf('form', 'Controller form', CONTROLLER_FORMS),
   derivativeFilterN: positive('derivativeFilterN', 'Derivative filter N', '', 1000),
   method: oneOf('method', 'Method', TUNING_METHODS),
@@ -174,3 +226,4 @@ export type ControllerForm = (typeof CONTROLLER_FORMS)[number]
 export type TuningMethod = (typeof TUNING_METHODS)[number]
 export type DerivativeSignal = (typeof DERIVATIVE_SIGNALS)[number]
 export type Discretization = (typeof DISCRETIZATIONS)[number]
+export type ServoResolution = (typeof SERVO_RESOLUTIONS)[number]

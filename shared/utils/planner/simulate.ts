@@ -1,4 +1,4 @@
-// The drawn response (docs/planner.md §4): a nonlinear simulation of the rig as built.
+// The drawn response (docs/planner-model.md §4): a nonlinear simulation of the rig as built.
 //   ball     x'' = eta·g·sin(alpha), stopped (inelastically) at the beam ends
 //   linkage  alpha(theta): exact lever geometry (default for a lever drive) or d/L_a·theta;
 //            theta/N_g direct
@@ -50,6 +50,16 @@ export interface SimulateOptions {
   subSteps?: number
   /** Output every this many sub-steps; default 5. */
   outputEvery?: number
+  /** Ease the command in as the exported recipe does (TW_SOFT_START); default true. */
+  softStart?: boolean
+  /** The servo's PWM frame, output steps and deadband (actuatorOf(rig)); default true. */
+  actuator?: boolean
+  /** What-ifs and the measured-run fit: scale the plant gain K_b; default 1. */
+  kbScale?: number
+  /** Scale the servo lag τ_s (and its slew limit); default 1. */
+  servoLagScale?: number
+  /** Extra whole samples of delay before the command reaches the servo; default 0. */
+  extraDelaySamples?: number
 }
 
 export interface SimulationResult {
@@ -78,6 +88,9 @@ export interface SimulationResult {
     linkageLimited: boolean
     /** The sensor read 0 or full scale. */
     sensorOutOfRange: boolean
+    /** The ball kept moving back and forth around the setpoint because of the servo's output
+     *  steps or deadband (a limit cycle the linear model does not have). */
+    hunting: boolean
   }
 }
 
@@ -184,6 +197,7 @@ export function simulate(rig: Rig, gains: Gains, options: SimulateOptions = {}):
       hitEnd: false,
       linkageLimited: false,
       sensorOutOfRange: false,
+      hunting: false,
     },
   }
   const record = (t: number, x: number, v: number, th: number, r: number, c: number) => {

@@ -1,4 +1,5 @@
-// The planner's warnings (docs/planner.md §3–4). Codes are stable (pages and tests key on them);
+// The planner's warnings (docs/planner-model.md §3–4). Codes are stable (pages and tests key on
+// them);
 // messages are for a student at the bench, in plain words with the numbers that matter.
 import type { LoopAnalysis } from './analyze'
 import type { GainDesign } from './design'

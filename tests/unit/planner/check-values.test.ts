@@ -1,4 +1,4 @@
-// docs/planner.md §7: every published check value, with its source in the test title.
+// docs/planner-model.md §7: every published check value, with its source in the test title.
 import { describe, expect, it } from 'vitest'
 import {
   accelerationFactor,
@@ -76,7 +76,7 @@ describe('plant', () => {
     })
 
   it(
-    'sensor: 10 bit over 0.4 m with V_span = V_ref gives 2560 counts/m — docs/planner.md §1',
+    'sensor: 10 bit over 0.4 m with V_span = V_ref gives 2560 counts/m — docs/planner-model.md §1',
     () => {
       expect(countsPerMeter(10, 0.4)).toBe(2560)
       const rig = { ...tutorialRig, beamLength: 0.4, pivotToLink: 0.4 }
@@ -84,7 +84,7 @@ describe('plant', () => {
     })
 
   it(
-    'servo: t60 = 0.1 s gives ω_max = 10.4720 rad/s and τ_s = 0.03333 s — docs/planner.md §1 '
+    'servo: t60 = 0.1 s gives ω_max = 10.4720 rad/s and τ_s = 0.03333 s — docs/planner-model.md §1 '
     + '(τ_s rule is this product’s assumption)', () => {
       expect(servoSlewLimit(0.1)).toBeCloseTo(10.472, 4)
       expect(servoLag(0.1)).toBeCloseTo(0.033333, 6)
@@ -178,7 +178,7 @@ describe('margins', () => {
 describe('gain placement', () => {
   it(
     'PID on K_b = 0.21 with ζ = 0.690107, ω_n = 1.93207, p_i = 0.25ω_n: Kp = 23.9092, '
-    + 'Ki = 8.58595, Kd = 14.9985 — docs/planner.md §3 formulas', () => {
+    + 'Ki = 8.58595, Kd = 14.9985 — docs/planner-model.md §3 formulas', () => {
       const plant = { ...plantOf(tutorialRig), kb: 0.21 } satisfies Plant
       // ζ = 0.690107 is 5 % overshoot; ω_n = 4/(ζ·T_s) = 1.93207 for T_s = 3 s.
       const d = designGains(plant, {
@@ -200,7 +200,7 @@ describe('gain placement', () => {
 describe('lever geometry', () => {
   it(
     'd = 0.03, L_a = 1, ℓ = 0.1, θ = 90°: α = 0.0254983 rad exact, 0.0471239 '
-    + 'small-angle — the exact constraint of docs/planner.md §1', () => {
+    + 'small-angle — the exact constraint of docs/planner-model.md §1', () => {
       const g = { leverArm: 0.03, pivotToLink: 1, pushrodLength: 0.1 }
       expect(leverBeamAngle(Math.PI / 2, g)).toBeCloseTo(0.0254983, 7)
       expect(smallAngleBeamAngle(Math.PI / 2, g)).toBeCloseTo(0.0471239, 7)
@@ -210,7 +210,7 @@ describe('lever geometry', () => {
 describe('firmware', () => {
   it(
     'Kp = 15, Kd = 40, N = 10, 50 Hz, 1024 counts/m: T_f = 0.266667, a = 0.930233, b = '
-    + '139.535, 0.83929 °/count — docs/planner.md §5 formulas', () => {
+    + '139.535, 0.83929 °/count — docs/planner-model.md §5 formulas', () => {
       // 2^10 counts over 1 m
       const rig: Rig = { ...tutorialRig, beamLength: 1, adcBits: 10, loopRate: 50 }
       const gains = { kp: 15, kd: 40, ki: 0, n: 10, derivativeOn: 'measurement' as const }

@@ -75,7 +75,7 @@ describe('margins and step metrics equal the straightforward versions', () => {
     const plant = plantOf(rig)
     const f = analyzeFrequency(loopParamsOf(plant, gains))
     const ref = referenceMargins(loopParamsOf(plant, gains), 1e-3, 1e5)
-    // The reference takes "the smallest over the phase crossovers" (docs/planner.md §4)
+    // The reference takes "the smallest over the phase crossovers" (docs/planner-model.md §4)
     // literally and lands on the low-frequency crossover, where |L| > 1: that is how far the
     // gain may FALL.
     expect(f.nyquistStable).toBe(true)

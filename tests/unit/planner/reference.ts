@@ -23,7 +23,7 @@ export function loopAt(p: LoopParams, w: number): C {
 export interface ReferenceMargins {
   gainCrossover: number | null
   phaseMarginDeg: number | null
-  /** Minimum over every phase crossover of −20 log10 |L| (docs/planner.md §4, literally). */
+  /** Minimum over every phase crossover of −20 log10 |L| (docs/planner-model.md §4, literally). */
   gainMarginDb: number | null
   phaseCrossover: number | null
 }
@@ -107,7 +107,7 @@ export interface ReferenceStep {
 }
 
 /**
- * The sampled loop of docs/planner.md §4 simulated the plain way: RK4 on θ' = (u − θ)/τ_s,
+ * The sampled loop of docs/planner-model.md §4 simulated the plain way: RK4 on θ' = (u − θ)/τ_s,
  * v' = K_b θ, x' = v with `sub` sub-steps per sample, overshoot over sub-step points, settling by
  * linear interpolation at the last sub-step outside the band.
  */
