@@ -1,7 +1,7 @@
 // The rig as a plant: rolling ball, lever or geared drive, servo lag, sensor, loop timing.
 // Formulas are docs/planner-model.md §1; the ball equation x'' = eta·g·sin(alpha) is the
-// rolling-without-slipping result of any mechanics text (e.g. Halliday & Resnick), with the rail contact
-// chord as the instantaneous axis (Young & Freedman, University Physics, ch. 10).
+// rolling-without-slipping result of any mechanics text (e.g. Halliday & Resnick), with the
+// rail contact chord as the instantaneous axis (Young & Freedman, University Physics, ch. 10).
 import type { BallShell, Rig } from './schema'
 
 export const DEFAULT_GRAVITY = 9.81
