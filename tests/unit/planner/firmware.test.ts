@@ -209,8 +209,9 @@ describe('a track that reads backwards (the reading sign)', () => {
 describe('the servo pulse in microseconds', () => {
   const kit = KIT_PRESETS[0]!.rig
   const planned = planGains(kit, DEFAULT_TARGETS).gains!
-  it('exports the centre, trim, µs per degree and limit, and every C line fits 78 characters', () => {
-    for (const rig of [kit, { ...kit, sensorReversed: true, servoResolution: 'degree' as const }]) {
+  it('exports the centre, trim, µs per degree and limit; every C line fits 78 characters', () => {
+    const degreeRig = { ...kit, sensorReversed: true, servoResolution: 'degree' as const }
+    for (const rig of [kit, degreeRig]) {
       const fw = firmwareConstants(rig, planned)
       const d = definesOf(fw)
       expect(d.TW_SERVO_CENTER_US).toBe(1500)

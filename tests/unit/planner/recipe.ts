@@ -46,8 +46,11 @@ export function recipeOf(
       const iNext = i + k.TW_KI_T! * error
       const limit = k.TW_SERVO_LIMIT_DEG!
       let servo = k.TW_KP! * error + iNext + dTerm
-      if (Math.abs(servo) > limit) servo = Math.max(-limit, Math.min(limit, k.TW_KP! * error + i + dTerm))
-      else i = iNext
+      if (Math.abs(servo) > limit) {
+        servo = Math.max(-limit, Math.min(limit, k.TW_KP! * error + i + dTerm))
+      } else {
+        i = iNext
+      }
       if (n < k.TW_SOFT_START!) {
         n = n + 1
         servo = (servo * n) / k.TW_SOFT_START!
