@@ -17,6 +17,11 @@ const DEG = 180 / Math.PI
  *  servo eases the beam into the loop instead of jumping to wherever the first error sends it. */
 export const SOFT_START_SECONDS = 0.5
 
+/** TW_SOFT_START: the soft start's length in samples at a loop rate (at least 1). */
+export function softStartSamplesOf(loopRateHz: number): number {
+  return Math.max(1, Math.round(SOFT_START_SECONDS * loopRateHz))
+}
+
 export interface FirmwareConstants {
   /** What the constants were computed for (Tustin falls back to backward Euler when refused). */
   discretization: Discretization
@@ -148,7 +153,7 @@ export function firmwareConstants(
   const loopRateHz = rig.loopRate
   const sSignal = gains.derivativeOn === 'measurement' ? '-reading' : 'error'
   const method = discretization === 'tustin' ? 'Tustin' : 'backward Euler'
-  const softStartSamples = Math.max(1, Math.round(SOFT_START_SECONDS * loopRateHz))
+  const softStartSamples = softStartSamplesOf(loopRateHz)
   const readingSign: 1 | -1 = rig.sensorReversed ? -1 : 1
   const adcFullScale = 2 ** rig.adcBits - 1
   const usPerDeg = actuator.usPerRad / DEG
