@@ -120,6 +120,35 @@ export function servoAngleAt(
   return c - gap * Math.exp(-t / tau)
 }
 
+/** The beam angle for a servo angle, and whether the lever was ever held at its reach. */
+export function linkageOf(
+  rig: Rig,
+  model: 'exact' | 'small-angle' = 'exact',
+): { alpha: (theta: number) => number, limited: () => boolean } {
+  let limited = false
+  const report = { limited: () => limited }
+  if (rig.drive === 'direct') {
+    const ng = rig.gearRatio ?? 1
+    return { alpha: theta => theta / ng, ...report }
+  }
+  const g = leverGeometryOf(rig)
+  if (model === 'small-angle') return { alpha: theta => smallAngleBeamAngle(theta, g), ...report }
+  const plant = plantOf(rig)
+  const [lo, hi] = reachableServoRange(g, Math.min(Math.PI, Math.max(plant.halfTravel, 0)))
+  const alpha = (theta: number) => {
+    let th = theta
+    if (th > hi) {
+      th = hi
+      limited = true
+    } else if (th < lo) {
+      th = lo
+      limited = true
+    }
+    return leverBeamAngle(th, g) ?? 0
+  }
+  return { alpha, ...report }
+}
+
 export function simulate(rig: Rig, gains: Gains, options: SimulateOptions = {}): SimulationResult {
   const plant = plantOf(rig)
   const T = plant.period
@@ -144,31 +173,8 @@ export function simulate(rig: Rig, gains: Gains, options: SimulateOptions = {}):
   const xMin = -overhang + radius
   const xMax = plant.sensorLength + overhang - radius
 
-  // linkage
-  let alphaOf: (theta: number) => number
-  let linkageLimited = false
-  if (rig.drive === 'direct') {
-    const ng = rig.gearRatio ?? 1
-    alphaOf = theta => theta / ng
-  } else {
-    const g = leverGeometryOf(rig)
-    if ((options.linkage ?? 'exact') === 'small-angle') {
-      alphaOf = theta => smallAngleBeamAngle(theta, g)
-    } else {
-      const [lo, hi] = reachableServoRange(g, Math.min(Math.PI, Math.max(plant.halfTravel, 0)))
-      alphaOf = (theta) => {
-        let th = theta
-        if (th > hi) {
-          th = hi
-          linkageLimited = true
-        } else if (th < lo) {
-          th = lo
-          linkageLimited = true
-        }
-        return leverBeamAngle(th, g) ?? 0
-      }
-    }
-  }
+  const linkage = linkageOf(rig, options.linkage ?? 'exact')
+  const alphaOf = linkage.alpha
 
   const x0 = options.initialPosition ?? plant.sensorLength / 2
   const r0 = options.initialSetpoint ?? x0
@@ -346,7 +352,7 @@ export function simulate(rig: Rig, gains: Gains, options: SimulateOptions = {}):
     held = pending.shift()!
   }
   record(samples * T, x, v, th, samples * T < tChange ? r0 : r1, held)
-  out.events.linkageLimited = linkageLimited
+  out.events.linkageLimited = linkage.limited()
   out.events.hunting = useActuator && (step > 0 || deadband > 0) && hunts(out, ks, settledFrom)
   return out
 }
