@@ -210,8 +210,6 @@ export function analyzePlantLoop(
   }
 }
 
-const HZ = (w: number) => fmt(w / (2 * Math.PI))
-
 /** Why a loop is unstable, in plain words: which check failed and what the rig would do. */
 export function explainUnstable(
   plant: Plant,
@@ -228,25 +226,45 @@ export function explainUnstable(
       + 'through and back for ever, and the servo\'s lag and the loop\'s delay make each swing '
       + 'bigger. Add Kd (choose PD).'
   }
-  // The crossing of the negative real axis outside −1 nearest it tells the way to go.
+  // The crossing of the negative real axis outside −1 nearest it tells the way to go: below
+  // the gain crossover the loop lacks lead (too little damping), above it the gains are too high.
   let above: { frequency: number, magnitude: number } | null = null
   for (const c of m.phaseCrossovers) {
     if (c.magnitude > 1 && (above === null || c.magnitude < above.magnitude)) above = c
   }
-  const lowSide = above !== null && m.gainCrossover !== null && above.frequency < m.gainCrossover
-  const ring = above !== null ? ` about ${HZ(above.frequency)} times a second` : ''
   const head = rootsInside
     ? 'The check finds no safety margin at all: '
     : 'The loop the firmware runs is unstable: '
-  if (lowSide && gains.ki > 0) {
-    return head + `the integral term is too strong for Kp and Kd, so the ball sways slowly${ring}, `
-      + 'further each time. Lower Ki or raise Kp.'
+  const swing = (w: number) => {
+    const f = w / (2 * Math.PI)
+    return f >= 1
+      ? `about ${fmt(f)} times a second`
+      : `about once every ${fmt(1 / f)} s`
+  }
+  const highest = m.gainCrossovers.length > 0 ? Math.max(...m.gainCrossovers) : null
+  const lowSide = above !== null && (highest === null || above.frequency < highest)
+  if (above !== null && lowSide) {
+    if (gains.ki > 0 && above.frequency < 0.5 * (m.gainCrossovers[0] ?? Infinity)) {
+      return head + `the integral term is too strong for Kp and Kd, so the ball sways slowly `
+        + `(${swing(above.frequency)}), further each time. Lower Ki or raise Kp and Kd.`
+    }
+    return head + `the ball swings back and forth (${swing(above.frequency)}), further each `
+      + 'time: at that pace the servo\'s lag, the derivative filter and the loop\'s delay '
+      + `(${fmt(plant.effectiveLag * 1000)} ms without the filter) turn the correction around, `
+      + 'so it pushes the swing instead of damping it. Start again from the suggested gains; '
+      + 'the stability map shows which Kp and Kd keep the loop stable.'
   }
   if (above !== null) {
     return head + `the gains are too high for the servo's lag and the loop's delay `
       + `(${fmt(plant.effectiveLag * 1000)} ms together): the servo overcorrects and the ball `
-      + `shakes back and forth${ring}, further each time. Lower Kp and Kd, `
+      + `shakes back and forth (${swing(above.frequency)}), further each time. Lower Kp and Kd, `
       + 'or use a faster servo or loop rate.'
+  }
+  if (m.phaseMarginDeg !== null && m.phaseMarginDeg <= 0) {
+    return head + 'where the loop\'s gain falls to 1 the servo\'s lag and the loop\'s delay '
+      + 'have used up all the lead the derivative gives, so the ball swings further each time. '
+      + 'Start again from the suggested gains; the stability map shows which Kp and Kd keep the '
+      + 'loop stable.'
   }
   return head + 'the ball would swing further each time, or run off to one end. Check the gains.'
 }
