@@ -25,9 +25,9 @@ function workerFor(name: PlannerJobName) {
   if (!w) {
     let worker: Worker | null = null
     try {
+      // Literal options: Vite finds the worker by this exact shape and bundles it.
       worker = new Worker(new URL('../workers/planner.worker.ts', import.meta.url), {
         type: 'module',
-        name: `planner-${name}`,
       })
     } catch {
       worker = null

@@ -1,6 +1,6 @@
 // The planner draft: the form in the builder's units, which gains are on the rig (the
 // suggestion or the builder's own), and the calibration readings. Kept across reloads.
-import { defineStore } from 'pinia'
+import { defineStore, skipHydrate } from 'pinia'
 import { ref, toRaw } from 'vue'
 import { DEFAULT_TARGETS, KIT_PRESETS } from '~~/shared/utils/planner/presets'
 import { checkPlannerForm, formFrom, type PlannerForm } from '~~/shared/utils/planner-form'
@@ -234,7 +234,8 @@ export const usePlannerStore = defineStore('planner', () => {
     calibration,
     sheet,
     rig,
-    refusedDraft,
+    // Read from storage in the browser: the server's empty copy must not overwrite it.
+    refusedDraft: skipHydrate(refusedDraft),
     applyPreset,
     planForRig,
     leaveRig,

@@ -98,7 +98,8 @@ describe('Gain Planner on the bench', () => {
       'p-only',
       'suggested',
     ])
-    expect(await page.getByText('Keep fingers clear of the horn').first().isVisible()).toBe(true)
+    const panel = page.locator('section', { has: page.locator('#firmware-heading') })
+    expect(await panel.getByText('Keep fingers clear of the horn').isVisible()).toBe(true)
     await page.close()
   })
 
