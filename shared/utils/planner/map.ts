@@ -1,12 +1,19 @@
-// A stability map over the Kp–Kd plane: per cell the same verdict analyzeLoop gives (Nyquist
-// with the delay, GM > 0 dB, PM > 0°, sampled loop stable), plus the margins for contours.
-// Work shared by every cell is done once: the plant's phase and magnitude on the frequency grid
-// and the plant's sampled transfer function.
-import { quickVerdict } from './analyze'
+// A stability map over the Kp–Kd plane (docs/planner-model.md §9): per cell the exact verdict
+// on the sampled loop the firmware runs, plus its margins for the tones and contours.
+//
+// What does not depend on the gains is done once: the zero-order-hold plant in w = z − 1, and
+// the plant's sampled frequency response (magnitude and unwrapped phase) on a θ = ωT grid.
+// - Stability, every cell: the closed-loop polynomial in w is built in place from the
+//   precomputed plant and the cell's controller, and tested with diskStable (every root inside
+//   the unit circle): the same test as sampledStable, only without rebuilding the plant.
+// - Margins, on a coarser grid of nodes (about 25 a side), interpolated bilinearly between them:
+//   at each node the sampled loop's frequency response is scanned on the θ grid, and the gain and
+//   phase crossovers are located by linear interpolation in log θ between grid points. The
+//   margins only colour the stable cells and draw the 30°/45° contours, so a few tenths of a
+//   degree between nodes do not change what the map says; the verdict itself is exact per cell.
 import { filterTimeConstant } from './design'
-import { plantTable, type LoopParams } from './frequency'
 import { discretizePlantW, plantOf } from './plant'
-import type { SampledLoop } from './sampled'
+import { derivativeCoefficients, diskStable } from './sampled'
 import type { DerivativeSignal, Discretization, Rig } from './schema'
 
 export interface StabilityMapOptions {
@@ -21,6 +28,10 @@ export interface StabilityMapOptions {
   ki?: number
   /** Axis spacing; default 'linear'. 'log' needs positive ranges. */
   scale?: 'linear' | 'log'
+  /**
+   * How the firmware discretises the derivative (default backward Euler). A cell whose filter is
+   * too short for Tustin (T_f < T/2) is judged with backward Euler, as the firmware falls back.
+   */
   discretization?: Discretization
 }
 
@@ -29,11 +40,17 @@ export interface StabilityMap {
   kp: number[]
   /** Row values, rad·s/m. */
   kd: number[]
-  /** stable[row][column] = stable[kd index][kp index]. */
+  /** stable[row][column] = stable[kd index][kp index]: the sampled loop's exact root test. */
   stable: boolean[][]
-  /** Degrees, null where there is no gain crossover; same layout. */
+  /**
+   * Degrees, the sampled loop's phase margin (interpolated between margin nodes), null where
+   * there is no gain crossover; same layout.
+   */
   phaseMarginDeg: (number | null)[][]
-  /** dB, null where there is no phase crossover (unbounded); same layout. */
+  /**
+   * dB, the sampled loop's gain margin (interpolated between margin nodes), null where there is
+   * no phase crossover (unbounded); same layout.
+   */
   gainMarginDb: (number | null)[][]
   /** Share of cells that are stable, 0…1. */
   stableFraction: number
@@ -50,6 +67,248 @@ function axis(range: [number, number], count: number, scale: 'linear' | 'log'): 
   return out
 }
 
+/** The controller of one cell, as the sampled loop's polynomials need it. */
+interface Cell {
+  kp: number
+  /** Derivative step b and 1 − a of the discretised filter. */
+  b: number
+  oneMinusA: number
+  kiT: number
+}
+
+function cellOf(
+  kp: number,
+  kd: number,
+  n: number,
+  kiT: number,
+  period: number,
+  discretization: Discretization,
+): Cell {
+  const tf = filterTimeConstant(kp, kd, n)
+  let coef = derivativeCoefficients(kd, tf, period, discretization)
+  if (!coef.ok) coef = derivativeCoefficients(kd, tf, period, 'backward-euler')
+  return { kp, b: coef.b, oneMinusA: coef.oneMinusA, kiT }
+}
+
+/**
+ * The closed-loop polynomial in w, (w + 1)·D_p·D_c + N_p·N_c (as sampledCharacteristicW), with
+ * D_p = w²(w + ε) and N_p = [n0, n1, n2], written into `out` (length 7, highest power first).
+ */
+function characteristicInto(out: number[], eps: number, np: number[], c: Cell): void {
+  const { kp, b, oneMinusA: al, kiT } = c
+  // (w + 1)·w²·(w + ε) = w⁴ + (1 + ε)w³ + εw², times D_c.
+  const e1 = 1 + eps
+  const n0 = np[0]!
+  const n1 = np[1]!
+  const n2 = np[2]!
+  if (kiT > 0) {
+    // D_c = w² + al·w; N_c = [kp + b + kiT, kp·al + kiT(1 + al), kiT·al].
+    const c0 = kp + b + kiT
+    const c1 = kp * al + kiT * (1 + al)
+    const c2 = kiT * al
+    out[0] = 1
+    out[1] = e1 + al
+    out[2] = eps + e1 * al + n0 * c0
+    out[3] = eps * al + n0 * c1 + n1 * c0
+    out[4] = n0 * c2 + n1 * c1 + n2 * c0
+    out[5] = n1 * c2 + n2 * c1
+    out[6] = n2 * c2
+  } else {
+    // D_c = w + al; N_c = [kp + b, kp·al]; degree 5, so the first coefficient is 0.
+    const c0 = kp + b
+    const c1 = kp * al
+    out[0] = 0
+    out[1] = 1
+    out[2] = e1 + al
+    out[3] = eps + e1 * al + n0 * c0
+    out[4] = eps * al + n0 * c1 + n1 * c0
+    out[5] = n1 * c1 + n2 * c0
+    out[6] = n2 * c1
+  }
+}
+
+/** θ = ωT grid for the margins: log-spaced, 24 points a decade, from 1e−6 up to π. */
+const THETA_PER_DECADE = 24
+const THETA: Float64Array = (() => {
+  const lo = -6
+  const hi = Math.log10(Math.PI)
+  const count = Math.ceil((hi - lo) * THETA_PER_DECADE) + 1
+  const g = new Float64Array(count)
+  for (let k = 0; k < count; k++) g[k] = 10 ** (lo + ((hi - lo) * k) / (count - 1))
+  return g
+})()
+
+/**
+ * The plant part of the sampled loop, z⁻¹·N_p/D_p at z = e^(jθ), with w = z − 1: |·|² and the
+ * unwrapped phase (−π as θ → 0, the double integrator), and what the controller needs of w.
+ */
+interface SampledPlantTable {
+  theta: Float64Array
+  mag2: Float64Array
+  phase: Float64Array
+  wr: Float64Array
+  wi: Float64Array
+  /** −cot(θ/2)/2: the imaginary part of z/(z − 1) (its real part is 1/2). */
+  integralIm: Float64Array
+}
+
+function sampledPlantTable(np: number[], eps: number): SampledPlantTable {
+  const m = THETA.length
+  const t: SampledPlantTable = {
+    theta: THETA,
+    mag2: new Float64Array(m),
+    phase: new Float64Array(m),
+    wr: new Float64Array(m),
+    wi: new Float64Array(m),
+    integralIm: new Float64Array(m),
+  }
+  let prev = -Math.PI
+  for (let k = 0; k < m; k++) {
+    const th = THETA[k]!
+    // w = e^(jθ) − 1, computed without cancellation.
+    const wr = -2 * Math.sin(th / 2) ** 2
+    const wi = Math.sin(th)
+    // N_p(w) = n0 w² + n1 w + n2
+    const w2r = wr * wr - wi * wi
+    const w2i = 2 * wr * wi
+    const nr = np[0]! * w2r + np[1]! * wr + np[2]!
+    const ni = np[0]! * w2i + np[1]! * wi
+    // (w + 1)·w²·(w + ε) = z·w²·(w + ε)
+    const qr = wr + eps
+    const dr0 = w2r * qr - w2i * wi
+    const di0 = w2r * wi + w2i * qr
+    const zr = Math.cos(th)
+    const zi = wi
+    const dr = dr0 * zr - di0 * zi
+    const di = dr0 * zi + di0 * zr
+    const n2 = nr * nr + ni * ni
+    const d2 = dr * dr + di * di
+    t.mag2[k] = n2 / d2
+    let ph = Math.atan2(ni, nr) - Math.atan2(di, dr)
+    ph += 2 * Math.PI * Math.round((prev - ph) / (2 * Math.PI))
+    t.phase[k] = ph
+    prev = ph
+    t.wr[k] = wr
+    t.wi[k] = wi
+    t.integralIm[k] = -0.5 / Math.tan(th / 2)
+  }
+  return t
+}
+
+/**
+ * Margins of the sampled loop with the controller of `c`, from a scan of `table`. A gain margin
+ * of null means no phase crossover; a phase margin of null no gain crossover. For a stable loop
+ * the gain margin is the upper one (the phase crossover with the largest |L| below 1), for an
+ * unstable one the minimum over every phase crossover, as for the continuous loop (§4).
+ */
+function sampledMarginsOf(
+  table: SampledPlantTable,
+  c: Cell,
+  stable: boolean,
+): { gainMarginDb: number | null, phaseMarginDeg: number | null } {
+  const { mag2, phase, wr, wi, integralIm } = table
+  const { kp, b, oneMinusA: al, kiT } = c
+  let pm: number | null = null
+  let bestBelow = -1
+  let worst = -1
+  let prevLm = 0
+  let prevPh = 0
+  let prevFl = 0
+  for (let k = 0; k < mag2.length; k++) {
+    // C = Kp + b·w/(w + al) + Ki·T·z/(z − 1); its real part is ≥ Kp > 0.
+    const xr = wr[k]! + al
+    const xi = wi[k]!
+    const den = xr * xr + xi * xi
+    let cr = kp + (b * (wr[k]! * xr + xi * xi)) / den
+    let ci = (b * (xi * xr - wr[k]! * xi)) / den
+    if (kiT > 0) {
+      cr += 0.5 * kiT
+      ci += kiT * integralIm[k]!
+    }
+    const lm = Math.log((cr * cr + ci * ci) * mag2[k]!)
+    const ph = Math.atan2(ci, cr) + phase[k]!
+    const fl = Math.floor((ph + Math.PI) / (2 * Math.PI))
+    if (k > 0) {
+      if (prevLm * lm < 0 || (lm === 0 && prevLm !== 0)) {
+        const f = prevLm / (prevLm - lm)
+        const phc = prevPh + f * (ph - prevPh)
+        const m = 180 + (phc * 180) / Math.PI
+        if (pm === null || m < pm) pm = m
+      }
+      if (fl !== prevFl) {
+        const lo = Math.min(fl, prevFl)
+        const hi = Math.max(fl, prevFl)
+        for (let j = hi; j > lo; j--) {
+          const target = 2 * Math.PI * j - Math.PI
+          const f = (target - prevPh) / (ph - prevPh)
+          const m2 = Math.exp(prevLm + f * (lm - prevLm))
+          if (m2 > worst) worst = m2
+          if (m2 < 1 && m2 > bestBelow) bestBelow = m2
+        }
+      }
+    }
+    prevLm = lm
+    prevPh = ph
+    prevFl = fl
+  }
+  let gm: number | null = null
+  if (stable) {
+    if (bestBelow > 0) gm = -10 * Math.log10(bestBelow)
+  } else if (worst > 0) {
+    gm = -10 * Math.log10(worst)
+  }
+  return { gainMarginDb: gm, phaseMarginDeg: pm }
+}
+
+/** Node indices for the margins: every `step`-th index and the last. */
+function nodesOf(count: number): number[] {
+  const step = Math.max(1, Math.floor(count / 24))
+  const out: number[] = []
+  for (let i = 0; i < count; i += step) out.push(i)
+  if (out[out.length - 1] !== count - 1) out.push(count - 1)
+  return out
+}
+
+/** Bilinear interpolation of node values onto every index; a missing corner takes the nearest. */
+function spread(
+  nodeValues: (number | null)[][],
+  rowNodes: number[],
+  colNodes: number[],
+  rows: number,
+  cols: number,
+): (number | null)[][] {
+  const locate = (nodes: number[], i: number): [number, number] => {
+    let j = 0
+    while (j + 1 < nodes.length - 1 && nodes[j + 1]! <= i) j++
+    if (nodes.length === 1) return [0, 0]
+    const span = nodes[j + 1]! - nodes[j]!
+    return [j, span > 0 ? (i - nodes[j]!) / span : 0]
+  }
+  const out: (number | null)[][] = []
+  for (let r = 0; r < rows; r++) {
+    const [jr, fr] = locate(rowNodes, r)
+    const row: (number | null)[] = []
+    for (let c = 0; c < cols; c++) {
+      const [jc, fc] = locate(colNodes, c)
+      const r1 = Math.min(jr + 1, rowNodes.length - 1)
+      const c1 = Math.min(jc + 1, colNodes.length - 1)
+      const v00 = nodeValues[jr]![jc]!
+      const v01 = nodeValues[jr]![c1]!
+      const v10 = nodeValues[r1]![jc]!
+      const v11 = nodeValues[r1]![c1]!
+      if (v00 !== null && v01 !== null && v10 !== null && v11 !== null) {
+        const top = v00 + (v01 - v00) * fc
+        const bottom = v10 + (v11 - v10) * fc
+        row.push(top + (bottom - top) * fr)
+      } else {
+        row.push(nodeValues[fr < 0.5 ? jr : r1]![fc < 0.5 ? jc : c1]!)
+      }
+    }
+    out.push(row)
+  }
+  return out
+}
+
 export function stabilityMap(
   rig: Rig,
   options: StabilityMapOptions,
@@ -61,61 +320,54 @@ export function stabilityMap(
   const scale = options.scale ?? 'linear'
   const kps = axis(options.kpRange, nKp, scale)
   const kds = axis(options.kdRange, nKd, scale)
-  const ki = options.ki ?? 0
-  const table = plantTable(plant.kb, plant.servoLag, plant.delay)
+  const kiT = (options.ki ?? 0) * plant.period
+  const discretization = options.discretization ?? 'backward-euler'
   const zoh = discretizePlantW(plant.kb, plant.servoLag, plant.period)
-  const loop: LoopParams = {
-    kb: plant.kb,
-    servoLag: plant.servoLag,
-    delay: plant.delay,
-    kp: 0,
-    ki,
-    kd: 0,
-    tf: 0,
-  }
-  const sampled: SampledLoop = {
-    kb: plant.kb,
-    servoLag: plant.servoLag,
-    period: plant.period,
-    kp: 0,
-    ki,
-    kd: 0,
-    tf: 0,
-    derivativeOn: options.derivativeOn,
-    discretization: options.discretization ?? 'backward-euler',
-  }
+  const eps = zoh.den[1]!
+  const poly = new Array<number>(7).fill(0)
+  const cellAt = (kp: number, kd: number) =>
+    cellOf(kp, kd, options.n, kiT, plant.period, discretization)
+
   const stable: boolean[][] = []
-  const pm: (number | null)[][] = []
-  const gm: (number | null)[][] = []
   let count = 0
   for (const kd of kds) {
-    const sRow: boolean[] = []
+    const row: boolean[] = []
+    for (const kp of kps) {
+      characteristicInto(poly, eps, zoh.num, cellAt(kp, kd))
+      const ok = kp > 0 && diskStable(poly)
+      row.push(ok)
+      if (ok) count++
+    }
+    stable.push(row)
+  }
+
+  const table = sampledPlantTable(zoh.num, eps)
+  const rowNodes = nodesOf(nKd)
+  const colNodes = nodesOf(nKp)
+  const pmNodes: (number | null)[][] = []
+  const gmNodes: (number | null)[][] = []
+  for (const r of rowNodes) {
     const pRow: (number | null)[] = []
     const gRow: (number | null)[] = []
-    for (const kp of kps) {
-      const tf = filterTimeConstant(kp, kd, options.n)
-      loop.kp = kp
-      loop.kd = kd
-      loop.tf = tf
-      sampled.kp = kp
-      sampled.kd = kd
-      sampled.tf = tf
-      const v = quickVerdict(loop, sampled, table, zoh)
-      sRow.push(v.stable)
-      pRow.push(v.f.phaseMarginDeg)
-      gRow.push(v.f.gainMarginDb)
-      if (v.stable) count++
+    for (const c of colNodes) {
+      if (!(kps[c]! > 0)) {
+        pRow.push(null)
+        gRow.push(null)
+        continue
+      }
+      const m = sampledMarginsOf(table, cellAt(kps[c]!, kds[r]!), stable[r]![c]!)
+      pRow.push(m.phaseMarginDeg)
+      gRow.push(m.gainMarginDb)
     }
-    stable.push(sRow)
-    pm.push(pRow)
-    gm.push(gRow)
+    pmNodes.push(pRow)
+    gmNodes.push(gRow)
   }
   return {
     kp: kps,
     kd: kds,
     stable,
-    phaseMarginDeg: pm,
-    gainMarginDb: gm,
+    phaseMarginDeg: spread(pmNodes, rowNodes, colNodes, nKd, nKp),
+    gainMarginDb: spread(gmNodes, rowNodes, colNodes, nKd, nKp),
     stableFraction: count / (nKp * nKd),
   }
 }
