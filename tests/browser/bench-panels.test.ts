@@ -4,7 +4,8 @@
 // the support staff seeing a sheet's measured run and fit on a ticket. Screenshots go to
 // tests/.artifacts/bench-panels/ for a person to look at.
 import { describe, expect, it } from 'vitest'
-import type { Page } from 'playwright-core'
+import { resolve } from 'node:path'
+import type { Locator, Page } from 'playwright-core'
 import type { BuildSpaceSummary } from '../../shared/types/build'
 import { storedRun } from '../../shared/utils/measured-runs'
 import { fitRun, parseRunCsv } from '../../shared/utils/planner/measured-run'
@@ -22,7 +23,10 @@ import { openTicket } from '../helpers/tickets'
 import { simulatedLog } from '../unit/planner/runs'
 
 const browser = await launchForFile()
-const { shot } = artifacts('bench-panels')
+const { dir, shot } = artifacts('bench-panels')
+/** The panel alone, beside the whole page, so a person can look at it closely. */
+const part = (locator: Locator, name: string) =>
+  locator.screenshot({ path: resolve(dir, `${name}.png`) })
 const desktop = { width: 1280, height: 800 }
 const phone = { width: 390, height: 844 }
 const sideways = (page: Page) =>
@@ -71,6 +75,7 @@ describe('the bench panels on the planner', () => {
       await panel.scrollIntoViewIfNeeded()
       expect(await sideways(page)).toBe(false)
       await shot(page, `measured-run-${name}`)
+      await part(panel, `measured-run-panel-${name}`)
 
       await panel.getByRole('button', { name: 'Use these values' }).click()
       await expect
@@ -86,6 +91,14 @@ describe('the bench panels on the planner', () => {
       await view.getByText(/Sensitivity peak Ms = [\d.]+/).waitFor()
       await view.scrollIntoViewIfNeeded()
       await shot(page, `loop-view-${name}`)
+      await part(view, `loop-view-panel-${name}`)
+      const envelopeToggle = page.getByTestId('toggle-envelope')
+      await envelopeToggle.check()
+      const envelope = page.getByTestId('what-if-envelope')
+      await envelope.waitFor()
+      expect(await envelope.locator('tbody tr').count()).toBe(5)
+      await part(envelope, `envelope-panel-${name}`)
+      await part(page.getByTestId('response-plot').first(), `response-band-${name}`)
       expect(await accessibilityViolations(page)).toEqual([])
       await page.close()
     })
@@ -123,6 +136,7 @@ describe('a measured run on a ticket', () => {
       await run.scrollIntoViewIfNeeded()
       expect(await sideways(support)).toBe(false)
       await shot(support, `ticket-run-${name}`)
+      await part(sheet, `ticket-sheet-${name}`)
       await ctx.close()
     }
   })
