@@ -1,5 +1,6 @@
-// Checking a set of gains (docs/planner-model.md §4): margins on the continuous loop with its 1.5·T
-// delay, exact stability of the sampled loop, and step metrics of the sampled loop.
+// Checking a set of gains (docs/planner-model.md §4): exact stability, margins and step metrics of
+// the sampled loop the firmware runs; the continuous stand-in (the loop with its 1.5·T delay) is
+// kept as a secondary line.
 import { filterTimeConstant } from './design'
 import {
   analyzeFrequency,
@@ -7,8 +8,17 @@ import {
   type LoopParams,
   type PlantTable,
 } from './frequency'
+import { fmt } from './format'
 import { plantOf, type Plant } from './plant'
-import { diskStable, sampledCharacteristicW, sampledStepMetrics, type SampledLoop } from './sampled'
+import {
+  diskStable,
+  sampledCharacteristicW,
+  sampledMargins,
+  sampledResponseOf,
+  sampledStepMetrics,
+  type SampledLoop,
+  type SampledMargins,
+} from './sampled'
 import type { Discretization, Gains, Rig } from './schema'
 
 /**
@@ -16,14 +26,19 @@ import type { Discretization, Gains, Rig } from './schema'
  * Infinity or NaN (gainMarginDb null = no phase crossover, i.e. unbounded gain margin).
  */
 export interface LoopAnalysis {
-  /** Nyquist-stable with the delay, GM > 0 dB, PM > 0°, and the sampled loop does not diverge. */
+  /**
+   * Every root of the sampled loop inside the unit circle, its margins positive, and its step
+   * response does not diverge.
+   */
   stable: boolean
+  /** The continuous stand-in passes the Nyquist test (secondary). */
   nyquistStable: boolean
   /** Every root of the sampled loop's characteristic polynomial inside the unit circle. */
   sampledStable: boolean
   /**
-   * dB; null = no phase crossover (unbounded). See FrequencyAnalysis for conditionally stable
-   * loops.
+   * The sampled loop's margins (below). All null when the loop is unstable: an unstable loop has
+   * no margin, `explanation` says why.
+   * dB a common rise of Kp, Kd and Ki tolerates; null = unbounded or unstable.
    */
   gainMarginDb: number | null
   /**
@@ -37,7 +52,7 @@ export interface LoopAnalysis {
   gainCrossover: number | null
   /** rad/s; null = none. */
   phaseCrossover: number | null
-  /** Extra delay tolerated, s; 0 when unstable; null = no gain crossover. */
+  /** Extra delay tolerated, s; null = no gain crossover or unstable. */
   delayMargin: number | null
   /** Closed-loop −3 dB bandwidth, rad/s; null when unstable. */
   closedLoopBandwidth: number | null
@@ -70,6 +85,8 @@ export interface LoopAnalysis {
 export interface AnalyzeOptions {
   /** How the firmware discretises the derivative; backward Euler by default. */
   discretization?: Discretization
+  /** Whole extra samples of delay in the sampled loop (stability, margins, step); default 0. */
+  extraDelaySamples?: number
   /** Step simulation horizon, s (see StepOptions.horizon). */
   horizon?: number
 }
@@ -90,6 +107,7 @@ export function sampledLoopOf(
   plant: Plant,
   gains: Gains,
   discretization: Discretization = 'backward-euler',
+  extraDelaySamples = 0,
 ): SampledLoop {
   return {
     kb: plant.kb,
@@ -101,6 +119,7 @@ export function sampledLoopOf(
     tf: filterTimeConstant(gains.kp, gains.kd, gains.n),
     derivativeOn: gains.derivativeOn,
     discretization,
+    extraDelaySamples,
   }
 }
 
@@ -140,46 +159,112 @@ export function analyzePlantLoop(
   options: AnalyzeOptions = {},
 ): LoopAnalysis {
   const loop = loopParamsOf(plant, gains)
-  const sampled = sampledLoopOf(plant, gains, options.discretization)
-  const { f, sampledOk, stable: marginsOk } = quickVerdict(loop, sampled)
-  let stable = marginsOk
+  const sampled = sampledLoopOf(plant, gains, options.discretization, options.extraDelaySamples)
+  const f = analyzeFrequency(loop)
+  const sampledOk = diskStable(sampledCharacteristicW(sampled))
+  const m = sampledMargins(sampledResponseOf(sampled))
+  let stable
+    = sampledOk
+      && (m.gainMarginDb === null || m.gainMarginDb > 0)
+      && (m.phaseMarginDeg === null || m.phaseMarginDeg > 0)
   let step = UNSTABLE_STEP
   let bandwidth: number | null = null
-  if (marginsOk) {
-    const m = sampledStepMetrics(sampled, {
+  if (stable) {
+    const sm = sampledStepMetrics(sampled, {
       horizon: options.horizon,
-      scaleFrequency: f.gainCrossover ?? undefined,
+      scaleFrequency: m.gainCrossover ?? f.gainCrossover ?? undefined,
     })
-    if (m.diverged) stable = false
+    if (sm.diverged) stable = false
     else {
       step = {
-        overshootPct: m.overshootPct,
-        settlingTime: m.settlingTime,
-        peakTime: m.peakTime,
-        peakCommandPerMeter: m.peakCommand,
-        peakServoRatePerMeter: m.peakServoRate,
+        overshootPct: sm.overshootPct,
+        settlingTime: sm.settlingTime,
+        peakTime: sm.peakTime,
+        peakCommandPerMeter: sm.peakCommand,
+        peakServoRatePerMeter: sm.peakServoRate,
       }
-      bandwidth = closedLoopBandwidth(loop, f.gainCrossovers[0])
+      bandwidth = f.gainCrossovers.length > 0
+        ? closedLoopBandwidth(loop, f.gainCrossovers[0])
+        : null
     }
   }
   return {
     stable,
     nyquistStable: f.nyquistStable,
     sampledStable: sampledOk,
-    gainMarginDb: f.gainMarginDb,
-    gainReductionMarginDb: f.gainReductionMarginDb,
-    phaseMarginDeg: f.phaseMarginDeg,
-    gainCrossover: f.gainCrossover,
-    phaseCrossover: f.phaseCrossover,
-    delayMargin: f.delayMargin,
+    gainMarginDb: stable ? m.gainMarginDb : null,
+    gainReductionMarginDb: stable ? m.gainReductionMarginDb : null,
+    phaseMarginDeg: stable ? m.phaseMarginDeg : null,
+    gainCrossover: stable ? m.gainCrossover : null,
+    phaseCrossover: stable ? m.phaseCrossover : null,
+    delayMargin: stable ? m.delayMargin : null,
     closedLoopBandwidth: bandwidth,
     continuous: {
-      gainMarginDb: f.gainMarginDb,
-      phaseMarginDeg: f.phaseMarginDeg,
-      delayMargin: f.delayMargin,
+      gainMarginDb: f.nyquistStable ? f.gainMarginDb : null,
+      phaseMarginDeg: f.nyquistStable ? f.phaseMarginDeg : null,
+      delayMargin: f.nyquistStable ? f.delayMargin : null,
     },
-    sensitivityPeak: null,
-    explanation: null,
+    sensitivityPeak: stable ? m.sensitivityPeak : null,
+    explanation: stable ? null : explainUnstable(plant, gains, m, sampledOk),
     step,
   }
+}
+
+/** Why a loop is unstable, in plain words: which check failed and what the rig would do. */
+export function explainUnstable(
+  plant: Plant,
+  gains: Gains,
+  m: SampledMargins,
+  rootsInside: boolean,
+): string {
+  if (!(gains.kp > 0)) {
+    return 'Kp must be above 0: with no pull back towards the setpoint (or a push away from it) '
+      + 'the ball rolls to the end of the beam and stays there.'
+  }
+  if (!(gains.kd > 0)) {
+    return 'With no derivative term nothing slows the ball as it nears the setpoint: it swings '
+      + 'through and back for ever, and the servo\'s lag and the loop\'s delay make each swing '
+      + 'bigger. Add Kd (choose PD).'
+  }
+  // The crossing of the negative real axis outside −1 nearest it tells the way to go: below
+  // the gain crossover the loop lacks lead (too little damping), above it the gains are too high.
+  let above: { frequency: number, magnitude: number } | null = null
+  for (const c of m.phaseCrossovers) {
+    if (c.magnitude > 1 && (above === null || c.magnitude < above.magnitude)) above = c
+  }
+  const head = rootsInside
+    ? 'The check finds no safety margin at all: '
+    : 'The loop the firmware runs is unstable: '
+  const swing = (w: number) => {
+    const f = w / (2 * Math.PI)
+    return f >= 1
+      ? `about ${fmt(f)} times a second`
+      : `about once every ${fmt(1 / f)} s`
+  }
+  const highest = m.gainCrossovers.length > 0 ? Math.max(...m.gainCrossovers) : null
+  const lowSide = above !== null && (highest === null || above.frequency < highest)
+  if (above !== null && lowSide) {
+    if (gains.ki > 0 && above.frequency < 0.5 * (m.gainCrossovers[0] ?? Infinity)) {
+      return head + `the integral term is too strong for Kp and Kd, so the ball sways slowly `
+        + `(${swing(above.frequency)}), further each time. Lower Ki or raise Kp and Kd.`
+    }
+    return head + `the ball swings back and forth (${swing(above.frequency)}), further each `
+      + 'time: at that pace the servo\'s lag, the derivative filter and the loop\'s delay '
+      + `(${fmt(plant.effectiveLag * 1000)} ms without the filter) turn the correction around, `
+      + 'so it pushes the swing instead of damping it. Start again from the suggested gains; '
+      + 'the stability map shows which Kp and Kd keep the loop stable.'
+  }
+  if (above !== null) {
+    return head + `the gains are too high for the servo's lag and the loop's delay `
+      + `(${fmt(plant.effectiveLag * 1000)} ms together): the servo overcorrects and the ball `
+      + `shakes back and forth (${swing(above.frequency)}), further each time. Lower Kp and Kd, `
+      + 'or use a faster servo or loop rate.'
+  }
+  if (m.phaseMarginDeg !== null && m.phaseMarginDeg <= 0) {
+    return head + 'where the loop\'s gain falls to 1 the servo\'s lag and the loop\'s delay '
+      + 'have used up all the lead the derivative gives, so the ball swings further each time. '
+      + 'Start again from the suggested gains; the stability map shows which Kp and Kd keep the '
+      + 'loop stable.'
+  }
+  return head + 'the ball would swing further each time, or run off to one end. Check the gains.'
 }

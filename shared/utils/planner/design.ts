@@ -88,10 +88,23 @@ export function settlingTimeBounds(
 /** docs/planner-model.md §3: ideal (method A) or lag-aware (method B) placement, PD or PID. */
 export function designGains(plant: Plant, targets: Targets): GainDesign {
   const zeta = zetaFromOvershoot(targets.overshootPct)
-  const wn = naturalFrequency(zeta, targets.settlingTime)
+  return placeGains(plant, targets, zeta, naturalFrequency(zeta, targets.settlingTime))
+}
+
+/**
+ * The §3 placement for a given ζ and ω_n (designGains takes them from the targets; the PID
+ * refinement of plan.ts moves them until the sampled loop meets the targets). The settling-time
+ * bounds are those of the targets' ζ.
+ */
+export function placeGains(plant: Plant, targets: Targets, zeta: number, wn: number): GainDesign {
   const kb = plant.kb
   const tau = plant.effectiveLag
-  const bounds = settlingTimeBounds(tau, zeta, targets.form, targets.integralPole)
+  const bounds = settlingTimeBounds(
+    tau,
+    zetaFromOvershoot(targets.overshootPct),
+    targets.form,
+    targets.integralPole,
+  )
   const base = {
     zeta,
     wn,

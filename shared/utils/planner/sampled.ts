@@ -19,6 +19,8 @@ export interface SampledLoop {
   tf: number
   derivativeOn: DerivativeSignal
   discretization: Discretization
+  /** Whole samples of delay beyond the firmware's one (the what-if envelope); default 0. */
+  extraDelaySamples?: number
 }
 
 export interface DerivativeCoefficients {
@@ -102,7 +104,9 @@ export function sampledCharacteristic(
     cDen = [1, -a]
     cNum = [loop.kp + b, -(loop.kp * a + b)]
   }
-  return polyAdd(polyMul([1, 0], polyMul(den, cDen)), polyMul(num, cNum))
+  let delay: Polynomial = [1, 0]
+  for (let m = 0; m < (loop.extraDelaySamples ?? 0); m++) delay = polyMul(delay, [1, 0])
+  return polyAdd(polyMul(delay, polyMul(den, cDen)), polyMul(num, cNum))
 }
 
 /**
@@ -151,7 +155,9 @@ export function sampledCharacteristicW(
     cDen = [1, al]
     cNum = [kp + b, kp * al]
   }
-  return polyAdd(polyMul([1, 1], polyMul(p.den, cDen)), polyMul(p.num, cNum))
+  let delay: Polynomial = [1, 1]
+  for (let m = 0; m < (loop.extraDelaySamples ?? 0); m++) delay = polyMul(delay, [1, 1])
+  return polyAdd(polyMul(delay, polyMul(p.den, cDen)), polyMul(p.num, cNum))
 }
 
 /**
@@ -325,8 +331,11 @@ class LoopStepper {
   private readonly kp: number
   private readonly T: number
   private readonly onMeasurement: boolean
+  /** Commands waiting out the extra samples of delay, oldest first. */
+  private readonly queue: number[]
 
   constructor(loop: SampledLoop, plant?: ReturnType<typeof discretizePlant>) {
+    this.queue = new Array<number>(loop.extraDelaySamples ?? 0).fill(0)
     this.T = loop.period
     this.kp = loop.kp
     this.a = loop.servoLag > 0 ? 1 / loop.servoLag : Infinity
@@ -367,6 +376,10 @@ class LoopStepper {
     this.x = x + T * v + this.cxTh * th + this.cxU * uHeld
     this.v = v + this.cvTh * th + this.cvU * uHeld
     this.th = this.a === Infinity ? uHeld : this.E * th + this.cthU * uHeld
+    if (this.queue.length > 0) {
+      this.queue.push(u)
+      u = this.queue.shift()!
+    }
     this.uHeld = u
   }
 }
@@ -553,4 +566,314 @@ export function sampledStepResponse(
   out.command.push(loopState.uHeld)
   out.servoAngle.push(loopState.th)
   return out
+}
+
+// ---------------------------------------------------------------------------------------------
+// The sampled loop's frequency response (docs/planner-model.md §4): L(z) = C(z)·z^(−1−m)·P(z)
+// on z = e^(jωT), 0 < ω ≤ π/T, with P the exact zero-order-hold plant and C the exported
+// discretisation, both written in w = z − 1 so they keep their precision near z = 1. This is the
+// loop the firmware runs (LoopStepper's timing), so its margins are the ones shown and warned on.
+
+/** What the sampled loop's frequency response needs, precomputed once per plant and gains. */
+export interface SampledResponse {
+  period: number
+  /** Plant in w, highest power first. */
+  pNum: Polynomial
+  pDen: Polynomial
+  kp: number
+  /** Derivative: b·w/(w + al). */
+  b: number
+  al: number
+  kiT: number
+  /** Whole samples of delay beyond the one the firmware always has. */
+  extraDelaySamples: number
+}
+
+export function sampledResponseOf(
+  loop: SampledLoop,
+  plantW?: { num: Polynomial, den: Polynomial },
+  extraDelaySamples = loop.extraDelaySamples ?? 0,
+): SampledResponse {
+  const p = plantW ?? discretizePlantW(loop.kb, loop.servoLag, loop.period)
+  const { b, oneMinusA: al } = derivativeCoefficients(
+    loop.kd,
+    loop.tf,
+    loop.period,
+    loop.discretization,
+  )
+  return {
+    period: loop.period,
+    pNum: p.num,
+    pDen: p.den,
+    kp: loop.kp,
+    b,
+    al,
+    kiT: loop.ki * loop.period,
+    extraDelaySamples,
+  }
+}
+
+function polyAt(p: Polynomial, re: number, im: number): [number, number] {
+  let r = 0
+  let i = 0
+  for (const c of p) {
+    const nr = r * re - i * im + c
+    i = r * im + i * re
+    r = nr
+  }
+  return [r, i]
+}
+
+/**
+ * The parts of L(e^(jωT)) that do not depend on the gains, at one frequency: w = e^(jωT) − 1
+ * and the plant with the loop's delay, P(w)·z^(−1−m).
+ */
+function plantPart(s: SampledResponse, w: number, out: Float64Array, at = 0) {
+  const th = w * s.period
+  const sh = Math.sin(th / 2)
+  // w = e^(jθ) − 1 = −2 sin²(θ/2) + j sin θ, without cancellation near θ = 0.
+  const wr = -2 * sh * sh
+  const wi = Math.sin(th)
+  const [nr, ni] = polyAt(s.pNum, wr, wi)
+  const [dr, di] = polyAt(s.pDen, wr, wi)
+  const dd = dr * dr + di * di
+  const pr = (nr * dr + ni * di) / dd
+  const pi = (ni * dr - nr * di) / dd
+  const dth = (1 + s.extraDelaySamples) * th
+  const c = Math.cos(dth)
+  const sn = Math.sin(dth)
+  out[at] = wr
+  out[at + 1] = wi
+  out[at + 2] = pr * c + pi * sn
+  out[at + 3] = pi * c - pr * sn
+}
+
+/** L from a plant part: C = Kp + b·w/(w + al) + Ki·T·(w + 1)/w times the plant part. */
+function loopFrom(
+  s: SampledResponse,
+  wr: number,
+  wi: number,
+  pr: number,
+  pi: number,
+): [number, number] {
+  let cr = s.kp
+  let ci = 0
+  if (s.b !== 0) {
+    const er = wr + s.al
+    const e2 = er * er + wi * wi
+    cr += (s.b * (wr * er + wi * wi)) / e2
+    ci += (s.b * (wi * er - wr * wi)) / e2
+  }
+  if (s.kiT !== 0) {
+    // (w + 1)/w = 1 + conj(w)/|w|²
+    const w2 = wr * wr + wi * wi
+    cr += s.kiT * (1 + wr / w2)
+    ci -= (s.kiT * wi) / w2
+  }
+  return [cr * pr - ci * pi, cr * pi + ci * pr]
+}
+
+const scratch = new Float64Array(4)
+
+/** L(e^(jωT)) as [re, im]. */
+export function sampledLoopAt(s: SampledResponse, w: number): [number, number] {
+  plantPart(s, w, scratch)
+  return loopFrom(s, scratch[0]!, scratch[1]!, scratch[2]!, scratch[3]!)
+}
+
+/**
+ * The gain-free part of L on the grid, reusable across many gains (the stability map): per
+ * point w's real and imaginary parts and the plant with its delay.
+ */
+export interface SampledPlantTable {
+  period: number
+  extraDelaySamples: number
+  grid: Float64Array
+  /** 4 numbers a grid point: Re w, Im w, Re P·z^(−1−m), Im P·z^(−1−m). */
+  parts: Float64Array
+}
+
+export function sampledPlantTable(s: SampledResponse, grid = sampledGrid(s.period)) {
+  const parts = new Float64Array(4 * grid.length)
+  for (let k = 0; k < grid.length; k++) plantPart(s, grid[k]!, parts, 4 * k)
+  return { period: s.period, extraDelaySamples: s.extraDelaySamples, grid, parts }
+}
+
+export interface SampledMargins {
+  /**
+   * dB a common rise of Kp, Kd and Ki tolerates before the sampled loop oscillates; null = no
+   * crossing of the negative real axis inside −1 (unbounded).
+   */
+  gainMarginDb: number | null
+  /** dB (< 0) a common fall tolerates, where a crossing outside −1 exists (PID); else null. */
+  gainReductionMarginDb: number | null
+  /** Degrees: the least rotation to −1 over the gain crossovers (negative when lacking). */
+  phaseMarginDeg: number | null
+  gainCrossover: number | null
+  phaseCrossover: number | null
+  /** Extra delay, s, that rotates a gain crossover onto −1; null = no gain crossover. */
+  delayMargin: number | null
+  gainCrossovers: number[]
+  phaseCrossovers: { frequency: number, magnitude: number }[]
+  /** max 1/|1 + L| over 0 < ω ≤ π/T. */
+  sensitivityPeak: number
+  sensitivityPeakFrequency: number
+}
+
+/** Points a decade on the sampled loop's frequency grid. */
+const SAMPLED_GRID_PER_DECADE = 32
+/** The grid starts at this frequency, rad/s (well below any integral zero the planner gives). */
+const SAMPLED_GRID_LOW = 1e-6
+
+/** The grid: log-spaced from SAMPLED_GRID_LOW to π/T, ending exactly at π/T. */
+export function sampledGrid(period: number): Float64Array {
+  const top = Math.PI / period
+  const n = Math.max(2, Math.ceil(Math.log10(top / SAMPLED_GRID_LOW) * SAMPLED_GRID_PER_DECADE) + 1)
+  const g = new Float64Array(n)
+  for (let k = 0; k < n; k++) g[k] = top * (SAMPLED_GRID_LOW / top) ** ((n - 1 - k) / (n - 1))
+  g[n - 1] = top
+  return g
+}
+
+function golden(f: (x: number) => number, a: number, b: number, iterations = 40): number {
+  const r = (Math.sqrt(5) - 1) / 2
+  let c = b - r * (b - a)
+  let d = a + r * (b - a)
+  let fc = f(c)
+  let fd = f(d)
+  for (let i = 0; i < iterations; i++) {
+    if (fc > fd) {
+      b = d
+      d = c
+      fd = fc
+      c = b - r * (b - a)
+      fc = f(c)
+    } else {
+      a = c
+      c = d
+      fc = fd
+      d = a + r * (b - a)
+      fd = f(d)
+    }
+  }
+  return fc > fd ? c : d
+}
+
+/**
+ * Margins of the sampled loop: gain crossovers (|L| = 1) and phase crossovers (L on the negative
+ * real axis, including ω = π/T where L is real) bracketed on the grid and refined by Brent's
+ * method; the sensitivity peak refined by golden section. Scaling Kp, Kd and Ki together scales
+ * L, so the gain margin is exactly the factor at which the closed loop's roots reach the unit
+ * circle.
+ */
+export function sampledMargins(
+  s: SampledResponse,
+  table: SampledPlantTable = sampledPlantTable(s),
+): SampledMargins {
+  const { grid, parts } = table
+  const n = grid.length
+  const at = (k: number) =>
+    loopFrom(s, parts[4 * k]!, parts[4 * k + 1]!, parts[4 * k + 2]!, parts[4 * k + 3]!)
+  // Start where |L| > 10 and the low-frequency asymptote rules, one decade below: nothing
+  // crosses below that.
+  let k0 = n - 1 - 3 * SAMPLED_GRID_PER_DECADE
+  for (; k0 > 0; k0 -= SAMPLED_GRID_PER_DECADE) {
+    if (k0 >= n) continue
+    const [r, i] = at(k0)
+    if (r * r + i * i > 100 && (s.kiT === 0 || i > 0)) break
+  }
+  k0 = Math.max(0, k0 - SAMPLED_GRID_PER_DECADE)
+  const gainCrossovers: number[] = []
+  const phaseCrossovers: { frequency: number, magnitude: number }[] = []
+  const imAt = (u: number) => sampledLoopAt(s, Math.exp(u))[1]
+  const logMagAt = (u: number) => {
+    const [r, i] = sampledLoopAt(s, Math.exp(u))
+    return Math.log(r * r + i * i)
+  }
+  const sensAt = (w: number) => {
+    const [r, i] = sampledLoopAt(s, w)
+    return 1 / Math.hypot(1 + r, i)
+  }
+  let prevI = 0
+  let prevM = 0
+  let ms = 0
+  let msK = 0
+  for (let k = k0; k < n; k++) {
+    const w = grid[k]!
+    const l = at(k)
+    const r = l[0]
+    const i = k === n - 1 ? 0 : l[1] // z = −1: L is real
+    const m = Math.log(r * r + i * i)
+    const sens = 1 / Math.hypot(1 + r, i)
+    if (sens > ms) {
+      ms = sens
+      msK = k
+    }
+    if (k > k0) {
+      const lo = Math.log(grid[k - 1]!)
+      const hi = Math.log(w)
+      if (prevM * m < 0 || (m === 0 && prevM !== 0)) {
+        gainCrossovers.push(Math.exp(brent(logMagAt, lo, hi, prevM, m)))
+      }
+      if (k < n - 1 && prevI * i < 0) {
+        const u = brent(imAt, lo, hi, prevI, i)
+        const [cr, ci] = sampledLoopAt(s, Math.exp(u))
+        if (cr < 0) phaseCrossovers.push({ frequency: Math.exp(u), magnitude: Math.hypot(cr, ci) })
+      }
+    }
+    if (k === n - 1 && r < 0) phaseCrossovers.push({ frequency: w, magnitude: -r })
+    prevI = i
+    prevM = m
+  }
+  let msW = grid[msK]!
+  if (n > 2) {
+    const a = grid[Math.max(0, msK - 1)]!
+    const b = grid[Math.min(n - 1, msK + 1)]!
+    const x = golden(sensAt, a, b)
+    const v = sensAt(x)
+    if (v > ms) {
+      ms = v
+      msW = x
+    }
+  }
+
+  let phaseMarginDeg: number | null = null
+  let gainCrossover: number | null = null
+  let delayMargin: number | null = null
+  for (const wg of gainCrossovers) {
+    const [r, i] = sampledLoopAt(s, wg)
+    let pm = Math.atan2(i, r) + Math.PI // (0, 2π]
+    const lag = pm >= 2 * Math.PI ? 0 : pm // the extra lag that rotates L onto −1
+    if (pm > Math.PI) pm -= 2 * Math.PI
+    const pmDeg = (pm * 180) / Math.PI
+    if (phaseMarginDeg === null || pmDeg < phaseMarginDeg) {
+      phaseMarginDeg = pmDeg
+      gainCrossover = wg
+    }
+    const dm = lag / wg
+    if (delayMargin === null || dm < delayMargin) delayMargin = dm
+  }
+  let bestBelow = -1
+  let phaseCrossover: number | null = null
+  let worstAbove = Infinity
+  for (const c of phaseCrossovers) {
+    if (c.magnitude < 1) {
+      if (c.magnitude > bestBelow) {
+        bestBelow = c.magnitude
+        phaseCrossover = c.frequency
+      }
+    } else if (c.magnitude < worstAbove) worstAbove = c.magnitude
+  }
+  return {
+    gainMarginDb: bestBelow > 0 ? -20 * Math.log10(bestBelow) : null,
+    gainReductionMarginDb: worstAbove < Infinity ? -20 * Math.log10(worstAbove) : null,
+    phaseMarginDeg,
+    gainCrossover,
+    phaseCrossover,
+    delayMargin,
+    gainCrossovers,
+    phaseCrossovers,
+    sensitivityPeak: ms,
+    sensitivityPeakFrequency: msW,
+  }
 }

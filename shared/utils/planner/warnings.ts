@@ -4,6 +4,7 @@
 import type { LoopAnalysis } from './analyze'
 import type { GainDesign } from './design'
 import { fmt } from './format'
+import { beamAngleRange } from './geometry'
 import type { PlannerLimits } from './limits'
 import type { Plant } from './plant'
 import type { Gains, Rig, Targets } from './schema'
@@ -35,8 +36,12 @@ export type WarningCode = (typeof WARNING_CODES)[number]
 
 export interface PlannerWarning {
   code: WarningCode
-  /** info: worth knowing; warning: the rig will behave worse than planned; danger: do not load. */
-  severity: 'info' | 'warning' | 'danger'
+  /**
+   * info: worth knowing; warning: the rig will behave worse than planned; danger: no gains to
+   * load; error: an input makes the plan unusable on a real rig (a linkage that cannot be built,
+   * a ball the sensor cannot see). The page never shows a green verdict beside an error.
+   */
+  severity: 'info' | 'warning' | 'danger' | 'error'
   message: string
 }
 
@@ -49,7 +54,10 @@ export const THRESHOLDS = {
   /** Sample rate at least this many times the closed-loop bandwidth (20–30×). */
   samplesPerBandwidth: 20,
   samplesPerBandwidthComfortable: 30,
-  /** Servo bandwidth at least this many times the ball loop's (5–10×). */
+  /**
+   * Servo bandwidth this many times the ball loop's: below 5× the lag shapes the response (a
+   * warning); 10× or more is comfortable (common practice).
+   */
   servoBandwidthRatio: 5,
   servoBandwidthRatioComfortable: 10,
   /** Servo degrees per count of sensor noise above which the servo visibly chatters. */
@@ -75,6 +83,8 @@ export interface WarningContext {
   gains: Gains | null
   /** Gains the formulas gave but the check found unstable. */
   rejectedGains?: Gains | null
+  /** The check of rejectedGains (its explanation says what failed). */
+  rejectedAnalysis?: LoopAnalysis | null
   analysis: LoopAnalysis | null
   limits: PlannerLimits | null
   /** The setpoint step the builder plans, m. */
@@ -90,7 +100,7 @@ export function collectWarnings(ctx: WarningContext): PlannerWarning[] {
   if (rig.ballMaterial === 'glass' || rig.ballMaterial === 'plastic') {
     add(
       'ball-not-sensed',
-      'danger',
+      'error',
       `A ${rig.ballMaterial} ball does not conduct, so the resistive two-rail sensor cannot `
       + `see it: the reading `
       + 'stays at 0 or at full scale wherever the ball is. Use a steel ball.',
@@ -108,7 +118,7 @@ export function collectWarnings(ctx: WarningContext): PlannerWarning[] {
       + `${fmt((2 * Math.PI) / w)} s); `
       + `the servo's lag and the loop's delay (${ms(plant.effectiveLag)} together) make every `
       + `swing bigger. `
-      + 'Add a derivative term: choose PD.',
+      + 'The drawn response shows that swing. Add a derivative term: choose PD.',
     )
   } else if (!design.feasible) {
     const fastest = design.fastestSettlingTime
@@ -151,16 +161,14 @@ export function collectWarnings(ctx: WarningContext): PlannerWarning[] {
     add(
       'suggestion-unstable',
       'danger',
-      `The formulas give gains for ${fmt(targets.settlingTime)} s, but checked with the real `
-      + `delays, the derivative `
-      + 'filter and the sampling they are unstable: the ball would swing further every time. No '
-      + 'gains are suggested. '
-      + (design.recommendedSettlingTime !== null
-        && targets.settlingTime < design.recommendedSettlingTime
-        ? `Ask for ${fmt(design.recommendedSettlingTime)} s or more`
-        : 'Ask for a longer settling time or less overshoot')
-      + (targets.method === 'ideal' ? ', use the lag-aware method,' : '')
-      + ` or raise the derivative filter N (now ${fmt(targets.derivativeFilterN)}).`,
+      `The formulas give gains for ${fmt(targets.settlingTime)} s, but the check of the loop `
+      + 'the firmware runs (with the real delays, the derivative filter and the sampling) finds '
+      + 'them unstable. '
+      + (ctx.rejectedAnalysis?.explanation ?? 'The ball would swing further every time.')
+      + ' No gains are suggested. '
+      + (targets.method === 'ideal' ? 'Use the lag-aware method, ask' : 'Ask')
+      + ' for a longer settling time or less overshoot, '
+      + `or raise the derivative filter N (now ${fmt(targets.derivativeFilterN)}).`,
     )
   }
 
@@ -213,7 +221,10 @@ export function collectWarnings(ctx: WarningContext): PlannerWarning[] {
           + (ts === null ? 'no settling' : `settling in ${fmt(ts)} s`)
           + `, against ${fmt(targets.overshootPct)} % and ${fmt(targets.settlingTime)} s asked for.`
           + (targets.form === 'PID' && osMiss
-            ? ' The integral term adds overshoot; a smaller integral pole reduces it.'
+            ? ' The integral term adds a zero to the response that the placement cannot '
+            + 'cancel, and moving ζ, ω_n and the integral pole on the exact model did not meet '
+            + 'both targets. Allow more overshoot or a longer settling time, or use PD and '
+            + 'add a small Ki by hand.'
             : ''),
         )
       }
@@ -225,25 +236,23 @@ export function collectWarnings(ctx: WarningContext): PlannerWarning[] {
           add(
             'loop-rate-low',
             'warning',
-            `The loop runs at ${fmt(rig.loopRate)} Hz but the ball loop's bandwidth is `
-            + `${fmt(fBw)} Hz; sample at least `
-            + `${THRESHOLDS.samplesPerBandwidth}–${THRESHOLDS.samplesPerBandwidthComfortable} × `
-            + `faster than that `
-            + `(${fmt(THRESHOLDS.samplesPerBandwidth * fBw)} Hz or more), or ask for a slower `
+            `The loop runs at ${fmt(rig.loopRate)} Hz, only ${fmt(rig.loopRate / fBw, 2)} × the `
+            + `ball loop's bandwidth (${fmt(fBw)} Hz). Sample at least `
+            + `${THRESHOLDS.samplesPerBandwidth} × faster than that `
+            + `(${fmt(THRESHOLDS.samplesPerBandwidth * fBw)} Hz or more; `
+            + `${THRESHOLDS.samplesPerBandwidthComfortable} × is comfortable), or ask for a slower `
             + `response.`,
           )
         }
         const servoBw = 1 / plant.servoLag
         const ratio = servoBw / bw
-        if (ratio < THRESHOLDS.servoBandwidthRatioComfortable) {
+        if (ratio < THRESHOLDS.servoBandwidthRatio) {
           add(
             'servo-too-slow',
-            ratio < THRESHOLDS.servoBandwidthRatio ? 'warning' : 'info',
+            'warning',
             `The servo (about ${fmt(hz(servoBw))} Hz) is only ${fmt(ratio, 2)} × faster than `
-            + `the ball loop `
-            + `(${fmt(fBw)} Hz); it should be `
-            + `${THRESHOLDS.servoBandwidthRatio}–${THRESHOLDS.servoBandwidthRatioComfortable} × `
-            + `faster. `
+            + `the ball loop (${fmt(fBw)} Hz); `
+            + `${THRESHOLDS.servoBandwidthRatioComfortable} × or more is comfortable. `
             + 'Expect a slower, wobblier response than planned; a faster servo or a longer '
             + 'settling time helps.',
           )
@@ -331,16 +340,15 @@ export function collectWarnings(ctx: WarningContext): PlannerWarning[] {
         + 'finer ADC.',
       )
     }
-    if (!limits.linkageReachable) {
-      add(
-        'linkage-unreachable',
-        'warning',
-        'With this pushrod length the linkage cannot follow the servo over its whole travel: '
-        + 'near the ends the '
-        + 'rod would have to stretch. Limit the servo travel in the firmware or change the '
-        + 'pushrod.',
-      )
-    }
+  }
+  if (!beamAngleRange(rig).reachable) {
+    add(
+      'linkage-unreachable',
+      'error',
+      'This linkage cannot be built as drawn: with this pushrod length the rod would have to '
+      + 'stretch to follow the servo near the ends of its travel, so the servo would stall '
+      + 'against it. Change the pushrod length or the lever hole.',
+    )
   }
   return out
 }

@@ -188,7 +188,7 @@ describe('planGains', () => {
     expect(
       plan({ ...rig, ballMaterial: 'glass' }).warnings.find(w => w.code === 'ball-not-sensed')!
         .severity,
-    ).toBe('danger')
+    ).toBe('error')
     expect(codes(plan({ ...rig, pushrodLength: 0.02 }))).toContain('linkage-unreachable')
   })
 
