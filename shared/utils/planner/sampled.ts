@@ -240,6 +240,8 @@ export interface StepMetrics {
   diverged: boolean
   /** How far the simulation ran, s. */
   simulatedTime: number
+  /** Samples stepped (the cost of the metrics). */
+  samples: number
 }
 
 export interface StepOptions {
@@ -251,6 +253,11 @@ export interface StepOptions {
   horizon?: number
   /** Characteristic frequency for the settledness test, rad/s (default √(K_b·Kp)). */
   scaleFrequency?: number
+  /**
+   * Stop as soon as the metrics are proven final (default true); false steps every sample to the
+   * horizon, as a brute-force reference.
+   */
+  prove?: boolean
 }
 
 const BAND = 0.02
@@ -316,7 +323,7 @@ class LoopStepper {
   uHeld = 0
   D = 0
   I = 0
-  private sPrev = 0
+  sPrev = 0
   readonly a: number
   readonly plant: ReturnType<typeof discretizePlant>
   private readonly cxTh: number
@@ -330,9 +337,9 @@ class LoopStepper {
   private readonly kiT: number
   private readonly kp: number
   private readonly T: number
-  private readonly onMeasurement: boolean
+  readonly onMeasurement: boolean
   /** Commands waiting out the extra samples of delay, oldest first. */
-  private readonly queue: number[]
+  readonly queue: number[]
 
   constructor(loop: SampledLoop, plant?: ReturnType<typeof discretizePlant>) {
     this.queue = new Array<number>(loop.extraDelaySamples ?? 0).fill(0)
@@ -382,22 +389,172 @@ class LoopStepper {
     }
     this.uHeld = u
   }
+
+  /** Size of the state: x, v, θ, held command, D, I, s_prev and the delayed commands. */
+  get size(): number {
+    return 7 + this.queue.length
+  }
+
+  /**
+   * The state's deviation from rest at the setpoint (x = 1, all else 0), with s_prev taken
+   * relative to the s the present x gives (so it is the last step's change, not a second copy of
+   * the position).
+   */
+  read(out: Float64Array) {
+    out[0] = this.x - 1
+    out[1] = this.v
+    out[2] = this.th
+    out[3] = this.uHeld
+    out[4] = this.D
+    out[5] = this.I
+    // s_prev relative to the s this sample would give: the last step's change, ≈ −v·T
+    out[6] = this.sPrev - (this.onMeasurement ? -1 : 0) + out[0]!
+    for (let i = 0; i < this.queue.length; i++) out[7 + i] = this.queue[i]!
+  }
+
+  write(e: Float64Array) {
+    this.x = 1 + e[0]!
+    this.v = e[1]!
+    this.th = e[2]!
+    this.uHeld = e[3]!
+    this.D = e[4]!
+    this.I = e[5]!
+    this.sPrev = e[6]! - e[0]! + (this.onMeasurement ? -1 : 0)
+    for (let i = 0; i < this.queue.length; i++) this.queue[i] = e[7 + i]!
+  }
+}
+
+/**
+ * A proof that the loop stays settled. With A the closed-loop map from one sample's state
+ * (deviation from rest, scaled by S) to the next, P = Σ_j (Aᵀ)^j A^j solves the discrete
+ * Lyapunov equation AᵀPA − P = −I (summed by doubling, Smith's method), so V(e) = eᵀPe never
+ * grows along the loop's trajectory, and every later state obeys |c·e_j| ≤ √(V(e_k)·c P⁻¹ cᵀ)
+ * for any row c (Cauchy–Schwarz in the P norm). null when A is not provably contracting.
+ */
+export interface SettleBound {
+  /** S as a vector. */
+  scale: Float64Array
+  /** P, row-major. */
+  p: Float64Array
+  /** (P⁻¹)_ii for position, speed, servo angle and held command; and for command − angle. */
+  gx: number
+  gv: number
+  gth: number
+  gu: number
+  gRate: number
+}
+
+function matMul(a: Float64Array, b: Float64Array, n: number, transposeA = false): Float64Array {
+  const r = new Float64Array(n * n)
+  for (let i = 0; i < n; i++) {
+    for (let k = 0; k < n; k++) {
+      const aik = transposeA ? a[k * n + i]! : a[i * n + k]!
+      if (aik === 0) continue
+      for (let j = 0; j < n; j++) r[i * n + j]! += aik * b[k * n + j]!
+    }
+  }
+  return r
+}
+
+function invert(m: Float64Array, n: number): Float64Array | null {
+  const a = m.slice()
+  const inv = new Float64Array(n * n)
+  for (let i = 0; i < n; i++) inv[i * n + i] = 1
+  for (let c = 0; c < n; c++) {
+    let piv = c
+    for (let r = c + 1; r < n; r++) if (Math.abs(a[r * n + c]!) > Math.abs(a[piv * n + c]!)) piv = r
+    const d = a[piv * n + c]!
+    if (!(Math.abs(d) > 0)) return null
+    for (let j = 0; j < n; j++) {
+      const t = a[c * n + j]!
+      const u = inv[c * n + j]!
+      a[c * n + j] = a[piv * n + j]! / d
+      inv[c * n + j] = inv[piv * n + j]! / d
+      if (piv !== c) {
+        a[piv * n + j] = t
+        inv[piv * n + j] = u
+      }
+    }
+    for (let r = 0; r < n; r++) {
+      if (r === c) continue
+      const f = a[r * n + c]!
+      if (f === 0) continue
+      for (let j = 0; j < n; j++) {
+        a[r * n + j]! -= f * a[c * n + j]!
+        inv[r * n + j]! -= f * inv[c * n + j]!
+      }
+    }
+  }
+  return inv
+}
+
+export function settleBound(loop: SampledLoop, scale: Float64Array): SettleBound | null {
+  const probe = new LoopStepper(loop)
+  const n = probe.size
+  // A column by column: one step from each scaled unit deviation.
+  let a = new Float64Array(n * n)
+  const e = new Float64Array(n)
+  const out = new Float64Array(n)
+  for (let j = 0; j < n; j++) {
+    e.fill(0)
+    e[j] = 1 / scale[j]!
+    const st = new LoopStepper(loop, probe.plant)
+    st.write(e)
+    st.advance(st.control())
+    st.read(out)
+    for (let i = 0; i < n; i++) a[i * n + j] = out[i]! * scale[i]!
+  }
+  if (loop.ki === 0) {
+    // Without Ki the integral state stays 0 from rest: its eigenvalue 1 is never excited.
+    for (let i = 0; i < n; i++) {
+      a[i * n + 5] = 0
+      a[5 * n + i] = 0
+    }
+  }
+  // Smith's doubling: P_{2m} = P_m + (A^m)ᵀ P_m A^m, A^{2m} = (A^m)².
+  let p = new Float64Array(n * n)
+  for (let i = 0; i < n; i++) p[i * n + i] = 1
+  for (let it = 0; it < 64; it++) {
+    let norm = 0
+    for (let i = 0; i < n * n; i++) norm = Math.max(norm, Math.abs(a[i]!))
+    if (!Number.isFinite(norm)) return null
+    if (norm < 1e-9) {
+      const inv = invert(p, n)
+      if (inv === null) return null
+      const g = (i: number, j: number) => inv[i * n + j]!
+      return {
+        scale,
+        p,
+        gx: g(0, 0),
+        gv: g(1, 1),
+        gth: g(2, 2),
+        gu: g(3, 3),
+        gRate: Math.max(0, g(3, 3) + g(2, 2) - 2 * g(2, 3)),
+      }
+    }
+    const pa = matMul(p, a, n)
+    const atpa = matMul(a, pa, n, true)
+    const next = new Float64Array(n * n)
+    for (let i = 0; i < n * n; i++) next[i] = p[i]! + atpa[i]!
+    p = next
+    a = matMul(a, a, n)
+  }
+  return null
 }
 
 /**
  * Step response metrics of the sampled loop for a unit setpoint step at t = 0.
- * Stops once the response is inside the 2 % band, has stayed there at least as long as it took
- * to get there, and the whole state (position, speed/ω_c, servo, command, filter and integral
- * states scaled by K_b/ω_c²) is within 1e−4 of rest — 200 times smaller than the band, so no
- * later excursion can reach it; or at the horizon, where a response counts as settled only if it
- * has stayed inside three times as long as it took to get there.
+ * Stops as soon as settleBound proves that nothing later can change them: no later excursion
+ * leaves the 2 % band (between samples too), rises above the peak found (or changes a zero
+ * overshoot by 1e−9 %), or exceeds the peak command and servo speed found. The metrics are then
+ * exactly those of stepping on for ever. Otherwise it stops at the horizon, where a response
+ * counts as settled only if it has stayed inside three times as long as it took to get there.
  */
 export function sampledStepMetrics(loop: SampledLoop, opts: StepOptions = {}): StepMetrics {
   const { kb, period: T, kp } = loop
   const loopState = new LoopStepper(loop)
   const { a, plant } = loopState
   const wc = opts.scaleFrequency ?? Math.sqrt(kb * Math.max(kp, 1e-12))
-  const rest = kb / (wc * wc)
   const horizon = Math.max(60, 400 / wc, opts.horizon ?? 0)
   const horizonSteps = Math.min(1_000_000, Math.ceil(horizon / T))
   const maxSteps = 10 * horizonSteps
@@ -411,6 +568,10 @@ export function sampledStepMetrics(loop: SampledLoop, opts: StepOptions = {}): S
   let k = 0
   let diverged = false
   let quiet = false
+  // The settledness proof (settleBound), built the first time it is needed.
+  let bound: SettleBound | null | undefined
+  const dev = new Float64Array(loopState.size)
+  // Between samples |x − 1| exceeds its value at the sample by at most |v|T + K_b·T²·max|θ|/2.
   for (; k < maxSteps; k++) {
     // sample k
     const { x, v, th, uHeld } = loopState
@@ -458,13 +619,36 @@ export function sampledStepMetrics(loop: SampledLoop, opts: StepOptions = {}): S
       k++
       break
     }
-    if (lastOut < k && k + 1 >= 2 * (lastOut + 1) && k >= 20) {
-      const q
-        = Math.abs(x1 - 1)
-          + Math.abs(v1) / wc
-          + rest
-          * (Math.abs(loopState.th) + Math.abs(u) + Math.abs(loopState.D) + Math.abs(loopState.I))
-      if (q < 1e-4) {
+    if (lastOut < k && k >= 20 && bound !== null && opts.prove !== false) {
+      if (bound === undefined) {
+        const sc = new Float64Array(loopState.size).fill(kb / (wc * wc))
+        sc[0] = 1
+        sc[1] = 1 / wc
+        sc[6] = 1 / (wc * T)
+        bound = settleBound(loop, sc)
+        if (bound === null) continue
+      }
+      loopState.read(dev)
+      const n = dev.length
+      for (let i = 0; i < n; i++) dev[i] = dev[i]! * bound.scale[i]!
+      let v2 = 0
+      for (let i = 0; i < n; i++) {
+        let row = 0
+        for (let j = 0; j < n; j++) row += bound.p[i * n + j]! * dev[j]!
+        v2 += dev[i]! * row
+      }
+      const r = Math.sqrt(Math.max(0, v2) * (1 + 1e-9))
+      const wT = wc * T
+      const xReach = r * (Math.sqrt(bound.gx) + wT * Math.sqrt(bound.gv)
+        + 0.5 * wT * wT * Math.max(Math.sqrt(bound.gth), Math.sqrt(bound.gu)))
+      const uReach = ((r * wc * wc) / kb) * Math.sqrt(bound.gu)
+      const rateReach = ((r * wc * wc) / kb) * Math.sqrt(bound.gRate)
+      if (
+        xReach < BAND
+        && (xMax >= 1 + xReach || 100 * xReach < 1e-9)
+        && uReach <= peakCommand
+        && (a === Infinity || rateReach * a <= peakServoRate)
+      ) {
         quiet = true
         k++
         break
@@ -481,6 +665,7 @@ export function sampledStepMetrics(loop: SampledLoop, opts: StepOptions = {}): S
       peakServoRate,
       diverged,
       simulatedTime,
+      samples: k,
     }
   }
   // Proven settled by the quiet test, or at the horizon after staying inside 3× as long as it took.
@@ -495,6 +680,7 @@ export function sampledStepMetrics(loop: SampledLoop, opts: StepOptions = {}): S
     peakServoRate,
     diverged,
     simulatedTime,
+    samples: k,
   }
 }
 
