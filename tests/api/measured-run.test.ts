@@ -9,20 +9,14 @@ import { storedRun } from '../../shared/utils/measured-runs'
 import type { Client } from '../helpers/client'
 import { signedIn } from '../helpers/shop'
 import { openTicket, ticketSpace } from '../helpers/tickets'
+import { simulatedLog } from '../unit/planner/runs'
 
 const rig = KIT_PRESETS[0]!.rig
 const gains = planGains(rig, DEFAULT_TARGETS).gains!
 const inputs = { rig, targets: DEFAULT_TARGETS, gains }
 
-/** A short logged run: the ball moving from 300 to 420 counts as the command eases back. */
-function csv() {
-  const rows = ['time_s,position_counts,setpoint_counts,command_deg']
-  for (let k = 0; k < 200; k++) {
-    const x = 420 - 120 * Math.exp(-k / 40) * Math.cos(k / 25)
-    rows.push(`${(k * 0.02).toFixed(2)},${Math.round(x)},420,${(3 * Math.exp(-k / 30)).toFixed(2)}`)
-  }
-  return rows.join('\n')
-}
+/** A 4 s logged run at the kit's 50 Hz, as the firmware snippet prints it (200 rows). */
+const csv = () => simulatedLog(rig, gains, { duration: 4, noiseCounts: 1 })
 
 let support: Client
 let w: Awaited<ReturnType<typeof ticketSpace>>

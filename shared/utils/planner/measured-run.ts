@@ -451,7 +451,7 @@ function fitClosedLoop(rig: Rig, gains: Gains, run: readonly RunSample[]): RunFi
     const h = 1e-2
     const cols = [0, 1].map((k) => {
       const q: [number, number] = [...p]
-      q[k] += h
+      q[k] = q[k]! + h
       const rq = residual(model(q))
       return Float64Array.from(rq, (v, i) => (v - r[i]!) / h)
     })
