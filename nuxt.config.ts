@@ -103,6 +103,9 @@ export default defineNuxtConfig({
     output: { dir: process.env.TILTWRIGHT_OUTPUT_DIR || '.output' },
   },
   serverHandlers: fakePaymentHandlers,
+  // The planner's worker (workers/planner.worker.ts) imports the model: module workers, so the
+  // build can split it into chunks like the page.
+  vite: { worker: { format: 'es' } },
   typescript: {
     strict: true,
     // odex (a test-only ODE solver) ships TypeScript sources that fail strict checks.

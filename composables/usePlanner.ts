@@ -1,18 +1,23 @@
-// Live planner results, computed in the browser from the draft on every change: the
-// suggestion, the check of the gains on the rig, the drawn response (the scenario: a setpoint
-// step, optionally a nudge, a P-only run and a saved sheet to compare) and the stability map.
+// Live planner results for the draft: the suggestion, the check of the gains on the rig, the
+// drawn response (the scenario: a setpoint step, optionally a nudge, a P-only run and a saved
+// sheet to compare), the stability map, the loop view, the what-if envelope and the servo
+// jitter. Every heavy computation is a planner job run off the page's thread (usePlannerJob), so
+// typing never blocks; only the form's check and the shaping of answers run here.
 // usePlannerRig() plans for a rig of a build space (?rig=ID).
 
-import { analyzeLoop } from '~~/shared/utils/planner/analyze'
-import { firmwareConstants } from '~~/shared/utils/planner/firmware'
-import { planGains } from '~~/shared/utils/planner/plan'
+import { bringUpSteps } from '~~/shared/utils/planner/commissioning'
+import { proportionalOscillation } from '~~/shared/utils/planner/compare'
+import { plantOf } from '~~/shared/utils/planner/plant'
 import type { Gains } from '~~/shared/utils/planner/schema'
-import { compareProportionalAndPd } from '~~/shared/utils/planner/compare'
-import { stabilityMap } from '~~/shared/utils/planner/map'
-import { simulate } from '~~/shared/utils/planner/simulate'
+import type { SimulateOptions, SimulationResult } from '~~/shared/utils/planner/simulate'
 import type { SheetInputs } from '~~/shared/schemas/planner'
 import type { ResponseSeries } from '~/components/planner/PlannerResponsePlot.vue'
 import { checkPlannerForm } from '~~/shared/utils/planner-form'
+import {
+  mapRequest,
+  PAGE_LOOP_VIEW_POINTS,
+  responseScenario,
+} from '~~/shared/utils/planner-page'
 import type { RigView } from '~~/shared/types/build'
 import { draftForRig, type PlannerRig } from '~/stores/planner'
 
@@ -22,14 +27,31 @@ export interface OverlaySheet {
   inputs: SheetInputs
 }
 
+const toSeries = (
+  label: string,
+  r: SimulationResult,
+  tone: ResponseSeries['tone'],
+  dashed = false,
+): ResponseSeries => ({
+  label,
+  tone,
+  dashed,
+  t: r.t,
+  x: r.x.map(v => v * 1000),
+  angle: r.beamAngle.map(v => (v * 180) / Math.PI),
+})
+
 export function usePlanner() {
   const store = usePlannerStore()
   const check = computed(() => checkPlannerForm(store.form))
   const inputs = computed(() =>
     check.value.ok ? { rig: check.value.rig, targets: check.value.targets } : null,
   )
-  const plan = computed(() =>
-    inputs.value ? planGains(inputs.value.rig, inputs.value.targets) : null,
+  const planJob = usePlannerJob('plan', () => inputs.value)
+  const plan = planJob.result
+  /** What the firmware runs (Tustin falls back to backward Euler where it is refused). */
+  const discretization = computed(
+    () => plan.value?.discretization ?? inputs.value?.targets.discretization ?? 'backward-euler',
   )
 
   const gains = computed<Gains | null>(() => {
@@ -49,21 +71,25 @@ export function usePlanner() {
     return plan.value?.gains ?? null
   })
 
-  const analysis = computed(() => {
-    if (!inputs.value || !gains.value) return null
-    if (store.gainSource === 'suggested') return plan.value?.analysis ?? null
-    return analyzeLoop(inputs.value.rig, gains.value, {
-      discretization: inputs.value.targets.discretization,
-    })
+  /** The rig and gains the builder's own gains are checked on; null for the suggestion. */
+  const ownArgs = () =>
+    inputs.value && gains.value && store.gainSource === 'own'
+      ? { rig: inputs.value.rig, gains: gains.value }
+      : null
+  const analyzeJob = usePlannerJob('analyze', () => {
+    const a = ownArgs()
+    return a && plan.value ? { ...a, options: { discretization: discretization.value } } : null
   })
-
-  const firmware = computed(() => {
-    if (!inputs.value || !gains.value) return null
-    if (store.gainSource === 'suggested') return plan.value?.firmware ?? null
-    return firmwareConstants(inputs.value.rig, gains.value, {
-      discretization: inputs.value.targets.discretization,
-    })
+  const firmwareJob = usePlannerJob('firmware', () => {
+    const a = ownArgs()
+    return a && plan.value ? { ...a, options: { discretization: discretization.value } } : null
   })
+  const analysis = computed(() =>
+    store.gainSource === 'suggested' ? (plan.value?.analysis ?? null) : analyzeJob.result.value,
+  )
+  const firmware = computed(() =>
+    store.gainSource === 'suggested' ? (plan.value?.firmware ?? null) : firmwareJob.result.value,
+  )
 
   function useSuggestion() {
     const g = plan.value?.gains
@@ -72,100 +98,135 @@ export function usePlanner() {
 
   const showPOnly = ref(false)
   const showNudge = ref(true)
+  const showEnvelope = ref(false)
   /** A saved sheet whose predicted response is drawn beside the current one. */
   const overlay = ref<OverlaySheet | null>(null)
 
-  const response = computed(() => {
-    if (!inputs.value || !gains.value) return null
-    const { rig, targets } = inputs.value
-    const mid = (rig.sensorLength ?? rig.beamLength) / 2
-    const step = targets.stepSize ?? (rig.sensorLength ?? rig.beamLength) / 4
-    const duration = Math.min(
-      30,
-      Math.max(6, 2.5 * targets.settlingTime + (showNudge.value ? targets.settlingTime + 1 : 0)),
-    )
-    const opts = {
-      duration,
-      initialPosition: mid,
-      initialSetpoint: mid,
-      setpoint: mid + step,
-      setpointTime: 0.5,
-      nudge: showNudge.value ? { time: 1 + targets.settlingTime * 1.5, speed: 0.15 } : null,
-      discretization: targets.discretization,
-    }
-    const toSeries = (
-      label: string,
-      r: ReturnType<typeof simulate>,
-      tone: ResponseSeries['tone'],
-      dashed = false,
-    ): ResponseSeries => ({
-      label,
-      tone,
-      dashed,
-      t: r.t,
-      x: r.x.map(v => v * 1000),
-      angle: r.beamAngle.map(v => (v * 180) / Math.PI),
-    })
-    const main = simulate(rig, gains.value, opts)
-    const series: ResponseSeries[] = [
-      toSeries(store.gainSource === 'own' ? 'your gains' : 'suggested', main, 'main'),
-    ]
-    if (showPOnly.value)
-      series.push(
-        toSeries(
-          'P only, same Kp',
-          simulate(rig, { ...gains.value, kd: 0, ki: 0 }, opts),
-          'compare',
-          true,
-        ),
-      )
+  /** P only: the gains the method gives, drawn with the verdict (there is no suggestion). */
+  const proportional = computed(() =>
+    inputs.value?.targets.form === 'P' ? (plan.value?.proportional ?? null) : null,
+  )
+  /** The gains the response is drawn for: the ones on the rig, or P only's. */
+  const drawnGains = computed(() => gains.value ?? proportional.value)
+
+  /** The scenario every drawn run shares (the current rig's start and setpoint change). */
+  const scenario = computed<SimulateOptions | null>(() =>
+    inputs.value && plan.value
+      ? responseScenario(
+          inputs.value.rig,
+          inputs.value.targets,
+          discretization.value,
+          showNudge.value,
+        )
+      : null,
+  )
+
+  const mainRun = usePlannerJob('simulate', () =>
+    inputs.value && drawnGains.value && scenario.value
+      ? { rig: inputs.value.rig, gains: drawnGains.value, options: scenario.value }
+      : null,
+  )
+  const pOnlyRun = usePlannerJob('simulate', () =>
+    showPOnly.value && !proportional.value && inputs.value && gains.value && scenario.value
+      ? {
+          rig: inputs.value.rig,
+          gains: { ...gains.value, kd: 0, ki: 0 },
+          options: scenario.value,
+        }
+      : null,
+  )
+  const overlayRun = usePlannerJob('simulate', () => {
     const o = overlay.value
-    if (o) {
-      // The saved rig from the same start, setpoint change and nudge as the current plot.
-      const oMid = (o.inputs.rig.sensorLength ?? o.inputs.rig.beamLength) / 2
-      series.push(
-        toSeries(
-          `sheet: ${o.title}`,
-          simulate(o.inputs.rig, o.inputs.gains, {
-            ...opts,
-            initialPosition: oMid,
-            initialSetpoint: oMid,
-            setpoint: oMid + step,
-          }),
-          'ghost',
-          true,
-        ),
-      )
+    const s = scenario.value
+    if (!o || !s || !inputs.value) return null
+    // The saved rig from the same start, setpoint change and nudge as the current plot.
+    const oMid = (o.inputs.rig.sensorLength ?? o.inputs.rig.beamLength) / 2
+    const step = s.setpoint! - s.initialPosition!
+    return {
+      rig: o.inputs.rig,
+      gains: o.inputs.gains,
+      options: {
+        ...s,
+        initialPosition: oMid,
+        initialSetpoint: oMid,
+        setpoint: oMid + step,
+        discretization: o.inputs.targets.discretization,
+      },
     }
+  })
+  const envelopeJob = usePlannerJob('envelope', () =>
+    showEnvelope.value && inputs.value && gains.value && scenario.value
+      ? { rig: inputs.value.rig, gains: gains.value, options: scenario.value }
+      : null,
+  )
+  const envelope = envelopeJob.result
+
+  const response = computed(() => {
+    const main = mainRun.result.value
+    if (!main || !drawnGains.value) return null
+    const label = proportional.value
+      ? 'P only'
+      : store.gainSource === 'own'
+        ? 'your gains'
+        : 'suggested'
+    const series: ResponseSeries[] = [toSeries(label, main, 'main')]
+    if (pOnlyRun.result.value)
+      series.push(toSeries('P only, same Kp', pOnlyRun.result.value, 'compare', true))
+    if (overlayRun.result.value && overlay.value)
+      series.push(toSeries(`sheet: ${overlay.value.title}`, overlayRun.result.value, 'ghost', true))
+    const env = envelope.value
     return {
       series,
       setpoint: { t: main.t, x: main.setpoint.map(v => v * 1000) },
       events: main.events,
+      band: env ? { t: env.t, lowerMm: env.lowerMm, upperMm: env.upperMm } : null,
     }
   })
 
-  const pOnly = computed(() =>
-    inputs.value ? compareProportionalAndPd(inputs.value.rig, inputs.value.targets).pOnly : null,
+  /** The swing P only predicts: its ideal period and how fast it grows (cheap: one pole). */
+  const pOnly = computed(() => {
+    if (!inputs.value) return null
+    const kp = proportional.value?.kp ?? gains.value?.kp
+    if (!kp) return null
+    const plant = plantOf(inputs.value.rig)
+    return { oscillation: proportionalOscillation(plant.kb, kp, plant.servoLag, plant.period) }
+  })
+
+  const mapJob = usePlannerJob('map', () => {
+    if (!inputs.value || !plan.value) return null
+    const ref = plan.value.gains ?? plan.value.rejectedGains ?? gains.value ?? proportional.value
+    if (!ref) return null
+    return mapRequest(inputs.value.rig, inputs.value.targets, ref, discretization.value)
+  })
+  const map = mapJob.result
+
+  const loopViewJob = usePlannerJob('loopView', () =>
+    inputs.value && gains.value && plan.value
+      ? {
+          rig: inputs.value.rig,
+          gains: gains.value,
+          options: { discretization: discretization.value, points: PAGE_LOOP_VIEW_POINTS },
+        }
+      : null,
+  )
+  const jitterJob = usePlannerJob('jitter', () =>
+    inputs.value && gains.value && plan.value && inputs.value.rig.adcNoiseCounts
+      ? { rig: inputs.value.rig, gains: gains.value, discretization: discretization.value }
+      : null,
   )
 
-  const map = computed(() => {
-    if (!inputs.value || !plan.value) return null
-    const ref = plan.value.gains ?? plan.value.rejectedGains ?? gains.value
-    if (!ref) return null
-    const t = inputs.value.targets
-    return stabilityMap(
-      inputs.value.rig,
-      {
-        kpRange: [ref.kp * 0.02, ref.kp * 3],
-        kdRange: [0, Math.max(ref.kd, 0.05) * 3],
-        n: t.derivativeFilterN,
-        derivativeOn: t.derivativeOn,
-        ki: t.form === 'PID' ? ref.ki : 0,
-        discretization: t.discretization,
-      },
-      48,
-    )
-  })
+  /** The ordered first power-up with these constants (cheap: words from numbers). */
+  const bringUp = computed(() =>
+    inputs.value && gains.value && firmware.value
+      ? bringUpSteps(inputs.value.rig, gains.value, firmware.value)
+      : [],
+  )
+
+  /** Any job still computing: the page shows a quiet "updating…" and keeps the last results. */
+  const busy = computed(() =>
+    [planJob, analyzeJob, firmwareJob, mainRun, pOnlyRun, overlayRun, envelopeJob, mapJob,
+      loopViewJob, jitterJob].some(j => j.busy.value),
+  )
 
   /** Picking a point on the stability map puts its Kp and Kd on the rig as the builder's own. */
   function pick(p: { kp: number, kd: number }) {
@@ -182,13 +243,21 @@ export function usePlanner() {
     gains,
     analysis,
     firmware,
+    discretization,
     useSuggestion,
     showPOnly,
     showNudge,
+    showEnvelope,
     overlay,
+    proportional,
     response,
+    envelope,
     pOnly,
     map,
+    loopView: loopViewJob.result,
+    jitter: jitterJob.result,
+    bringUp,
+    busy,
     pick,
   }
 }

@@ -1,9 +1,9 @@
 // The planner draft: the form in the builder's units, which gains are on the rig (the
 // suggestion or the builder's own), and the calibration readings. Kept across reloads.
-import { defineStore } from 'pinia'
+import { defineStore, skipHydrate } from 'pinia'
 import { ref, toRaw } from 'vue'
 import { DEFAULT_TARGETS, KIT_PRESETS } from '~~/shared/utils/planner/presets'
-import { formFrom, type PlannerForm } from '~~/shared/utils/planner-form'
+import { checkPlannerForm, formFrom, type PlannerForm } from '~~/shared/utils/planner-form'
 import type { Gains } from '~~/shared/utils/planner/schema'
 import type { RigView } from '~~/shared/types/build'
 import { persistInStorage } from './persist'
@@ -116,6 +116,11 @@ export const usePlannerStore = defineStore('planner', () => {
   const rig = ref<PlannerRig | null>(null)
   /** The ordinary draft, put aside while planning for a rig. */
   let putAside: PlannerDraft | null = null
+  /**
+   * Why the saved draft was not restored: its values the planner refuses (a loop rate out of
+   * range, say), each in the check's words; null when it was restored or there was none.
+   */
+  const refusedDraft = ref<string[] | null>(null)
 
   const draft = (): PlannerDraft =>
     structuredClone({
@@ -143,8 +148,18 @@ export const usePlannerStore = defineStore('planner', () => {
     () => (rig.value && putAside ? putAside : draft()),
     (saved) => {
       if (!isObject(saved)) return
-      // A field the draft did not have when it was saved keeps its default.
-      if (isObject(saved.form)) form.value = { ...defaultForm(), ...saved.form } as PlannerForm
+      // A field the draft did not have when it was saved keeps its default. A draft the check
+      // refuses is not restored at all (it could freeze the page), and the builder is told why.
+      if (isObject(saved.form)) {
+        const restored = { ...defaultForm(), ...saved.form } as PlannerForm
+        const check = checkPlannerForm(restored)
+        if (!check.ok) {
+          refusedDraft.value = Object.values(check.errors)
+          localStorage.removeItem(KEY)
+          return
+        }
+        form.value = restored
+      }
       if (typeof saved.presetId === 'string' || saved.presetId === null)
         presetId.value = saved.presetId
       if (saved.gainSource === 'suggested' || saved.gainSource === 'own')
@@ -208,6 +223,7 @@ export const usePlannerStore = defineStore('planner', () => {
    *  classroom computer. */
   function reset() {
     storage.forget(defaults)
+    refusedDraft.value = null
   }
 
   return {
@@ -218,6 +234,8 @@ export const usePlannerStore = defineStore('planner', () => {
     calibration,
     sheet,
     rig,
+    // Read from storage in the browser: the server's empty copy must not overwrite it.
+    refusedDraft: skipHydrate(refusedDraft),
     applyPreset,
     planForRig,
     leaveRig,

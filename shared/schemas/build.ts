@@ -120,6 +120,60 @@ export const moveBuilderSchema = z.object({
   rigId: plainId('Choose a rig.').nullable(),
 })
 
+const RUN_ROWS = 5000
+const finiteNumber = (what: string) =>
+  z.number({ error: `${what} must be a number.` })
+const series = (what: string) =>
+  z
+    .array(finiteNumber(what), { error: `${what} must be a list of numbers.` })
+    .max(RUN_ROWS, `Keep a run to ${RUN_ROWS} rows or fewer.`)
+const positive = (what: string) => finiteNumber(what).positive(`${what} must be above 0.`)
+
+/** The logged run itself (shared/utils/planner/measured-run.ts), one entry per row. */
+export const runLogSchema = z
+  .object({
+    unit: z.enum(['counts', 'mm'], { error: 'The log\'s unit is counts or mm.' }),
+    /** s from the start of the log. */
+    t: series('Time'),
+    positionMm: series('Position'),
+    setpointMm: series('Setpoint').nullable(),
+    commandDeg: series('Servo command').nullable(),
+  })
+  .superRefine((log, ctx) => {
+    for (const key of ['positionMm', 'setpointMm', 'commandDeg'] as const) {
+      const column = log[key]
+      if (column && column.length !== log.t.length) {
+        ctx.addIssue({
+          code: 'custom',
+          path: [key],
+          message: 'Every column of the log needs one value per row.',
+        })
+      }
+    }
+  })
+
+/** The least-squares fit of the plant gain and servo lag to the logged run. */
+export const runFitSchema = z.object({
+  method: z.enum(['replay', 'closed-loop'], { error: 'The fit method is replay or closed-loop.' }),
+  /** m/s² per rad of servo. */
+  kb: positive('The fitted plant gain'),
+  /** s */
+  servoLag: positive('The fitted servo lag'),
+  modelKb: positive('The planner\'s plant gain'),
+  modelServoLag: positive('The planner\'s servo lag'),
+  rmsBeforeMm: finiteNumber('The distance before the fit').min(0),
+  rmsAfterMm: finiteNumber('The distance after the fit').min(0),
+  levelOffsetDeg: finiteNumber('The level offset').nullable(),
+  corrected: z.object({
+    servoSecondsPer60: positive('The servo speed').optional(),
+    leverArm: positive('The lever arm').optional(),
+    gearRatio: positive('The gear ratio').optional(),
+  }),
+  /** The fitted and the predicted ball positions on the log's own times, mm. */
+  fittedMm: series('The fitted positions'),
+  predictedMm: series('The predicted positions'),
+})
+
 /** What a builder measured on the real rig with a sheet's gains (all optional). */
 export const measuredRunSchema = z.object({
   settlingTime: z
@@ -137,8 +191,14 @@ export const measuredRunSchema = z.object({
     .array(z.tuple([z.number(), z.number()]), { error: 'Samples are [time, position] pairs.' })
     .max(5000, 'Keep a run to 5000 samples or fewer.')
     .optional(),
+  /** The uploaded CSV log, in mm and degrees (docs/planner-model.md, "Measured runs"). */
+  log: runLogSchema.optional(),
+  /** The planner's fit to that log. */
+  fit: runFitSchema.optional(),
 })
 export type MeasuredRun = z.infer<typeof measuredRunSchema>
+export type RunLog = z.infer<typeof runLogSchema>
+export type StoredRunFit = z.infer<typeof runFitSchema>
 
 export const sheetVerdictField = z.enum(SHEET_VERDICTS, {
   error: 'Choose how the real rig behaved.',

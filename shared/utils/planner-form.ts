@@ -94,7 +94,8 @@ export function rigFromForm(f: PlannerForm): Rig {
     leverArm: num(f.leverArmMm) * MM,
     pushrodLength: opt(f.pushrodLengthMm, MM),
     drive: f.drive,
-    gearRatio: f.drive === 'direct' ? opt(f.gearRatio) : undefined,
+    // A motor on the pivot turns the beam one for one unless a reduction is entered.
+    gearRatio: f.drive === 'direct' ? (opt(f.gearRatio) ?? 1) : undefined,
     ballDiameter: num(f.ballDiameterMm) * MM,
     ballShell: f.ballShell,
     ballMaterial: f.ballMaterial,
@@ -139,7 +140,7 @@ export function formFrom(rig: Rig, targets: Targets): PlannerForm {
     leverArmMm: round(rig.leverArm / MM),
     pushrodLengthMm: rig.pushrodLength === undefined ? null : round(rig.pushrodLength / MM),
     drive: rig.drive,
-    gearRatio: rig.gearRatio ?? null,
+    gearRatio: rig.gearRatio ?? 1,
     ballDiameterMm: round(rig.ballDiameter / MM),
     ballShell: rig.ballShell,
     ballMaterial: rig.ballMaterial ?? 'steel',

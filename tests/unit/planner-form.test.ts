@@ -24,6 +24,25 @@ describe('planner form', () => {
     expect(targetsFromForm(f)).toMatchObject(DEFAULT_TARGETS)
   })
 
+  it('takes a motor on the pivot with a blank gear reduction as one for one, not an error', () => {
+    const f = { ...form(), drive: 'direct' as const, gearRatio: null }
+    const r = checkPlannerForm(f)
+    expect(r.errors.gearRatio).toBeUndefined()
+    expect(r.ok && r.rig.gearRatio).toBe(1)
+    expect(form().gearRatio).toBe(1)
+    // An entered reduction is kept.
+    expect(rigFromForm({ ...f, gearRatio: 30 }).gearRatio).toBe(30)
+  })
+
+  it('refuses a loop rate outside 10 to 1000 Hz, saying the range', () => {
+    expect(checkPlannerForm({ ...form(), loopRateHz: 5000 }).errors.loopRateHz).toMatch(
+      /at most 1000 Hz/,
+    )
+    expect(checkPlannerForm({ ...form(), loopRateHz: 5 }).errors.loopRateHz).toMatch(
+      /at least 10 Hz/,
+    )
+  })
+
   it('keys errors by form field, in mm for the mm fields', () => {
     const r = checkPlannerForm({
       ...form(),

@@ -1,7 +1,9 @@
 // Rail sensor calibration (docs/planner-model.md §6): a least-squares line
 // position = slope·reading + offset through (ADC reading, measured position) pairs. Readings
 // pinned at 0 or at full scale carry no position (no ball bridging the rails, or a ball that does
-// not conduct) and are left out.
+// not conduct) and are left out. The rows as typed (readCalibrationRows), the residuals as a ruler
+// reads them (rulerMm) and what the fit changes in the plan (planInputsFromFit) are here too, so
+// the panel only shows them.
 import { fmt } from './format'
 
 export interface CalibrationPair {
@@ -177,8 +179,8 @@ export function fitCalibration(pairs: readonly CalibrationPair[], adcBits: numbe
         code: 'outlier',
         index: worst.index,
         message:
-          `The reading at ${fmt(pairs[worst.index]!.position * 1000)} mm is `
-          + `${fmt(Math.abs(worst.residual) * 1000, 2)} mm off the line, far more than the `
+          `The reading at ${fmt(pairs[worst.index]!.position * 1000)} mm is about `
+          + `${fmt(Math.abs(rulerMm(worst.residual)))} mm off the line, far more than the `
           + `others: measure it again.`,
       })
     }
@@ -209,4 +211,145 @@ export function fitCalibration(pairs: readonly CalibrationPair[], adcBits: numbe
     used: use.length,
     issues,
   }
+}
+
+/** A ruler's resolution, mm: residuals are shown to the nearest half millimetre. */
+export const RULER_MM = 0.5
+
+/** A length in metres as a ruler reads it: mm to the nearest RULER_MM, never "−0". */
+export function rulerMm(meters: number): number {
+  const mm = Math.round((meters * 1000) / RULER_MM) * RULER_MM
+  return mm === 0 ? 0 : mm
+}
+
+/** One row of the panel as typed: the ADC reading and the position in mm, as text. */
+export interface CalibrationRowText {
+  reading: string
+  positionMm: string
+}
+
+export interface CalibrationRows {
+  /** The pairs to fit, in row order (rows with an error or left blank are not among them). */
+  pairs: CalibrationPair[]
+  /** The row each pair came from. */
+  rowOfPair: number[]
+  /** Per row: what is wrong with it, or null. A blank row has no error and no pair. */
+  rowErrors: (string | null)[]
+}
+
+/** A number as typed: digits with an optional point (or a decimal comma) and sign; else null. */
+export function parseTypedNumber(text: string): number | null {
+  let t = text.trim()
+  if (!t.includes('.') && /^[-+]?\d*,\d+$/.test(t)) t = t.replace(',', '.')
+  t = t.replace(/^−/, '-')
+  if (!/^[-+]?(\d+\.?\d*|\.\d+)(e[-+]?\d+)?$/i.test(t)) return null
+  const v = Number(t)
+  return Number.isFinite(v) ? v : null
+}
+
+/**
+ * The panel's rows to pairs. A value that is not a number, or a row with only one of its two
+ * values, is an error on that row (never silently dropped); a row with both blank is unused.
+ */
+export function readCalibrationRows(rows: readonly CalibrationRowText[]): CalibrationRows {
+  const out: CalibrationRows = { pairs: [], rowOfPair: [], rowErrors: [] }
+  rows.forEach((row, i) => {
+    const readingText = row.reading.trim()
+    const positionText = row.positionMm.trim()
+    if (readingText === '' && positionText === '') {
+      out.rowErrors.push(null)
+      return
+    }
+    const reading = parseTypedNumber(readingText)
+    const positionMm = parseTypedNumber(positionText)
+    const problems: string[] = []
+    if (readingText === '') problems.push('the ADC reading is missing')
+    else if (reading === null) problems.push(`the ADC reading “${readingText}” is not a number`)
+    if (positionText === '') problems.push('the position is missing')
+    else if (positionMm === null) problems.push(`the position “${positionText}” is not a number`)
+    if (problems.length > 0) {
+      const words = problems.join(' and ')
+      out.rowErrors.push(
+        `Row ${i + 1}: ${words}. Type it as digits (like 512 or 120.5), or remove the row.`,
+      )
+      return
+    }
+    out.rowErrors.push(null)
+    out.pairs.push({ reading: reading!, position: positionMm! / 1000 })
+    out.rowOfPair.push(i)
+  })
+  return out
+}
+
+/** A share of the ADC range this far over 1 is measuring error, and the plan uses 1. */
+const SPAN_TOLERANCE = 0.02
+
+export type PlanFromFit
+  = | {
+    ok: true
+    /** V_span/V_ref for the plan, ≤ 1. */
+    sensorSpanRatio: number
+    /** The track reads backwards (the firmware flips the reading). */
+    sensorReversed: boolean
+    /** What using the fit changes, in plain words. */
+    notes: string[]
+  }
+  | {
+    ok: false
+    /** The fitted share of the ADC range, > 1. */
+    spanRatio: number | null
+    /** Why it cannot be used and what to fix. */
+    message: string
+  }
+
+/**
+ * What a fit changes in the plan: the share of the ADC range the rail spans (k_s = 2^bits·share /
+ * sensed length, docs/planner-model.md §1) and the track's direction. A share over 1 is never
+ * capped: it means the ball covers more counts per millimetre than the whole ADC range could over
+ * the sensed length, so the length, a reading or the ADC's bits are wrong.
+ */
+export function planInputsFromFit(
+  fit: CalibrationFit,
+  adcBits: number,
+  sensorLength: number,
+): PlanFromFit {
+  if (!fit.ok || fit.countsPerMeter === null || fit.direction === null) {
+    return {
+      ok: false,
+      spanRatio: null,
+      message: 'There is no calibration line to use yet: check the readings first.',
+    }
+  }
+  const span = (fit.countsPerMeter * sensorLength) / 2 ** adcBits
+  const lengthMm = fmt(sensorLength * 1000, 4)
+  if (span > 1 + SPAN_TOLERANCE) {
+    return {
+      ok: false,
+      spanRatio: span,
+      message:
+        `The readings change by ${fmt(fit.countsPerMeter / 1000, 3)} counts per mm, so ${lengthMm} `
+        + `mm of rail would need ${fmt(span, 3)} times the ADC's whole range, and no rail can `
+        + `span more than all of it. The plan is left as it was. Check the sensor length in the `
+        + `rig (the length of rail on which the ball is read, from one end of the track to the `
+        + `other: ${fmt(sensorLength * 1000 / span, 3)} mm would fit these readings), the ADC's `
+        + `bits (${adcBits}), and that each position was measured from the same end.`,
+    }
+  }
+  const notes: string[] = []
+  const ratio = Number(Math.min(1, span).toPrecision(4))
+  if (span > 1) {
+    notes.push(
+      `The fit gives a share of ${fmt(span, 3)} of the ADC range, just over all of it: that is `
+      + 'within measuring error, so the plan uses 1.',
+    )
+  }
+  const reversed = fit.direction === -1
+  notes.push(
+    reversed
+      ? 'The track reads backwards, so the plan now flips the reading: the firmware constants '
+      + 'carry TW_READING_SIGN −1. If you swap the rail\'s end wires instead, take the readings '
+      + 'again and use the new line.'
+      : 'The track reads the right way round (TW_READING_SIGN 1).',
+  )
+  return { ok: true, sensorSpanRatio: ratio, sensorReversed: reversed, notes }
 }

@@ -1,13 +1,14 @@
 // Firmware constants (docs/planner-model.md §5). The firmware works in ADC counts in and servo
-// degrees
-// out, so every gain is also given in those units: Kp°/count = Kp·(180/π)/k_s, b°/count likewise.
+// degrees out, so every gain is also given in those units: Kp°/count = Kp·(180/π)/k_s, b°/count
+// likewise. The reading's sign (a track that reads backwards) and the servo pulse in µs travel
+// with them, so the recipe is the loop the planner analysed.
 import { actuatorOf } from './actuator'
 import { filterTimeConstant } from './design'
 import { fmt } from './format'
 import { beamAngleRange } from './geometry'
 import { plantOf } from './plant'
 import { derivativeCoefficients } from './sampled'
-import type { Discretization, Gains, Rig } from './schema'
+import type { Discretization, Gains, Rig, ServoResolution } from './schema'
 import type { PlannerWarning } from './warnings'
 
 const DEG = 180 / Math.PI
@@ -15,6 +16,11 @@ const DEG = 180 / Math.PI
 /** The soft start: for this long after power-up the command is scaled from 0 up to 1, so the
  *  servo eases the beam into the loop instead of jumping to wherever the first error sends it. */
 export const SOFT_START_SECONDS = 0.5
+
+/** TW_SOFT_START: the soft start's length in samples at a loop rate (at least 1). */
+export function softStartSamplesOf(loopRateHz: number): number {
+  return Math.max(1, Math.round(SOFT_START_SECONDS * loopRateHz))
+}
 
 export interface FirmwareConstants {
   /** What the constants were computed for (Tustin falls back to backward Euler when refused). */
@@ -64,6 +70,8 @@ export interface FirmwareJson {
   loopRateHz: number
   discretization: Discretization
   derivativeOn: Gains['derivativeOn']
+  readingSign: 1 | -1
+  adcFullScale: number
   kpDegPerCount: number
   dA: number
   dBDegPerCount: number
@@ -71,7 +79,19 @@ export interface FirmwareJson {
   servoLimitDeg: number
   countsPerMeter: number
   softStartSamples: number
+  servoCenterUs: number
+  servoTrimUs: number
+  usPerDeg: number
+  servoLimitUs: number
+  servoResolution: ServoResolution
   units: Record<
+    | 'readingSign'
+    | 'adcFullScale'
+    | 'servoCenterUs'
+    | 'servoTrimUs'
+    | 'usPerDeg'
+    | 'servoLimitUs'
+    | 'servoResolution'
     | 'kpDegPerCount'
     | 'dA'
     | 'dBDegPerCount'
@@ -133,38 +153,57 @@ export function firmwareConstants(
   const loopRateHz = rig.loopRate
   const sSignal = gains.derivativeOn === 'measurement' ? '-reading' : 'error'
   const method = discretization === 'tustin' ? 'Tustin' : 'backward Euler'
-  const softStartSamples = Math.max(1, Math.round(SOFT_START_SECONDS * loopRateHz))
+  const softStartSamples = softStartSamplesOf(loopRateHz)
+  const readingSign: 1 | -1 = rig.sensorReversed ? -1 : 1
+  const adcFullScale = 2 ** rig.adcBits - 1
+  const usPerDeg = actuator.usPerRad / DEG
+  const servoLimitUs = servoLimitDeg * usPerDeg
+  const pulseLine = actuator.resolution === 'degree'
+    ? ' *   servo.write(90 + round(servo));        whole degrees, 90 = level'
+    : ' *   servo.writeMicroseconds(round(TW_SERVO_CENTER_US + TW_SERVO_TRIM_US'
+      + '\n *                           + servo * TW_US_PER_DEG));'
   const cSource = [
     '/* Tiltwright Gain Planner: firmware constants.',
     ` * Loop rate ${fmt(loopRateHz)} Hz (T = ${fmt(T * 1000)} ms), derivative on `
     + `${gains.derivativeOn}, ${method}.`,
     ' * Units: ADC counts in, servo degrees out (0 = beam level).',
-    ' * First sample only: d = 0; i = 0; n = 0; and s_prev = s of that sample, so the',
-    ' *   derivative sees no jump from 0 to the first reading (no kick at power-up).',
+    ' * First sample only: d = 0; i = 0; n = 0; and s_prev = s of that sample,',
+    ' *   so the derivative sees no jump from 0 to the first reading.',
     ' * Every sample:',
+    ' *   raw = analogRead(pin);',
+    ' *   reading = TW_READING_SIGN > 0 ? raw : TW_ADC_FULL_SCALE - raw;',
     ' *   error = setpoint - reading;                       counts',
     ` *   s = ${sSignal};`,
     ' *   d = TW_D_A * d + TW_D_B * (s - s_prev); s_prev = s;',
     ' *   i = i + TW_KI_T * error;   (hold i while the servo sits at its limit)',
     ' *   servo = TW_KP * error + i + d, clamped to +/- TW_SERVO_LIMIT_DEG',
     ' *   if (n < TW_SOFT_START) { n = n + 1; servo = servo * n / TW_SOFT_START; }',
-    ' *   write servo on the next tick, so the delay is the one the planner assumed. */',
+    ' *   on the next tick (the delay the planner assumed), write the pulse:',
+    pulseLine,
+    ' * Adjust TW_SERVO_TRIM_US (pushrod off) until the horn sits level at 0. */',
     `#define TW_LOOP_RATE_HZ     ${c(loopRateHz)}  /* Hz */`,
-    `#define TW_KP               ${c(kpDegPerCount)}  /* servo deg per count of error */`,
+    `#define TW_READING_SIGN     ${readingSign}  /* -1: reading = full scale - raw */`,
+    `#define TW_ADC_FULL_SCALE   ${adcFullScale}  /* largest ADC reading, counts */`,
+    `#define TW_KP               ${c(kpDegPerCount)}  /* deg per count of error */`,
     `#define TW_D_A              ${c(coef.a)}  /* derivative filter pole, no unit */`,
-    `#define TW_D_B              ${c(bDegPerCount)}  /* servo deg per count of change in s */`,
-    `#define TW_KI_T             ${c(kiTDegPerCount)}  /* servo deg per count of error per `
-    + `sample */`,
+    `#define TW_D_B              ${c(bDegPerCount)}  /* deg per count of change in s */`,
+    `#define TW_KI_T             ${c(kiTDegPerCount)}  /* deg per count of error, per sample */`,
     `#define TW_SERVO_LIMIT_DEG  ${c(servoLimitDeg)}  /* deg either side of level */`,
     `#define TW_COUNTS_PER_M     ${c(ks)}  /* sensor counts per metre */`,
     `#define TW_SOFT_START       ${softStartSamples}  /* samples to ease the command in `
     + `(${fmt(SOFT_START_SECONDS)} s) */`,
+    `#define TW_SERVO_CENTER_US  ${c(actuator.centerUs)}  /* pulse for a level beam, us */`,
+    '#define TW_SERVO_TRIM_US    0.0f  /* bring-up: until the beam is level, us */',
+    `#define TW_US_PER_DEG       ${c(usPerDeg)}  /* pulse per servo degree, us */`,
+    `#define TW_SERVO_LIMIT_US   ${c(servoLimitUs)}  /* us either side of the centre */`,
     '',
   ].join('\n')
   const json: FirmwareJson = {
     loopRateHz,
     discretization,
     derivativeOn: gains.derivativeOn,
+    readingSign,
+    adcFullScale,
     kpDegPerCount,
     dA: coef.a,
     dBDegPerCount: bDegPerCount,
@@ -172,8 +211,15 @@ export function firmwareConstants(
     servoLimitDeg,
     countsPerMeter: ks,
     softStartSamples,
+    servoCenterUs: actuator.centerUs,
+    servoTrimUs: 0,
+    usPerDeg,
+    servoLimitUs,
+    servoResolution: actuator.resolution,
     units: {
       loopRateHz: 'Hz',
+      readingSign: '1, or -1 when the track reads backwards: reading = adcFullScale - raw',
+      adcFullScale: 'largest ADC reading, counts',
       kpDegPerCount: 'servo degrees per ADC count of error',
       dA: 'dimensionless (derivative filter pole)',
       dBDegPerCount: 'servo degrees per ADC count of change in the derivative signal',
@@ -181,6 +227,11 @@ export function firmwareConstants(
       servoLimitDeg: 'servo degrees either side of level',
       countsPerMeter: 'ADC counts per metre of ball travel',
       softStartSamples: 'samples over which the command is eased in after power-up',
+      servoCenterUs: 'servo pulse for a level beam, microseconds',
+      servoTrimUs: 'pulse added at bring-up until the beam is level, microseconds',
+      usPerDeg: 'servo pulse per degree, microseconds',
+      servoLimitUs: 'servo pulse either side of the centre, microseconds',
+      servoResolution: 'what the firmware writes: whole degrees or whole microseconds',
     },
   }
   return {
@@ -200,10 +251,10 @@ export function firmwareConstants(
     kdDegPerMmPerS: (gains.kd * DEG) / 1000,
     softStartSamples,
     servoLimitDeg,
-    readingSign: rig.sensorReversed ? -1 : 1,
+    readingSign,
     servoCenterUs: actuator.centerUs,
-    usPerDeg: actuator.usPerRad / DEG,
-    servoLimitUs: servoLimitDeg * (actuator.usPerRad / DEG),
+    usPerDeg,
+    servoLimitUs,
     cSource,
     json,
     warnings,

@@ -13,7 +13,7 @@
 //   degree between nodes do not change what the map says; the verdict itself is exact per cell.
 import { filterTimeConstant } from './design'
 import { discretizePlantW, plantOf } from './plant'
-import { derivativeCoefficients, diskStable } from './sampled'
+import { derivativeCoefficients, hurwitzStable } from './sampled'
 import type { DerivativeSignal, Discretization, Rig } from './schema'
 
 export interface StabilityMapOptions {
@@ -127,6 +127,44 @@ function characteristicInto(out: number[], eps: number, np: number[], c: Cell): 
   }
 }
 
+/**
+ * diskStable's map of the disk onto the left half-plane, w = 2q/(1 − q), as a matrix: for a
+ * polynomial of degree n in w (coefficients c_i of w^i), Q(q) = Σ_i c_i (2q)^i (1 − q)^(n−i).
+ * bilinear[n][row·(n+1) + i] is the coefficient of q^(n−row) contributed by c_i.
+ */
+function bilinearMatrix(n: number): Float64Array {
+  const m = new Float64Array((n + 1) * (n + 1))
+  let pow2 = 1
+  for (let i = 0; i <= n; i++) {
+    let binom = 1
+    const rest = n - i
+    for (let j = 0; j <= rest; j++) {
+      m[(n - (i + j)) * (n + 1) + i]! += j % 2 === 0 ? pow2 * binom : -pow2 * binom
+      binom = (binom * (rest - j)) / (j + 1)
+    }
+    pow2 *= 2
+  }
+  return m
+}
+const BILINEAR: Record<5 | 6, Float64Array> = { 5: bilinearMatrix(5), 6: bilinearMatrix(6) }
+
+/**
+ * diskStable (every root w with |w + 1| < 1) for the map's polynomials of degree 6, or 5 when the
+ * first coefficient is 0: the same map and the same Routh–Hurwitz test, without allocating the
+ * map per cell.
+ */
+function cellStable(poly: number[], q: Float64Array, q5: Float64Array): boolean {
+  const n = poly[0] === 0 ? 5 : 6
+  const m = BILINEAR[n]
+  const out = n === 5 ? q5 : q
+  for (let row = 0; row <= n; row++) {
+    let v = 0
+    for (let i = 0; i <= n; i++) v += m[row * (n + 1) + i]! * poly[6 - i]!
+    out[row] = v
+  }
+  return hurwitzStable(out)
+}
+
 /** θ = ωT grid for the margins: log-spaced, 24 points a decade, from 1e−6 up to π. */
 const THETA_PER_DECADE = 24
 const THETA: Float64Array = (() => {
@@ -150,6 +188,8 @@ interface SampledPlantTable {
   wi: Float64Array
   /** −cot(θ/2)/2: the imaginary part of z/(z − 1) (its real part is 1/2). */
   integralIm: Float64Array
+  /** The smallest |·|² from the grid's start up to each point (non-increasing). */
+  lowMag2: Float64Array
 }
 
 function sampledPlantTable(np: number[], eps: number): SampledPlantTable {
@@ -161,6 +201,7 @@ function sampledPlantTable(np: number[], eps: number): SampledPlantTable {
     wr: new Float64Array(m),
     wi: new Float64Array(m),
     integralIm: new Float64Array(m),
+    lowMag2: new Float64Array(m),
   }
   let prev = -Math.PI
   for (let k = 0; k < m; k++) {
@@ -191,6 +232,7 @@ function sampledPlantTable(np: number[], eps: number): SampledPlantTable {
     t.wr[k] = wr
     t.wi[k] = wi
     t.integralIm[k] = -0.5 / Math.tan(th / 2)
+    t.lowMag2[k] = k === 0 ? t.mag2[k]! : Math.min(t.lowMag2[k - 1]!, t.mag2[k]!)
   }
   return t
 }
@@ -206,15 +248,28 @@ function sampledMarginsOf(
   c: Cell,
   stable: boolean,
 ): { gainMarginDb: number | null, phaseMarginDeg: number | null } {
-  const { mag2, phase, wr, wi, integralIm } = table
+  const { mag2, phase, wr, wi, integralIm, lowMag2 } = table
   const { kp, b, oneMinusA: al, kiT } = c
+  // |C| ≥ Re C ≥ Kp, so while Kp²·(smallest plant |·|² so far) > 1 there is no gain crossover,
+  // and a phase crossover there has |L| > 1 (it does not bound the upper gain margin): the scan
+  // starts just before the last such point. Only an unstable loop's margin (the minimum over every
+  // crossover) could have used one, and the map shows no margin tone for an unstable cell.
+  let lo = 0
+  let hi = mag2.length - 1
+  const floor2 = 1 / (kp * kp)
+  while (lo < hi) {
+    const mid = (lo + hi + 1) >> 1
+    if (lowMag2[mid]! > floor2) lo = mid
+    else hi = mid - 1
+  }
+  const start = Math.max(0, lo - 1)
   let pm: number | null = null
   let bestBelow = -1
   let worst = -1
   let prevLm = 0
   let prevPh = 0
   let prevFl = 0
-  for (let k = 0; k < mag2.length; k++) {
+  for (let k = start; k < mag2.length; k++) {
     // C = Kp + b·w/(w + al) + Ki·T·z/(z − 1); its real part is ≥ Kp > 0.
     const xr = wr[k]! + al
     const xi = wi[k]!
@@ -228,7 +283,7 @@ function sampledMarginsOf(
     const lm = Math.log((cr * cr + ci * ci) * mag2[k]!)
     const ph = Math.atan2(ci, cr) + phase[k]!
     const fl = Math.floor((ph + Math.PI) / (2 * Math.PI))
-    if (k > 0) {
+    if (k > start) {
       if (prevLm * lm < 0 || (lm === 0 && prevLm !== 0)) {
         const f = prevLm / (prevLm - lm)
         const phc = prevPh + f * (ph - prevPh)
@@ -325,6 +380,8 @@ export function stabilityMap(
   const zoh = discretizePlantW(plant.kb, plant.servoLag, plant.period)
   const eps = zoh.den[1]!
   const poly = new Array<number>(7).fill(0)
+  const q = new Float64Array(7)
+  const q5 = new Float64Array(6)
   const cellAt = (kp: number, kd: number) =>
     cellOf(kp, kd, options.n, kiT, plant.period, discretization)
 
@@ -334,7 +391,7 @@ export function stabilityMap(
     const row: boolean[] = []
     for (const kp of kps) {
       characteristicInto(poly, eps, zoh.num, cellAt(kp, kd))
-      const ok = kp > 0 && diskStable(poly)
+      const ok = kp > 0 && cellStable(poly, q, q5)
       row.push(ok)
       if (ok) count++
     }

@@ -7,9 +7,15 @@
 //   sensor   ADC counts: floor(x·k_s) clamped to [0, 2^bits − 1], read back at the count's centre
 //   firmware the §5 controller at every sample, command written on the next tick and held,
 //            integral held while the command is clamped (anti-windup)
-// Within a hold the servo angle is known in closed form (slew phase, then exponential), so only
-// the ball is integrated, by RK4 on sub-steps of T/subSteps.
+//   soft start the command eased in over TW_SOFT_START samples, as the exported recipe does
+//   actuator the pulse written in whole µs or whole degrees, taken by the servo only at its PWM
+//            frame, and ignored when it moves less than the servo's deadband (actuatorOf)
+// Within a hold the servo angle is known in closed form (slew phase, then exponential; piecewise
+// where a servo frame falls inside the hold), so only the ball is integrated, by RK4 on sub-steps
+// of T/subSteps.
+import { actuatorOf } from './actuator'
 import { filterTimeConstant } from './design'
+import { softStartSamplesOf } from './firmware'
 import {
   beamAngleRange,
   leverBeamAngle,
@@ -114,12 +120,42 @@ export function servoAngleAt(
   return c - gap * Math.exp(-t / tau)
 }
 
+/** The beam angle for a servo angle, and whether the lever was ever held at its reach. */
+export function linkageOf(
+  rig: Rig,
+  model: 'exact' | 'small-angle' = 'exact',
+): { alpha: (theta: number) => number, limited: () => boolean } {
+  let limited = false
+  const report = { limited: () => limited }
+  if (rig.drive === 'direct') {
+    const ng = rig.gearRatio ?? 1
+    return { alpha: theta => theta / ng, ...report }
+  }
+  const g = leverGeometryOf(rig)
+  if (model === 'small-angle') return { alpha: theta => smallAngleBeamAngle(theta, g), ...report }
+  const plant = plantOf(rig)
+  const [lo, hi] = reachableServoRange(g, Math.min(Math.PI, Math.max(plant.halfTravel, 0)))
+  const alpha = (theta: number) => {
+    let th = theta
+    if (th > hi) {
+      th = hi
+      limited = true
+    } else if (th < lo) {
+      th = lo
+      limited = true
+    }
+    return leverBeamAngle(th, g) ?? 0
+  }
+  return { alpha, ...report }
+}
+
 export function simulate(rig: Rig, gains: Gains, options: SimulateOptions = {}): SimulationResult {
   const plant = plantOf(rig)
   const T = plant.period
-  const tau = plant.servoLag
+  const lagScale = options.servoLagScale ?? 1
+  const tau = plant.servoLag * lagScale
   const limits = options.limits ?? true
-  const slew = limits ? plant.slewLimit : Infinity
+  const slew = limits ? plant.slewLimit / lagScale : Infinity
   // The firmware's clamp (see firmwareConstants): the servo's travel, or the linkage's fold point.
   const range = beamAngleRange(rig)
   const usable = Math.min(Math.abs(range.maxAtServoAngle), Math.abs(range.minAtServoAngle))
@@ -131,37 +167,14 @@ export function simulate(rig: Rig, gains: Gains, options: SimulateOptions = {}):
   const duration = options.duration ?? 10
   const ks = plant.countsPerMeter
   const fullScale = 2 ** rig.adcBits - 1
-  const ag = plant.eta * plant.gravity
+  const ag = plant.eta * plant.gravity * (options.kbScale ?? 1)
   const radius = rig.ballDiameter / 2
   const overhang = (rig.beamLength - plant.sensorLength) / 2
   const xMin = -overhang + radius
   const xMax = plant.sensorLength + overhang - radius
 
-  // linkage
-  let alphaOf: (theta: number) => number
-  let linkageLimited = false
-  if (rig.drive === 'direct') {
-    const ng = rig.gearRatio ?? 1
-    alphaOf = theta => theta / ng
-  } else {
-    const g = leverGeometryOf(rig)
-    if ((options.linkage ?? 'exact') === 'small-angle') {
-      alphaOf = theta => smallAngleBeamAngle(theta, g)
-    } else {
-      const [lo, hi] = reachableServoRange(g, Math.min(Math.PI, Math.max(plant.halfTravel, 0)))
-      alphaOf = (theta) => {
-        let th = theta
-        if (th > hi) {
-          th = hi
-          linkageLimited = true
-        } else if (th < lo) {
-          th = lo
-          linkageLimited = true
-        }
-        return leverBeamAngle(th, g) ?? 0
-      }
-    }
-  }
+  const linkage = linkageOf(rig, options.linkage ?? 'exact')
+  const alphaOf = linkage.alpha
 
   const x0 = options.initialPosition ?? plant.sensorLength / 2
   const r0 = options.initialSetpoint ?? x0
@@ -210,15 +223,43 @@ export function simulate(rig: Rig, gains: Gains, options: SimulateOptions = {}):
     out.command.push(c)
   }
 
+  // the actuator: output steps, deadband, and the servo's frame times
+  const act = actuatorOf(rig)
+  const useActuator = options.actuator ?? true
+  const step = useActuator ? act.stepRad : 0
+  const deadband = useActuator ? act.deadbandRad : 0
+  const frame = useActuator ? 1 / act.frameHz : 0
+  const written = (u: number) => (step > 0 ? Math.round(u / step) * step : u)
+  const softStart = (options.softStart ?? true) ? softStartSamplesOf(rig.loopRate) : 0
+  const delaySamples = Math.max(0, Math.round(options.extraDelaySamples ?? 0))
+  const pending: number[] = Array.from({ length: delaySamples }, () => 0)
+
   let x = x0
   let v = options.initialSpeed ?? 0
   let th = 0
-  let held = 0
+  let held = 0 // the pulse the firmware writes during this hold, as a servo angle
+  let target = 0 // the pulse the servo is following (it takes a new one only at its frames)
   let D = 0
   let sPrev = Number.NaN // first sample starts the derivative without a kick
   let I = 0
+  let n = 0
   let nudged = nudge === null
   const samples = Math.ceil(duration / T - 1e-9)
+  const lastEvent = Math.max(tChange, nudge === null ? 0 : nudge.time)
+  const settledFrom = lastEvent + (duration - lastEvent) / 2
+  // servo pieces within one hold: [start time in the hold, angle there, target]
+  const pieceStart: number[] = []
+  const pieceTheta: number[] = []
+  const pieceTarget: number[] = []
+  const servoAt = (tt: number) => {
+    let p = pieceStart.length - 1
+    while (p > 0 && pieceStart[p]! > tt) p--
+    return servoAngleAt(pieceTheta[p]!, pieceTarget[p]!, tt - pieceStart[p]!, tau, slew)
+  }
+  const take = (c: number) => {
+    // the servo ignores a new pulse that moves less than its deadband from the one it follows
+    if (Math.abs(c - target) >= deadband && c !== target) target = c
+  }
   for (let k = 0; k < samples; k++) {
     const t0 = k * T
     // sample k
@@ -245,15 +286,47 @@ export function simulate(rig: Rig, gains: Gains, options: SimulateOptions = {}):
     } else {
       I = iNext
     }
+    if (n < softStart) {
+      n += 1
+      u = (u * n) / softStart
+    }
     // the hold [kT, (k+1)T] under the command from the previous sample
     const c = held
-    const thStart = th
-    if (Math.abs(c - thStart) > tau * slew) out.events.slewLimited = true
-    const acc = (tt: number) => ag * Math.sin(alphaOf(servoAngleAt(thStart, c, tt, tau, slew)))
+    pieceStart.length = 0
+    pieceTheta.length = 0
+    pieceTarget.length = 0
+    if (frame === 0) {
+      target = c
+      pieceStart.push(0)
+      pieceTheta.push(th)
+      pieceTarget.push(c)
+    } else {
+      // the servo's frames at whole multiples of 1/frameHz; the first inside this hold takes c
+      pieceStart.push(0)
+      pieceTheta.push(th)
+      pieceTarget.push(target)
+      let m = Math.ceil(t0 / frame - 1e-9)
+      for (; m * frame < t0 + T - 1e-9; m++) {
+        const at = m * frame - t0
+        const thAt = servoAt(at)
+        take(c)
+        if (at <= 1e-12) {
+          pieceTheta[0] = thAt
+          pieceTarget[0] = target
+        } else {
+          pieceStart.push(at)
+          pieceTheta.push(thAt)
+          pieceTarget.push(target)
+        }
+      }
+    }
+    for (let p = 0; p < pieceStart.length; p++) {
+      if (Math.abs(pieceTarget[p]! - pieceTheta[p]!) > tau * slew) out.events.slewLimited = true
+    }
+    const acc = (tt: number) => ag * Math.sin(alphaOf(servoAt(tt)))
     for (let j = 0; j < subSteps; j++) {
       const ta = j * h
-      if (j % outputEvery === 0)
-        record(t0 + ta, x, v, servoAngleAt(thStart, c, ta, tau, slew), r, c)
+      if (j % outputEvery === 0) record(t0 + ta, x, v, servoAt(ta), r, c)
       if (!nudged && nudge !== null && t0 + ta >= nudge.time) {
         v += nudge.speed
         nudged = true
@@ -274,10 +347,37 @@ export function simulate(rig: Rig, gains: Gains, options: SimulateOptions = {}):
         out.events.hitEnd = true
       }
     }
-    th = servoAngleAt(thStart, c, T, tau, slew)
-    held = u
+    th = servoAt(T)
+    pending.push(written(u))
+    held = pending.shift()!
   }
   record(samples * T, x, v, th, samples * T < tChange ? r0 : r1, held)
-  out.events.linkageLimited = linkageLimited
+  out.events.linkageLimited = linkage.limited()
+  out.events.hunting = useActuator && (step > 0 || deadband > 0) && hunts(out, ks, settledFrom)
   return out
+}
+
+/**
+ * The ball still wandering back and forth around the setpoint in the second half of the time
+ * after the last change or nudge: at least two crossings, each side reached by more than an ADC
+ * count, and a swing of at least half a millimetre.
+ */
+function hunts(run: SimulationResult, countsPerMeter: number, from: number): boolean {
+  const count = 1 / countsPerMeter
+  let side = 0
+  let crossings = 0
+  let lo = Infinity
+  let hi = -Infinity
+  for (let i = 0; i < run.t.length; i++) {
+    if (run.t[i]! < from) continue
+    const e = run.x[i]! - run.setpoint[i]!
+    lo = Math.min(lo, e)
+    hi = Math.max(hi, e)
+    const now = e > count ? 1 : e < -count ? -1 : 0
+    if (now !== 0 && now !== side) {
+      if (side !== 0) crossings++
+      side = now
+    }
+  }
+  return crossings >= 2 && hi - lo >= Math.max(2 * count, 0.0005)
 }

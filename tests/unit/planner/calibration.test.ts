@@ -1,5 +1,13 @@
 import { describe, expect, it } from 'vitest'
-import { fitCalibration } from '../../../shared/utils/planner'
+import {
+  firmwareConstants,
+  fitCalibration,
+  parseTypedNumber,
+  planInputsFromFit,
+  readCalibrationRows,
+  rulerMm,
+} from '../../../shared/utils/planner'
+import { REFERENCE_RIG } from './fixtures'
 
 // A 10-bit rail over 0.4 m: 2560 counts/m, 30 mm of dead rail before count 0.
 const line = (reading: number) => 0.03 + reading / 2560
@@ -135,5 +143,120 @@ describe('a track that reads backwards', () => {
 
   it('has no direction without a fit', () => {
     expect(fitCalibration([{ reading: 300, position: 0.1 }], 10).direction).toBeNull()
+  })
+})
+
+describe('the rows as typed (docs/planner-model.md §6)', () => {
+  const row = (reading: string, positionMm: string) => ({ reading, positionMm })
+
+  it('reads numbers strictly: a decimal comma or a typographic minus, but never "12abc"', () => {
+    expect(parseTypedNumber(' 512 ')).toBe(512)
+    expect(parseTypedNumber('120.5')).toBe(120.5)
+    expect(parseTypedNumber('120,5')).toBe(120.5)
+    expect(parseTypedNumber('−3')).toBe(-3)
+    expect(parseTypedNumber('.5')).toBe(0.5)
+    for (const bad of ['12abc', 'abc', '', '1.2.3', '1,000.5', 'NaN', 'Infinity', '0x10'])
+      expect(parseTypedNumber(bad), bad).toBeNull()
+  })
+
+  it('a non-numeric value is an error on its row, never a silently dropped row', () => {
+    const r = readCalibrationRows([
+      row('102', '40'),
+      row('31O', '120'), // a letter O typed for a zero
+      row('512', ''),
+      row('', ''),
+      row('716', '280'),
+    ])
+    expect(r.pairs).toEqual([
+      { reading: 102, position: 0.04 },
+      { reading: 716, position: 0.28 },
+    ])
+    expect(r.rowOfPair).toEqual([0, 4])
+    expect(r.rowErrors[0]).toBeNull()
+    expect(r.rowErrors[1]).toBe(
+      'Row 2: the ADC reading “31O” is not a number. Type it as digits (like 512 or 120.5), or '
+      + 'remove the row.',
+    )
+    expect(r.rowErrors[2]).toMatch(/^Row 3: the position is missing/)
+    expect(r.rowErrors[3]).toBeNull() // blank: unused, nothing to report
+    expect(r.rowErrors[4]).toBeNull()
+  })
+
+  it('names both problems of a row', () => {
+    expect(readCalibrationRows([row('x', 'y')]).rowErrors[0]).toMatch(
+      /“x” is not a number and the position “y” is not a number/,
+    )
+  })
+})
+
+describe('residuals as a ruler reads them', () => {
+  it('rounds to the nearest half millimetre', () => {
+    const metres = [0.0002, -0.00024, 0.00026, 0.0007, -0.00096, 0.0013, -0.0001]
+    expect(metres.map(rulerMm)).toEqual([0, 0, 0.5, 0.5, -1, 1.5, 0])
+  })
+
+  it('the outlier message gives its distance as a ruler reads it', () => {
+    const pairs = [100, 250, 400, 550, 700, 850].map(reading => ({
+      reading,
+      position: line(reading),
+    }))
+    pairs[2] = { reading: 400, position: line(400) + 0.02 }
+    const issue = fitCalibration(pairs, 10).issues.find(i => i.code === 'outlier')!
+    expect(issue.message).toMatch(/is about \d+(\.5)? mm off the line/)
+  })
+})
+
+describe('using the fit in the plan', () => {
+  // The 10-bit line above: 2560 counts per metre.
+  const pairs = [100, 300, 500, 700, 900].map(reading => ({ reading, position: line(reading) }))
+  const fit = fitCalibration(pairs, 10)
+
+  it('gives the share of the ADC range the rail spans: 2560 counts/m over 0.3 m of 1024', () => {
+    const p = planInputsFromFit(fit, 10, 0.3)
+    expect(p.ok).toBe(true)
+    if (!p.ok) return
+    expect(p.sensorSpanRatio).toBeCloseTo(0.75, 4)
+    expect(p.sensorReversed).toBe(false)
+  })
+
+  it('never caps a share over 1: it says what that means and what to fix', () => {
+    // 2560 counts/m over 0.5 m would be 1.25 of a 10-bit range.
+    const p = planInputsFromFit(fit, 10, 0.5)
+    expect(p.ok).toBe(false)
+    if (p.ok) return
+    expect(p.spanRatio).toBeCloseTo(1.25, 9)
+    expect(p.message).toMatch(/1\.25 times the ADC's whole range/)
+    expect(p.message).toMatch(/sensor length/)
+    expect(p.message).toMatch(/400 mm would fit these readings/) // 1024/2560 m
+    expect(p.message).toMatch(/bits \(10\)/)
+  })
+
+  it('a share just over 1 is measuring error: it uses 1 and says so', () => {
+    const p = planInputsFromFit(fit, 10, 0.404) // 1.01
+    expect(p.ok).toBe(true)
+    if (!p.ok) return
+    expect(p.sensorSpanRatio).toBe(1)
+    expect(p.notes[0]).toMatch(/1\.01 .* within measuring error, so the plan uses 1/)
+  })
+
+  it('carries a backwards track into the plan and the exported reading sign', () => {
+    const back = fitCalibration(
+      [100, 300, 500, 700, 900].map(r => ({ reading: 1023 - r, position: line(r) })),
+      10,
+    )
+    const p = planInputsFromFit(back, 10, 0.4)
+    expect(p.ok).toBe(true)
+    if (!p.ok) return
+    expect(p.sensorReversed).toBe(true)
+    expect(p.notes.join(' ')).toMatch(/reads backwards.*TW_READING_SIGN −1/)
+    const rig = { ...REFERENCE_RIG, sensorReversed: p.sensorReversed }
+    const gains = { kp: 15, kd: 4, ki: 0, n: 10, derivativeOn: 'measurement' as const }
+    expect(firmwareConstants(rig, gains).readingSign).toBe(-1)
+    expect(firmwareConstants(REFERENCE_RIG, gains).readingSign).toBe(1)
+  })
+
+  it('refuses without a line', () => {
+    const p = planInputsFromFit(fitCalibration([{ reading: 300, position: 0.1 }], 10), 10, 0.4)
+    expect(p.ok).toBe(false)
   })
 })

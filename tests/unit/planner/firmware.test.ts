@@ -4,10 +4,12 @@ import {
   beamAngleRange,
   derivativeCoefficients,
   firmwareConstants,
+  plantOf,
   type Gains,
 } from '../../../shared/utils/planner'
 import { DEFAULT_TARGETS, KIT_PRESETS } from '../../../shared/utils/planner/presets'
 import { planGains } from '../../../shared/utils/planner/plan'
+import { definesOf, recipeOf, type Defines } from './recipe'
 
 const rig = REFERENCE_RIG // 50 Hz, 2560 counts/m
 const DEG = 180 / Math.PI
@@ -139,5 +141,95 @@ describe('the exported recipe at power-up', () => {
       const limit = (defines.TW_SERVO_LIMIT_DEG! * n) / defines.TW_SOFT_START!
       expect(Math.abs(v)).toBeLessThanOrEqual(limit + 1e-9)
     })
+  })
+})
+
+describe('a track that reads backwards (the reading sign)', () => {
+  // The kit rig with its track wired end for end: the raw ADC value falls as the ball moves
+  // toward +x. The exported recipe is run on a small-angle ball-and-beam (x'' = K_b·θ, servo lag
+  // τ_s, command written on the next tick), integrated finely between samples.
+  const kit = { ...KIT_PRESETS[0]!.rig, sensorReversed: true }
+  const planned = planGains(kit, DEFAULT_TARGETS).gains!
+  const fw = firmwareConstants(kit, planned)
+  const defines = definesOf(fw)
+  const plant = plantOf(kit)
+  const fullScale = 2 ** kit.adcBits - 1
+
+  function run(overrides: Partial<Defines>) {
+    const recipe = recipeOf(defines, planned.derivativeOn, overrides)
+    const length = plant.sensorLength
+    let x = 0.3 * length
+    let v = 0
+    let theta = 0
+    let held = 0
+    const sub = 50
+    const h = plant.period / sub
+    const setpoint = Math.round(0.5 * length * plant.countsPerMeter)
+    let hitEnd = false
+    let x2s = 0
+    for (let k = 0; k < 5 * kit.loopRate; k++) {
+      const count = Math.min(fullScale, Math.max(0, Math.floor(x * plant.countsPerMeter)))
+      const raw = fullScale - count // wired backwards
+      const servo = recipe.step(raw, setpoint)
+      for (let j = 0; j < sub; j++) {
+        theta += (h * (held - theta)) / plant.servoLag
+        v += h * plant.kb * theta
+        x += h * v
+        if (x < 0 || x > length) {
+          x = Math.min(length, Math.max(0, x))
+          v = 0
+          hitEnd = true
+        }
+      }
+      held = (servo * Math.PI) / 180
+      if (k === 5 * kit.loopRate - 1) x2s = x
+    }
+    return { hitEnd, finalError: Math.abs(x2s - 0.5 * length) }
+  }
+
+  it('carries TW_READING_SIGN = -1 and the full scale into the C block and the JSON', () => {
+    expect(fw.readingSign).toBe(-1)
+    expect(defines.TW_READING_SIGN).toBe(-1)
+    expect(defines.TW_ADC_FULL_SCALE).toBe(1023)
+    expect(fw.cSource).toContain('reading = TW_READING_SIGN > 0 ? raw : TW_ADC_FULL_SCALE - raw;')
+    expect(fw.json.readingSign).toBe(-1)
+    expect(fw.json.adcFullScale).toBe(1023)
+    expect(firmwareConstants(KIT_PRESETS[0]!.rig, planned).json.readingSign).toBe(1)
+  })
+
+  it('holds the ball with the exported constants; without the sign it runs to the end stop', () => {
+    const held = run({})
+    expect(held.hitEnd).toBe(false)
+    expect(held.finalError).toBeLessThan(0.003)
+    const backwards = run({ TW_READING_SIGN: 1 })
+    expect(backwards.hitEnd).toBe(true)
+  })
+})
+
+describe('the servo pulse in microseconds', () => {
+  const kit = KIT_PRESETS[0]!.rig
+  const planned = planGains(kit, DEFAULT_TARGETS).gains!
+  it('exports the centre, trim, µs per degree and limit; every C line fits 78 characters', () => {
+    const degreeRig = { ...kit, sensorReversed: true, servoResolution: 'degree' as const }
+    for (const rig of [kit, degreeRig]) {
+      const fw = firmwareConstants(rig, planned)
+      const d = definesOf(fw)
+      expect(d.TW_SERVO_CENTER_US).toBe(1500)
+      expect(d.TW_SERVO_TRIM_US).toBe(0)
+      expect(d.TW_US_PER_DEG).toBeCloseTo(1000 / 90, 4)
+      expect(d.TW_SERVO_LIMIT_US).toBeCloseTo(fw.servoLimitDeg * (1000 / 90), 2)
+      expect(fw.json.servoLimitUs).toBeCloseTo(fw.servoLimitDeg * (1000 / 90), 9)
+      for (const line of fw.cSource.split('\n')) expect(line.length).toBeLessThanOrEqual(78)
+    }
+    const custom = firmwareConstants({ ...kit, servoCenterUs: 1520, servoUsPerDeg: 10 }, planned)
+    expect(custom.json.servoCenterUs).toBe(1520)
+    expect(recipeOf(definesOf(custom), 'measurement').pulse(-12.34)).toBe(1520 - 123)
+  })
+
+  it('writes whole degrees when the servo library takes degrees', () => {
+    const fw = firmwareConstants({ ...kit, servoResolution: 'degree' }, planned)
+    expect(fw.cSource).toMatch(/servo\.write\(90 \+ round\(servo\)\)/)
+    expect(fw.json.servoResolution).toBe('degree')
+    expect(firmwareConstants(kit, planned).cSource).toMatch(/writeMicroseconds/)
   })
 })

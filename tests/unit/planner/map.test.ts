@@ -186,7 +186,7 @@ describe('stabilityMap (docs/planner-model.md §9)', () => {
     let checked = 0
     for (let j = 8; j < 100; j += 20) {
       for (let i = 8; i < 100; i += 20) {
-        const gm = map.gainMarginDb[j]![i]
+        const gm = map.gainMarginDb[j]![i] ?? null
         if (!map.stable[j]![i] || gm === null) continue
         // Scaling Kp and Kd together keeps T_f = Kd/(N·Kp), so this is the loop gain alone.
         const k = 10 ** (gm / 20)

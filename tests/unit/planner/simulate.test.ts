@@ -5,6 +5,7 @@ import { Solver } from 'odex'
 import { REFERENCE_RIG, REFERENCE_TARGETS } from './fixtures'
 import { describe, expect, it } from 'vitest'
 import {
+  actuatorOf,
   analyzeLoop,
   beamAngleRange,
   filterTimeConstant,
@@ -18,7 +19,10 @@ import {
   simulate,
   type Gains,
   type Rig,
+  firmwareConstants,
 } from '../../../shared/utils/planner'
+import { DEFAULT_TARGETS, KIT_PRESETS } from '../../../shared/utils/planner/presets'
+import { definesOf, recipeOf } from './recipe'
 
 const rig: Rig = REFERENCE_RIG
 const plan = planGains(rig, REFERENCE_TARGETS)
@@ -78,6 +82,8 @@ describe('nonlinear simulation', () => {
         quantize: false,
         subSteps: 20,
         outputEvery: 5,
+        softStart: false,
+        actuator: false,
       })
       expect(sim.events.slewLimited).toBe(true)
 
@@ -134,7 +140,10 @@ describe('nonlinear simulation', () => {
     const sim = simulate(rig, hot, { initialPosition: 0.05, setpoint: 0.35, setpointTime: 0 })
     const usable = beamAngleRange(rig).maxAtServoAngle
     expect(sim.events.travelSaturated).toBe(true)
-    expect(Math.max(...sim.command)).toBeLessThanOrEqual(usable + 1e-12)
+    // The clamped command is then written as a whole-µs pulse, so it may pass by half a µs.
+    const halfStep = actuatorOf(rig).stepRad / 2
+    expect(Math.max(...sim.command)).toBeLessThanOrEqual(usable + halfStep + 1e-12)
+    expect(Math.max(...sim.command)).toBeGreaterThan(usable - halfStep)
   })
 
   it('P only runs away and hits the beam end', () => {
@@ -231,5 +240,114 @@ describe('sampled step metrics', () => {
       y = s.solve((_t, z) => [z[1]!, plant.kb * z[2]!, (c - z[2]!) / plant.servoLag], 0, y, T).y
       held = u
     }
+  })
+})
+
+describe('the drawn response runs the exported recipe', () => {
+  const kit = KIT_PRESETS[0]!.rig
+  const kitGains = planGains(kit, DEFAULT_TARGETS).gains!
+  const p = plantOf(kit)
+  const DEG = 180 / Math.PI
+  const start = { initialPosition: 0.32, setpoint: 0.18, setpointTime: 0, duration: 1.2 }
+
+  it('eases the command in and matches the recipe\'s arithmetic sample by sample', () => {
+    const sim = simulate(kit, kitGains, { ...start, actuator: false })
+    const recipe = recipeOf(definesOf(firmwareConstants(kit, kitGains)), kitGains.derivativeOn)
+    const perSample = 4 // subSteps 20, output every 5
+    const soft = firmwareConstants(kit, kitGains).softStartSamples
+    expect(soft).toBe(25)
+    for (let k = 0; k < 40; k++) {
+      const count = Math.floor(sim.x[perSample * k]! * p.countsPerMeter)
+      const servo = recipe.step(count, 0.18 * p.countsPerMeter - 0.5)
+      // the command of sample k is held over the next sample
+      expect(sim.command[perSample * (k + 1)]! * DEG).toBeCloseTo(servo, 4)
+    }
+    // Without the soft start the first command is the full proportional one: 25 times larger.
+    const hard = simulate(kit, kitGains, { ...start, actuator: false, softStart: false })
+    expect(hard.command[perSample]! / sim.command[perSample]!).toBeCloseTo(soft, 9)
+  })
+
+  it('writes the same whole-µs pulses as the recipe', () => {
+    const sim = simulate(kit, kitGains, start)
+    const recipe = recipeOf(definesOf(firmwareConstants(kit, kitGains)), kitGains.derivativeOn)
+    const usPerRad = actuatorOf(kit).usPerRad
+    for (let k = 0; k < 40; k++) {
+      const count = Math.floor(sim.x[4 * k]! * p.countsPerMeter)
+      const pulse = recipe.pulse(recipe.step(count, 0.18 * p.countsPerMeter - 0.5))
+      expect(1500 + sim.command[4 * (k + 1)]! * usPerRad).toBeCloseTo(pulse, 6)
+    }
+  })
+})
+
+describe('the actuator: output steps, frames and deadband', () => {
+  const kit = KIT_PRESETS[2]!.rig
+  const kitGains = planGains(kit, DEFAULT_TARGETS).gains!
+  const DEG = Math.PI / 180
+
+  it('a deadband makes the ball hunt around the setpoint; none does not', () => {
+    const still = simulate({ ...kit, servoDeadbandUs: 0 }, kitGains)
+    const sticky = simulate({ ...kit, servoDeadbandUs: 15 }, kitGains)
+    expect(still.events.hunting).toBe(false)
+    expect(sticky.events.hunting).toBe(true)
+    const swing = (r: typeof still) => {
+      const i = r.t.findIndex(t => t >= 6)
+      const e = r.x.slice(i).map((x, j) => x - r.setpoint[i + j]!)
+      return Math.max(...e) - Math.min(...e)
+    }
+    expect(swing(sticky)).toBeGreaterThan(3 * swing(still))
+    // without the actuator model the same rig shows no hunting at all
+    expect(simulate({ ...kit, servoDeadbandUs: 15 }, kitGains, { actuator: false }).events.hunting)
+      .toBe(false)
+  })
+
+  it('writes whole degrees or whole microseconds', () => {
+    const us = simulate({ ...kit, servoResolution: 'microsecond' }, kitGains, { duration: 3 })
+    const deg = simulate({ ...kit, servoResolution: 'degree' }, kitGains, { duration: 3 })
+    const usStep = DEG / (1000 / 90)
+    const offGrid = (c: number, step: number) => Math.abs(c / step - Math.round(c / step))
+    for (const c of us.command) expect(offGrid(c, usStep)).toBeLessThan(1e-6)
+    for (const c of deg.command) expect(offGrid(c, DEG)).toBeLessThan(1e-9)
+    // degree steps are coarser: fewer distinct commands
+    expect(new Set(deg.command).size).toBeLessThan(new Set(us.command).size)
+  })
+
+  it('the servo takes a new pulse only at its frames', () => {
+    // a 100 Hz loop driving a 50 Hz servo: every other command is never seen
+    const fast = { ...kit, loopRate: 100, servoFrameHz: 50 }
+    const g = planGains(fast, DEFAULT_TARGETS).gains!
+    const sim = simulate(fast, g, { duration: 2, subSteps: 10, outputEvery: 1 })
+    const tau = plantOf(fast).servoLag
+    // within a 20 ms frame the servo heads for one target: θ' ·τ + θ is constant
+    const frameOf = (t: number) => Math.floor(t * 50 + 1e-9)
+    const aim = (i: number) => {
+      const th = sim.servoAngle
+      return th[i]! + (tau * (th[i + 1]! - th[i - 1]!)) / (sim.t[i + 1]! - sim.t[i - 1]!)
+    }
+    let worst = 0
+    let checked = 0
+    let moved = 0
+    for (let i = 2; i + 2 < sim.t.length; i++) {
+      if (sim.t[i]! < 0.1 || frameOf(sim.t[i - 1]!) !== frameOf(sim.t[i + 2]!)) continue
+      worst = Math.max(worst, Math.abs(aim(i) - aim(i + 1)))
+      moved = Math.max(moved, Math.abs(sim.servoAngle[i + 1]! - sim.servoAngle[i]!))
+      checked++
+    }
+    expect(checked).toBeGreaterThan(100)
+    expect(moved).toBeGreaterThan(1e-4)
+    expect(worst).toBeLessThan(moved / 20)
+  })
+
+  it('scales the plant gain and the servo lag, and adds whole samples of delay', () => {
+    const base = simulate(kit, kitGains, { duration: 2, actuator: false })
+    const late = simulate(kit, kitGains, { duration: 2, actuator: false, extraDelaySamples: 1 })
+    // the held command arrives one sample (4 output points) later: the first commands, before
+    // the ball has moved by an ADC count, are the same ones shifted
+    for (let i = 0; i < 8; i++) expect(late.command[i]).toBe(0)
+    for (let i = 4; i < 12; i++) expect(late.command[i + 4]).toBe(base.command[i])
+    expect(base.command[8]).not.toBe(0)
+    const hot = simulate(kit, kitGains, { duration: 2, actuator: false, kbScale: 1.3 })
+    const slow = simulate(kit, kitGains, { duration: 2, actuator: false, servoLagScale: 1.3 })
+    expect(hot.x).not.toEqual(base.x)
+    expect(slow.servoAngle[20]).not.toBeCloseTo(base.servoAngle[20]!, 9)
   })
 })

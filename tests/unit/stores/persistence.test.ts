@@ -108,6 +108,46 @@ describe('planner store', () => {
   })
 })
 
+describe('planner store, a saved draft the planner refuses', () => {
+  it('does not restore a 5000 Hz loop rate and names the range, before and after a reload', () => {
+    const draft = usePlannerStore()
+    draft.form.beamLengthMm = 450
+    draft.form.loopRateHz = 5000
+    reload()
+    const store = usePlannerStore()
+    // The kit's own values, not the refused draft (none of it: the beam length too).
+    expect(store.form.loopRateHz).toBe(KIT_PRESETS[0]!.rig.loopRate)
+    expect(store.form.beamLengthMm).toBe(KIT_PRESETS[0]!.rig.beamLength * 1000)
+    expect(store.refusedDraft).toEqual([expect.stringMatching(/Loop rate must be at most 1000 Hz/)])
+    // The refused draft is gone from storage: the next reload starts clean, without the notice.
+    expect(localStorage.getItem(PLANNER)).toBeNull()
+    reload()
+    expect(usePlannerStore().form.loopRateHz).toBe(KIT_PRESETS[0]!.rig.loopRate)
+    expect(usePlannerStore().refusedDraft).toBeNull()
+  })
+
+  it('gives an old draft without the servo and sensor details their defaults', () => {
+    const {
+      sensorReversed: _r,
+      servoCenterUs: _c,
+      servoResolution: _s,
+      adcNoiseCounts: _n,
+      ...old
+    } = { ...usePlannerStore().form, beamLengthMm: 420 }
+    localStorage.setItem(PLANNER, JSON.stringify({ form: old }))
+    reload()
+    const store = usePlannerStore()
+    expect(store.refusedDraft).toBeNull()
+    expect(store.form).toMatchObject({
+      beamLengthMm: 420,
+      sensorReversed: false,
+      servoCenterUs: null,
+      servoResolution: 'microsecond',
+      adcNoiseCounts: null,
+    })
+  })
+})
+
 describe('planner store, planning for a rig (?rig=)', () => {
   const benchRig = { id: 3, name: 'Tall Tower', serial: 'TW-10001-03', groupLabel: 'Bench 2' }
   const rigValues = (d: PlannerDraft): PlannerDraft => ({
