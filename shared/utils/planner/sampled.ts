@@ -545,10 +545,11 @@ export function settleBound(loop: SampledLoop, scale: Float64Array): SettleBound
 /**
  * Step response metrics of the sampled loop for a unit setpoint step at t = 0.
  * Stops as soon as settleBound proves that nothing later can change them: no later excursion
- * leaves the 2 % band (between samples too), rises above the peak found (or changes a zero
- * overshoot by 1e−9 %), or exceeds the peak command and servo speed found. The metrics are then
- * exactly those of stepping on for ever. Otherwise it stops at the horizon, where a response
- * counts as settled only if it has stayed inside three times as long as it took to get there.
+ * leaves the 2 % band (between samples too), rises above the peak found, or exceeds the peak
+ * command and servo speed found; a response with no overshoot so far is proven to stay below
+ * 1e−7 percentage points of overshoot. The metrics are then those of stepping on for ever.
+ * Otherwise it stops at the horizon, where a response counts as settled only if it has stayed
+ * inside three times as long as it took to get there.
  */
 export function sampledStepMetrics(loop: SampledLoop, opts: StepOptions = {}): StepMetrics {
   const { kb, period: T, kp } = loop
@@ -646,7 +647,7 @@ export function sampledStepMetrics(loop: SampledLoop, opts: StepOptions = {}): S
       const rateReach = ((r * wc * wc) / kb) * Math.sqrt(bound.gRate)
       if (
         xReach < BAND
-        && (xMax >= 1 + xReach || 100 * xReach < 1e-9)
+        && (xMax >= 1 + xReach || 100 * xReach < 1e-7)
         && uReach <= peakCommand
         && (a === Infinity || rateReach * a <= peakServoRate)
       ) {
