@@ -2,12 +2,7 @@
 // the sampled loop the firmware runs; the continuous stand-in (the loop with its 1.5·T delay) is
 // kept as a secondary line.
 import { filterTimeConstant } from './design'
-import {
-  analyzeFrequency,
-  closedLoopBandwidth,
-  type LoopParams,
-  type PlantTable,
-} from './frequency'
+import { analyzeFrequency, closedLoopBandwidth, type LoopParams } from './frequency'
 import { fmt } from './format'
 import { plantOf, type Plant } from './plant'
 import {
@@ -133,24 +128,6 @@ const UNSTABLE_STEP: LoopAnalysis['step'] = {
   peakTime: null,
   peakCommandPerMeter: null,
   peakServoRatePerMeter: null,
-}
-
-/** Frequency-domain verdict only (no step simulation): what a stability map needs per cell. */
-export function quickVerdict(
-  loop: LoopParams,
-  sampled: SampledLoop,
-  table?: PlantTable,
-  plantW?: { num: number[], den: number[] },
-) {
-  const f = analyzeFrequency(loop, table)
-  const sampledOk = diskStable(sampledCharacteristicW(sampled, plantW))
-  const stable
-    = f.nyquistStable
-      && sampledOk
-      && (f.gainMarginDb === null || f.gainMarginDb > 0)
-      && f.phaseMarginDeg !== null
-      && f.phaseMarginDeg > 0
-  return { f, sampledOk, stable }
 }
 
 export function analyzePlantLoop(
