@@ -80,7 +80,11 @@ export interface LoopAnalysis {
 export interface AnalyzeOptions {
   /** How the firmware discretises the derivative; backward Euler by default. */
   discretization?: Discretization
-  /** Whole extra samples of delay in the sampled loop (stability, margins, step); default 0. */
+  /**
+   * Whole extra samples of delay in the sampled loop (stability, margins, step); default 0. Meant
+   * for a few samples (the what-if envelope uses one): the root test expands (w + 1)^m, which
+   * loses precision past a few tens.
+   */
   extraDelaySamples?: number
   /** Step simulation horizon, s (see StepOptions.horizon). */
   horizon?: number
