@@ -66,7 +66,7 @@ function median(xs: number[]): number {
 
 /** Median over `outer` rounds of the mean time of `inner` calls, ms per call. */
 function time(fn: () => unknown, inner: number, outer: number): number {
-  for (let i = 0; i < inner; i++) fn()
+  for (let i = 0; i < Math.max(inner, 5); i++) fn()
   const rounds: number[] = []
   for (let r = 0; r < outer; r++) {
     const t0 = performance.now()

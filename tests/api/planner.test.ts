@@ -45,10 +45,24 @@ describe('planner API (anonymous)', () => {
     const f = r.body.data.fields
     expect(f['rig.beamLength']).toMatch(/Beam length.*greater than 0/)
     expect(f['rig.leverArm']).toMatch(/number/)
-    expect(f['rig.loopRate']).toMatch(/Loop rate.*greater than 0/)
+    expect(f['rig.loopRate']).toMatch(/Loop rate.*at least 10 Hz/)
     expect(f['rig.drive']).toMatch(/Drive/)
     expect(f['targets.form']).toMatch(/Controller form/)
     expect(f['targets.overshootPct']).toMatch(/Overshoot/)
+  })
+
+  it('refuses a loop rate and a settling time beyond what the kits build, saying why', async () => {
+    for (const route of ['/api/planner/plan', '/api/planner/analyze']) {
+      const body = route.endsWith('plan')
+        ? { rig: { ...rig, loopRate: 100_000 }, targets: { ...targets, settlingTime: 600 } }
+        : { rig: { ...rig, loopRate: 20_000 }, gains: { kp: 1, kd: 0.5, ki: 0, n: 10,
+            derivativeOn: 'measurement' } }
+      const r = await new Client().post(route, body, { csrf: false })
+      expect(r.status).toBe(422)
+      const f = r.body.data.fields
+      expect(f['rig.loopRate']).toMatch(/Loop rate \(loopRate\) must be at most 1000 Hz: a hobby/)
+      if (route.endsWith('plan')) expect(f['targets.settlingTime']).toMatch(/Settling time.*60/)
+    }
   })
 
   it(

@@ -5,6 +5,8 @@
 // tests/.artifacts/planner-bench/ for a person to look at.
 import { describe, expect, it } from 'vitest'
 import { artifacts, gotoReady, launchForFile } from '../helpers/browser'
+import { DEFAULT_TARGETS, KIT_PRESETS, planGains } from '../../shared/utils/planner'
+import { simulatedLog } from '../unit/planner/runs'
 
 const browser = await launchForFile()
 const { shot } = artifacts('planner-bench')
@@ -152,9 +154,13 @@ describe('Gain Planner on the bench', () => {
         await details.getByLabel('Sensor noise (counts)').fill('3')
         await page.getByTestId('toggle-envelope').check()
         await page.getByTestId('planner-glossary').getByText('Extra delay tolerated').waitFor()
-        await page.locator('#loop-view-heading').waitFor()
-        await page.locator('#jitter-heading').waitFor()
-        await page.locator('#measured-heading').waitFor()
+        await page.getByTestId('what-if-envelope').waitFor()
+        await page.getByTestId('loop-view').waitFor()
+        // The jitter panel follows the noise typed in the details.
+        await expect.poll(() => page.getByTestId('servo-jitter').textContent()).toMatch(
+          /3 counts of noise/,
+        )
+        await page.getByTestId('measured-run').waitFor()
         await expect.poll(() => page.getByTestId('planner-busy').textContent()).toBe('')
         expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(
           viewport.width,
@@ -172,6 +178,29 @@ describe('Gain Planner on the bench', () => {
     const gear = page.getByLabel('Gear reduction (: 1)')
     await expect.poll(() => gear.inputValue()).toBe('1')
     expect(await page.locator('#gearRatio-error').count()).toBe(0)
+    await page.close()
+  })
+
+  it('fits a measured run and puts the corrected servo speed in the form', async () => {
+    // A run logged on a kit rig whose servo is slower than its data sheet says (0.24 s per 60°
+    // where the form has 0.16), with the kit's suggested gains.
+    const kit = KIT_PRESETS[0]!.rig
+    const gains = planGains(kit, DEFAULT_TARGETS).gains!
+    const log = simulatedLog({ ...kit, servoSecondsPer60: 0.24 }, gains, { noiseCounts: 1 })
+    const page = await browser.newPage({ viewport: { width: 1280, height: 800 } })
+    await gotoReady(page, '/planner')
+    await page.getByTestId('kp').waitFor()
+    await page.getByTestId('measured-run-file').setInputFiles({
+      name: 'run.csv',
+      mimeType: 'text/csv',
+      buffer: Buffer.from(log),
+    })
+    await page.getByTestId('measured-run-fit').waitFor()
+    await page.getByRole('button', { name: 'Use these values' }).click()
+    const speed = page.getByLabel('Servo speed (s per 60°)')
+    await expect.poll(async () => Number(await speed.inputValue())).toBeGreaterThan(0.2)
+    expect(Number(await speed.inputValue())).toBeLessThan(0.28)
+    await shot(page, 'measured-run-desktop')
     await page.close()
   })
 })
