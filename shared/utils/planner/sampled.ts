@@ -492,7 +492,7 @@ export function settleBound(loop: SampledLoop, scale: Float64Array): SettleBound
   const probe = new LoopStepper(loop)
   const n = probe.size
   // A column by column: one step from each scaled unit deviation.
-  let a = new Float64Array(n * n)
+  let a: Float64Array = new Float64Array(n * n)
   const e = new Float64Array(n)
   const out = new Float64Array(n)
   for (let j = 0; j < n; j++) {
@@ -512,7 +512,7 @@ export function settleBound(loop: SampledLoop, scale: Float64Array): SettleBound
     }
   }
   // Smith's doubling: P_{2m} = P_m + (A^m)ᵀ P_m A^m, A^{2m} = (A^m)².
-  let p = new Float64Array(n * n)
+  let p: Float64Array = new Float64Array(n * n)
   for (let i = 0; i < n; i++) p[i * n + i] = 1
   for (let it = 0; it < 64; it++) {
     let norm = 0

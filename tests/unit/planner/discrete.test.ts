@@ -59,8 +59,8 @@ function expm(m: number[][]): number[][] {
   const norm = Math.max(...m.map(r => r.reduce((a, v) => a + Math.abs(v), 0)))
   while (norm / 2 ** s > 0.1) s++
   const a = m.map(r => r.map(v => v / 2 ** s))
-  let term = a.map((r, i) => r.map((_, j) => (i === j ? 1 : 0)))
-  let sum = term.map(r => r.slice())
+  let term: number[][] = a.map((r, i) => r.map((_, j) => (i === j ? 1 : 0)))
+  let sum: number[][] = term.map(r => r.slice())
   for (let k = 1; k < 30; k++) {
     term = mul(term, a).map(r => r.map(v => v / k))
     sum = sum.map((r, i) => r.map((v, j) => v + term[i]![j]!))
