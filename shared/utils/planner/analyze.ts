@@ -2,12 +2,7 @@
 // the sampled loop the firmware runs; the continuous stand-in (the loop with its 1.5·T delay) is
 // kept as a secondary line.
 import { filterTimeConstant } from './design'
-import {
-  analyzeFrequency,
-  closedLoopBandwidth,
-  type LoopParams,
-  type PlantTable,
-} from './frequency'
+import { analyzeFrequency, closedLoopBandwidth, type LoopParams } from './frequency'
 import { fmt } from './format'
 import { plantOf, type Plant } from './plant'
 import {
@@ -85,7 +80,11 @@ export interface LoopAnalysis {
 export interface AnalyzeOptions {
   /** How the firmware discretises the derivative; backward Euler by default. */
   discretization?: Discretization
-  /** Whole extra samples of delay in the sampled loop (stability, margins, step); default 0. */
+  /**
+   * Whole extra samples of delay in the sampled loop (stability, margins, step); default 0. Meant
+   * for a few samples (the what-if envelope uses one): the root test expands (w + 1)^m, which
+   * loses precision past a few tens.
+   */
   extraDelaySamples?: number
   /** Step simulation horizon, s (see StepOptions.horizon). */
   horizon?: number
@@ -133,24 +132,6 @@ const UNSTABLE_STEP: LoopAnalysis['step'] = {
   peakTime: null,
   peakCommandPerMeter: null,
   peakServoRatePerMeter: null,
-}
-
-/** Frequency-domain verdict only (no step simulation): what a stability map needs per cell. */
-export function quickVerdict(
-  loop: LoopParams,
-  sampled: SampledLoop,
-  table?: PlantTable,
-  plantW?: { num: number[], den: number[] },
-) {
-  const f = analyzeFrequency(loop, table)
-  const sampledOk = diskStable(sampledCharacteristicW(sampled, plantW))
-  const stable
-    = f.nyquistStable
-      && sampledOk
-      && (f.gainMarginDb === null || f.gainMarginDb > 0)
-      && f.phaseMarginDeg !== null
-      && f.phaseMarginDeg > 0
-  return { f, sampledOk, stable }
 }
 
 export function analyzePlantLoop(

@@ -1,4 +1,4 @@
-// The bring-up (docs/planner-model.md §5): the ordered first power-up of a rig with the planned
+// The bring-up (docs/planner-model.md §12): the ordered first power-up of a rig with the planned
 // constants, shown in the firmware panel and on the printed sheet. Each step names the constant
 // it touches (TW_SERVO_TRIM_US, TW_READING_SIGN, TW_KP, TW_D_B, TW_KI_T) with the numbers of this
 // plan, and says where hands or the ball can get hurt.

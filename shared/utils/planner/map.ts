@@ -139,7 +139,7 @@ function bilinearMatrix(n: number): Float64Array {
     let binom = 1
     const rest = n - i
     for (let j = 0; j <= rest; j++) {
-      m[(n - (i + j)) * (n + 1) + i] += j % 2 === 0 ? pow2 * binom : -pow2 * binom
+      m[(n - (i + j)) * (n + 1) + i]! += j % 2 === 0 ? pow2 * binom : -pow2 * binom
       binom = (binom * (rest - j)) / (j + 1)
     }
     pow2 *= 2

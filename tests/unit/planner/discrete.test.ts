@@ -59,8 +59,8 @@ function expm(m: number[][]): number[][] {
   const norm = Math.max(...m.map(r => r.reduce((a, v) => a + Math.abs(v), 0)))
   while (norm / 2 ** s > 0.1) s++
   const a = m.map(r => r.map(v => v / 2 ** s))
-  let term = a.map((r, i) => r.map((_, j) => (i === j ? 1 : 0)))
-  let sum = term.map(r => r.slice())
+  let term: number[][] = a.map((r, i) => r.map((_, j) => (i === j ? 1 : 0)))
+  let sum: number[][] = term.map(r => r.slice())
   for (let k = 1; k < 30; k++) {
     term = mul(term, a).map(r => r.map(v => v / k))
     sum = sum.map((r, i) => r.map((v, j) => v + term[i]![j]!))
@@ -177,6 +177,32 @@ describe('the sampled loop\'s margins (docs/planner-model.md §4)', () => {
       expect(plan.analysis!.phaseMarginDeg!).toBeCloseTo(brutePhaseMargin(rig, plan.gains!), 1)
     })
   }
+
+  it('Ms matches a brute-force evaluation; the delay margin counts whole extra samples', () => {
+    for (const [, rig, targets] of CASES) {
+      const plan = planGains(rig, targets)
+      const a = plan.analysis!
+      const L = bruteLoop(rig, plan.gains!)
+      const top = Math.PI * rig.loopRate
+      let ms = 0
+      for (let k = 1; k <= 200_000; k++) {
+        const l = L((top * k) / 200_000)
+        ms = Math.max(ms, 1 / Math.hypot(1 + l[0], l[1]))
+      }
+      expect(a.sensitivityPeak!).toBeGreaterThanOrEqual(ms * (1 - 1e-9))
+      expect(a.sensitivityPeak!).toBeCloseTo(ms, 4)
+    }
+    // m more samples rotate L by exactly ω·m·T on the unit circle: a delay of m·T. (At 200 Hz
+    // the margin is about 80 samples, past where (w + 1)^m keeps its precision.)
+    for (const [, rig, targets] of CASES.slice(0, 3)) {
+      const plan = planGains(rig, targets)
+      const a = plan.analysis!
+      const T = 1 / rig.loopRate
+      const m = Math.floor(a.delayMargin! / T)
+      expect(analyzeLoop(rig, plan.gains!, { extraDelaySamples: m }).sampledStable).toBe(true)
+      expect(analyzeLoop(rig, plan.gains!, { extraDelaySamples: m + 1 }).sampledStable).toBe(false)
+    }
+  })
 
   it('warns on the sampled loop\'s gain margin where the continuous one looks safe', () => {
     const plan = planGains(SLOW_RIG, SLOW_TARGETS)

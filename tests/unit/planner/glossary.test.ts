@@ -1,4 +1,4 @@
-// The glossary explains every result the planner shows (docs/planner-model.md §10).
+// The glossary explains every result the planner shows (docs/planner-model.md §13).
 import { describe, expect, it } from 'vitest'
 import { PLANNER_GLOSSARY } from '../../../shared/utils/planner-glossary'
 

@@ -62,7 +62,7 @@ describe('loopView', () => {
   })
 })
 
-describe('bringUpSteps (docs/planner-model.md §5)', () => {
+describe('bringUpSteps (docs/planner-model.md §12)', () => {
   const plan = planGains(REFERENCE_RIG, { ...REFERENCE_TARGETS, form: 'PID' })
   const f = plan.firmware!
   const steps = bringUpSteps(REFERENCE_RIG, plan.gains!, f)

@@ -6,6 +6,7 @@ import { describe, expect, it } from 'vitest'
 import {
   analyzeFrequency,
   analyzeLoop,
+  designGains,
   diskStable,
   hurwitzStable,
   loopParamsOf,
@@ -39,11 +40,18 @@ describe('margins and step metrics equal the straightforward versions', () => {
         if (!plan.feasible) return
         const plant = plantOf(rig)
         const a = plan.analysis!
+        // the continuous stand-in's margins (the secondary line), against the reference
+        const f = analyzeFrequency(loopParamsOf(plant, plan.gains!))
         const ref = referenceMargins(loopParamsOf(plant, plan.gains!), 1e-3, 1e5)
-        expect(a.phaseMarginDeg!).toBeCloseTo(ref.phaseMarginDeg!, 6)
-        expect(a.gainCrossover!).toBeCloseTo(ref.gainCrossover!, 6)
-        expect(a.gainMarginDb!).toBeCloseTo(ref.gainMarginDb!, 6)
-        expect(a.phaseCrossover!).toBeCloseTo(ref.phaseCrossover!, 5)
+        expect(f.phaseMarginDeg!).toBeCloseTo(ref.phaseMarginDeg!, 6)
+        expect(f.gainCrossover!).toBeCloseTo(ref.gainCrossover!, 6)
+        expect(f.gainMarginDb!).toBeCloseTo(ref.gainMarginDb!, 6)
+        expect(f.phaseCrossover!).toBeCloseTo(ref.phaseCrossover!, 5)
+        expect(a.continuous).toEqual({
+          gainMarginDb: f.gainMarginDb,
+          phaseMarginDeg: f.phaseMarginDeg,
+          delayMargin: f.delayMargin,
+        })
         const horizon = Math.min(60, 40 * targets.settlingTime)
         const step = referenceStep(sampledLoopOf(plant, plan.gains!), horizon, 40)
         // sub-steps of T/40 miss the true peak by at most ½·ẍ·(T/80)²
@@ -157,7 +165,8 @@ describe('sampled-loop stability', () => {
         adcBits: 12,
       }
       const plant = plantOf(rig)
-      const plan = planGains(rig, {
+      // the §3 placement itself (planGains would go on to refine it, §8)
+      const d = designGains(plant, {
         overshootPct: 5,
         settlingTime: 25,
         form: 'PID',
@@ -165,15 +174,22 @@ describe('sampled-loop stability', () => {
         method: 'lag-aware',
         derivativeOn: 'measurement',
       })
-      expect(plan.feasible).toBe(true)
-      const loop = sampledLoopOf(plant, plan.gains!)
+      expect(d.feasible).toBe(true)
+      const gains: Gains = {
+        kp: d.kp!,
+        kd: d.kd!,
+        ki: d.ki!,
+        n: 15,
+        derivativeOn: 'measurement',
+      }
+      const loop = sampledLoopOf(plant, gains)
       const w = sampledCharacteristicW(loop)
       expect(maxRootModulus(w)).toBeLessThan(1)
       expect(diskStable(w)).toBe(true)
       // the z-form's rounding, not the loop
       expect(schurStable(sampledCharacteristic(loop))).toBe(false)
       // and the loop really does settle
-      expect(plan.analysis!.step.settlingTime).not.toBeNull()
+      expect(analyzeLoop(rig, gains).step.settlingTime).not.toBeNull()
     })
 
   it('Routh–Hurwitz on known polynomials', () => {
@@ -213,6 +229,10 @@ describe('analyzeLoop', () => {
     const unstable = analyzeLoop(rig, { kp: 7.2, kd: 0, ki: 0, n: 10, derivativeOn: 'measurement' })
     expect(unstable.stable).toBe(false)
     expect(unstable.step.overshootPct).toBeNull()
-    expect(unstable.delayMargin).toBe(0)
+    // an unstable loop shows no margin, and says why
+    expect(unstable.delayMargin).toBeNull()
+    expect(unstable.phaseMarginDeg).toBeNull()
+    expect(unstable.gainMarginDb).toBeNull()
+    expect(unstable.explanation).toMatch(/derivative/)
   })
 })
