@@ -11,6 +11,7 @@
 // that is not quite level at 0 (the trim), reported as an offset. Without the command the fit
 // runs the closed loop with the gains (simulate) and adjusts s and τ_s by Levenberg–Marquardt.
 import { plantOf } from './plant'
+import { goldenMinimum } from './search'
 import type { Gains, Rig } from './schema'
 import { linkageOf, servoAngleAt, simulate, type SimulateOptions } from './simulate'
 
@@ -330,29 +331,9 @@ function fitByReplay(rig: Rig, gains: Gains, run: readonly RunSample[]): RunFit 
       best = k
     }
   }
-  let a = lo + ((hi - lo) * Math.max(0, best - 1)) / steps
-  let b = lo + ((hi - lo) * Math.min(steps, best + 1)) / steps
-  const g = (Math.sqrt(5) - 1) / 2
-  let c1 = b - g * (b - a)
-  let c2 = a + g * (b - a)
-  let f1 = cost(c1)
-  let f2 = cost(c2)
-  while (b - a > 2e-3) {
-    if (f1 < f2) {
-      b = c2
-      c2 = c1
-      f2 = f1
-      c1 = b - g * (b - a)
-      f1 = cost(c1)
-    } else {
-      a = c1
-      c1 = c2
-      f1 = f2
-      c2 = a + g * (b - a)
-      f2 = cost(c2)
-    }
-  }
-  const tau = Math.exp((a + b) / 2)
+  const a = lo + ((hi - lo) * Math.max(0, best - 1)) / steps
+  const b = lo + ((hi - lo) * Math.min(steps, best + 1)) / steps
+  const tau = Math.exp(goldenMinimum(cost, a, b, 2e-3))
   const response = responseAt(tau)
   const fit = linearFit([ones, lin, quad, response], y)!
   const [x0, v0, q, scale] = fit.coef as [number, number, number, number]
