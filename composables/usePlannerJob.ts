@@ -25,7 +25,7 @@ function workerFor(name: PlannerJobName) {
   if (!w) {
     let worker: Worker | null = null
     try {
-      // Literal options: Vite finds the worker by this exact shape and bundles it.
+      // Literal, static options: Vite finds the worker by this exact shape and bundles it.
       worker = new Worker(new URL('../workers/planner.worker.ts', import.meta.url), {
         type: 'module',
       })

@@ -100,8 +100,21 @@ describe('Gain Planner on the bench', () => {
       'p-only',
       'suggested',
     ])
-    const panel = page.locator('section', { has: page.locator('#firmware-heading') })
-    expect(await panel.getByText('Keep fingers clear of the horn').isVisible()).toBe(true)
+    // The steps come with their cautions where hands go near the linkage.
+    const list = page.locator('section', { has: page.locator('#firmware-heading') })
+      .getByTestId('bring-up')
+    expect(await list.locator('[data-step="neutral"]').textContent()).toMatch(/Caution:/)
+    expect(await list.textContent()).toMatch(/TW_SERVO_TRIM_US/)
+    // On paper: only the sheet, with the rig, the constants and the same steps.
+    const sheet = page.getByTestId('print-sheet')
+    expect(await sheet.isVisible()).toBe(false)
+    await page.emulateMedia({ media: 'print' })
+    expect(await sheet.isVisible()).toBe(true)
+    expect(await page.getByTestId('planner-verdict').isVisible()).toBe(false)
+    const paper = (await sheet.textContent())!
+    expect(paper).toMatch(/Beam length\s*400 mm/)
+    expect(paper).toContain('#define TW_KP')
+    expect(await sheet.getByTestId('bring-up').locator('li').count()).toBe(4)
     await page.close()
   })
 
