@@ -353,16 +353,25 @@ export function simulate(rig: Rig, gains: Gains, options: SimulateOptions = {}):
   }
   record(samples * T, x, v, th, samples * T < tChange ? r0 : r1, held)
   out.events.linkageLimited = linkage.limited()
-  out.events.hunting = useActuator && (step > 0 || deadband > 0) && hunts(out, ks, settledFrom)
+  out.events.hunting
+    = useActuator
+      && (step > 0 || deadband > 0)
+      && hunts(out, ks, settledFrom, plant.sensorLength)
   return out
 }
 
 /**
  * The ball still wandering back and forth around the setpoint in the second half of the time
  * after the last change or nudge: at least two crossings, each side reached by more than an ADC
- * count, and a swing of at least half a millimetre.
+ * count, and a swing of at least half a millimetre but less than a twentieth of the track (a
+ * larger swing is the loop itself swinging, not the servo's steps or deadband).
  */
-function hunts(run: SimulationResult, countsPerMeter: number, from: number): boolean {
+function hunts(
+  run: SimulationResult,
+  countsPerMeter: number,
+  from: number,
+  trackLength: number,
+): boolean {
   const count = 1 / countsPerMeter
   let side = 0
   let crossings = 0
@@ -379,5 +388,6 @@ function hunts(run: SimulationResult, countsPerMeter: number, from: number): boo
       side = now
     }
   }
-  return crossings >= 2 && hi - lo >= Math.max(2 * count, 0.0005)
+  const spread = hi - lo
+  return crossings >= 2 && spread >= Math.max(2 * count, 0.0005) && spread < trackLength / 20
 }

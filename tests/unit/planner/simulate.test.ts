@@ -300,6 +300,15 @@ describe('the actuator: output steps, frames and deadband', () => {
       .toBe(false)
   })
 
+  it('calls a P-only swing a swing, not hunting', () => {
+    // The swing P alone predicts spans much of the track; hunting is the small wander of steps.
+    const pOnly = planGains(kit, { ...DEFAULT_TARGETS, form: 'P' }).proportional!
+    const run = simulate({ ...kit, servoResolution: 'degree' }, pOnly, { duration: 20 })
+    const late = run.x.filter((_, i) => run.t[i]! > 10)
+    expect(Math.max(...late) - Math.min(...late)).toBeGreaterThan(0.05)
+    expect(run.events.hunting).toBe(false)
+  })
+
   it('writes whole degrees or whole microseconds', () => {
     const us = simulate({ ...kit, servoResolution: 'microsecond' }, kitGains, { duration: 3 })
     const deg = simulate({ ...kit, servoResolution: 'degree' }, kitGains, { duration: 3 })
