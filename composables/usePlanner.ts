@@ -91,8 +91,9 @@ export function usePlanner() {
     store.gainSource === 'suggested' ? (plan.value?.firmware ?? null) : firmwareJob.result.value,
   )
 
+  /** The suggestion as the builder's own gains (for P only: the P gain the plan draws). */
   function useSuggestion() {
-    const g = plan.value?.gains
+    const g = plan.value?.gains ?? plan.value?.proportional
     if (g) store.ownGains = { kp: g.kp, kd: g.kd, ki: g.ki }
   }
 
@@ -223,10 +224,12 @@ export function usePlanner() {
   )
 
   /** Any job still computing: the page shows a quiet "updating…" and keeps the last results. */
-  const busy = computed(() =>
-    [planJob, analyzeJob, firmwareJob, mainRun, pOnlyRun, overlayRun, envelopeJob, mapJob,
-      loopViewJob, jitterJob].some(j => j.busy.value),
-  )
+  const jobs = [planJob, analyzeJob, firmwareJob, mainRun, pOnlyRun, overlayRun, envelopeJob,
+    mapJob, loopViewJob, jitterJob]
+  const busy = computed(() => jobs.some(j => j.busy.value))
+
+  /** A job that failed (a bug, not bad input: the form's check catches that), in words. */
+  const failure = computed(() => jobs.map(j => j.error.value).find(e => e) ?? null)
 
   /** Picking a point on the stability map puts its Kp and Kd on the rig as the builder's own. */
   function pick(p: { kp: number, kd: number }) {
@@ -258,6 +261,7 @@ export function usePlanner() {
     jitter: jitterJob.result,
     bringUp,
     busy,
+    failure,
     pick,
   }
 }

@@ -28,6 +28,15 @@ describe('Gain Planner on the bench', () => {
       .poll(() => page.getByTestId('response-plot').textContent())
       .toContain('P only')
     expect(await page.getByTestId('p-only-verdict').textContent()).toMatch(/never settles/)
+    // No suggestion to offer: the radio names the P gain, and checking one's own starts from it
+    // (the method's Kp = ω_n²/K_b, three significant figures on the field).
+    await page.getByLabel('Use the planner’s P gain').waitFor()
+    await page.getByLabel('Check my own gains').check()
+    const pGain = planGains(KIT_PRESETS[0]!.rig, { ...DEFAULT_TARGETS, form: 'P' }).proportional!
+    await expect
+      .poll(async () => Number(await page.locator('#own-kp').inputValue()))
+      .toBeCloseTo(pGain.kp, 2)
+    expect(await page.getByTestId('planner-failure').count()).toBe(0)
     await shot(page, 'p-only-desktop')
     await page.close()
   })
