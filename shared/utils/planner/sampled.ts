@@ -8,6 +8,7 @@
 import { brent } from './frequency'
 import { discretizePlant, discretizePlantW, phi1, phi2, type Polynomial } from './plant'
 import type { DerivativeSignal, Discretization } from './schema'
+import { goldenMinimum } from './search'
 
 export interface SampledLoop {
   kb: number
@@ -137,15 +138,7 @@ export function sampledCharacteristicW(
   loop: SampledLoop,
   plantW?: { num: Polynomial, den: Polynomial },
 ): Polynomial {
-  const p = plantW ?? discretizePlantW(loop.kb, loop.servoLag, loop.period)
-  const { b, oneMinusA: al } = derivativeCoefficients(
-    loop.kd,
-    loop.tf,
-    loop.period,
-    loop.discretization,
-  )
-  const kiT = loop.ki * loop.period
-  const kp = loop.kp
+  const { pNum, pDen, kp, b, al, kiT, extraDelaySamples } = sampledResponseOf(loop, plantW)
   let cNum: Polynomial
   let cDen: Polynomial
   if (kiT > 0) {
@@ -156,8 +149,8 @@ export function sampledCharacteristicW(
     cNum = [kp + b, kp * al]
   }
   let delay: Polynomial = [1, 1]
-  for (let m = 0; m < (loop.extraDelaySamples ?? 0); m++) delay = polyMul(delay, [1, 1])
-  return polyAdd(polyMul(delay, polyMul(p.den, cDen)), polyMul(p.num, cNum))
+  for (let m = 0; m < extraDelaySamples; m++) delay = polyMul(delay, [1, 1])
+  return polyAdd(polyMul(delay, polyMul(pDen, cDen)), polyMul(pNum, cNum))
 }
 
 /**
@@ -923,30 +916,6 @@ export function sampledGrid(period: number): Float64Array {
   return g
 }
 
-function golden(f: (x: number) => number, a: number, b: number, iterations = 40): number {
-  const r = (Math.sqrt(5) - 1) / 2
-  let c = b - r * (b - a)
-  let d = a + r * (b - a)
-  let fc = f(c)
-  let fd = f(d)
-  for (let i = 0; i < iterations; i++) {
-    if (fc > fd) {
-      b = d
-      d = c
-      fd = fc
-      c = b - r * (b - a)
-      fc = f(c)
-    } else {
-      a = c
-      c = d
-      fc = fd
-      d = a + r * (b - a)
-      fd = f(d)
-    }
-  }
-  return fc > fd ? c : d
-}
-
 /**
  * Margins of the sampled loop: gain crossovers (|L| = 1) and phase crossovers (L on the negative
  * real axis, including ω = π/T where L is real) bracketed on the grid and refined by Brent's
@@ -1017,7 +986,8 @@ export function sampledMargins(
   if (n > 2) {
     const a = grid[Math.max(0, msK - 1)]!
     const b = grid[Math.min(n - 1, msK + 1)]!
-    const x = golden(sensAt, a, b)
+    // Ms is a maximum: minimise its negative, down to 0.618⁴⁰ of the bracket
+    const x = goldenMinimum(w => -sensAt(w), a, b, (b - a) * 4e-9)
     const v = sensAt(x)
     if (v > ms) {
       ms = v
