@@ -34,6 +34,26 @@ const EXTENSIONS: Record<(typeof UPLOAD_TYPES)[number] | AttachmentType, string>
 }
 type KnownType = keyof typeof EXTENSIONS
 
+// C0 and C1 control characters, DEL, and the bidirectional overrides and isolates that make
+// `photo\u202Egnp.exe` read as `photoexe.png`.
+// eslint-disable-next-line no-control-regex -- finding control characters is the point
+const NAME_CONTROLS = /[\u0000-\u001f\u007f-\u009f\u200e\u200f\u202a-\u202e\u2066-\u2069]/
+
+/**
+ * The words for a file name no browser sends for a file a person picked: one with a folder
+ * path (`../`, `C:\\`) or control characters. A page sends the plain base name, so only a
+ * hand-made request meets this; it is refused rather than quietly cleaned, so whoever sent
+ * it learns why.
+ */
+export function filenameProblem(name: string | undefined): string | null {
+  if (!name) return null
+  if (NAME_CONTROLS.test(name))
+    return 'This file\'s name has control characters in it. Rename the file, then attach it again.'
+  if (/[\\/]/.test(name) || /^\.\.?$/.test(name))
+    return 'This file\'s name has a folder path in it. Attach the file itself, by its own name.'
+  return null
+}
+
 /** A field error for an upload that is empty, too large or not a PDF or image; null when fine. */
 export async function uploadProblem(
   file: IncomingFile | undefined,
@@ -41,6 +61,8 @@ export async function uploadProblem(
 ): Promise<{ problem: string } | { mime: (typeof UPLOAD_TYPES)[number] }> {
   if (!file || !file.data.length)
     return { problem: `Attach the ${label} (PDF, PNG, JPEG or WebP).` }
+  const badName = filenameProblem(file.filename)
+  if (badName) return { problem: badName }
   if (file.data.length > UPLOAD_LIMIT_BYTES)
     return { problem: `The ${label} is larger than ${UPLOAD_LIMIT_BYTES / 1024 / 1024} MB.` }
   const sniffed = await fileTypeFromBuffer(file.data)
@@ -51,6 +73,10 @@ export async function uploadProblem(
         `The ${label} must be a PDF, PNG, JPEG or WebP file; this one is not, whatever its `
         + `name says.`,
     }
+  if (mime !== 'application/pdf') {
+    const size = imageProblem(file.data)
+    if ('problem' in size) return size
+  }
   return { mime }
 }
 
@@ -73,6 +99,32 @@ export function safeFilename(
   return `${base || fallback}.${EXTENSIONS[mime]}`
 }
 
+/**
+ * An image's size read from its header without decoding it (a small file can claim a picture
+ * that would take gigabytes to decode): refused past IMAGE_MAX_SIDE on a side or
+ * IMAGE_MAX_PIXELS in all.
+ */
+function imageProblem(data: Buffer): { problem: string } | { width: number, height: number } {
+  let size: { width?: number, height?: number }
+  try {
+    size = imageSize(new Uint8Array(data.buffer, data.byteOffset, data.length))
+  } catch {
+    return { problem: 'This picture could not be read. Take or save it again, then attach it.' }
+  }
+  const width = size.width ?? 0
+  const height = size.height ?? 0
+  if (!width || !height)
+    return { problem: 'This picture has no size in it, so it cannot be shown.' }
+  if (width > IMAGE_MAX_SIDE || height > IMAGE_MAX_SIDE || width * height > IMAGE_MAX_PIXELS)
+    return {
+      problem:
+        `This picture claims to be ${width} × ${height} pixels, more than Tiltwright opens (at `
+        + `most ${IMAGE_MAX_SIDE} on a side and ${IMAGE_MAX_PIXELS / 1_000_000} million in all). `
+        + 'Send a smaller one.',
+    }
+  return { width, height }
+}
+
 /** A ticket attachment that passed every check: its type and kind from the bytes, and an
  *  image's declared size. */
 export interface CheckedAttachment {
@@ -92,6 +144,8 @@ export async function attachmentProblem(
   file: IncomingFile | undefined,
 ): Promise<{ problem: string } | CheckedAttachment> {
   if (!file || !file.data.length) return { problem: `Choose a file to attach. ${ATTACHMENT_RULE}` }
+  const badName = filenameProblem(file.filename)
+  if (badName) return { problem: badName }
   const sniffed = await fileTypeFromBuffer(file.data)
   const mime = sniffed?.mime as AttachmentType | undefined
   if (!mime || !(mime in ATTACHMENT_TYPES))
@@ -109,22 +163,9 @@ export async function attachmentProblem(
         + `${formatBytes(limit)}. ${ATTACHMENT_RULE}`,
     }
   if (kind !== 'image') return { mime, kind, width: null, height: null }
-  let size: { width?: number, height?: number }
-  try {
-    size = imageSize(new Uint8Array(file.data.buffer, file.data.byteOffset, file.data.length))
-  } catch {
-    return { problem: 'This photo could not be read. Take or save it again, then attach it.' }
-  }
-  const width = size.width ?? 0
-  const height = size.height ?? 0
-  if (!width || !height) return { problem: 'This photo has no size in it, so it cannot be shown.' }
-  if (width > IMAGE_MAX_SIDE || height > IMAGE_MAX_SIDE || width * height > IMAGE_MAX_PIXELS)
-    return {
-      problem:
-        `This photo claims to be ${width} × ${height} pixels, more than Tiltwright opens (at `
-        + `most ${IMAGE_MAX_SIDE} on a side and ${IMAGE_MAX_PIXELS / 1_000_000} million in all). `
-        + 'Send a smaller photo.',
-    }
+  const size = imageProblem(file.data)
+  if ('problem' in size) return size
+  const { width, height } = size
   return { mime, kind, width, height }
 }
 

@@ -9,7 +9,9 @@ const PARAM = /;\s*([A-Za-z*]+)\s*=\s*(?:"((?:[^"\\]|\\.)*)"|([^;]*))/g
 export function dispositionParams(header: string): Record<string, string> {
   const out: Record<string, string> = {}
   for (const m of header.matchAll(PARAM)) {
-    const value = m[2] !== undefined ? m[2].replace(/\\(.)/g, '$1') : m[3]!.trim()
+    // Only `\"` and `\\` are unescaped: browsers send a Windows path's backslashes as they
+    // are, and dropping them would turn `..\..\x.png` into a harmless-looking `....x.png`.
+    const value = m[2] !== undefined ? m[2].replace(/\\(["\\])/g, '$1') : m[3]!.trim()
     out[m[1]!.toLowerCase()] = value
   }
   return out
