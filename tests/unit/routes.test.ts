@@ -27,7 +27,8 @@ describe('routeOf', () => {
 
   it('keeps dots that are not a method suffix, and skips what is not code', () => {
     expect(routeOf('sheets/[id]/export.get.ts')?.path).toBe('/api/sheets/:id/export')
-    expect(routeOf('files/report.v2.ts')).toMatchObject({ method: 'ANY', path: '/api/files/report.v2' })
+    expect(routeOf('files/report.v2.ts'))
+      .toMatchObject({ method: 'ANY', path: '/api/files/report.v2' })
     expect(routeOf('README.md')).toBeNull()
   })
 })
