@@ -124,13 +124,6 @@ export async function buildFixtures(tag: string): Promise<Fixtures> {
   const lines = [{ productId: part.productId, quantity: 1 }]
   const quote = await teacherA.post('/api/quotes', { lines })
   expect(quote.status).toBe(201)
-  const placeOrder = async () => {
-    const r = await teacherA.post('/api/checkout/purchase-order', poForm({
-      lines: [{ productId: part.productId, quantity: 1 }],
-    }))
-    expect(r.status, JSON.stringify(r.body)).toBe(201)
-    return r.body.orderId as number
-  }
   const view = (await teacherA.get(`/api/orders/${A.orderId}`)).body
   const fileA = view.documents.find((d: any) => d.kind === 'purchase-order').url.split('/').pop()
   const { code: codeA } = await newCode(teacherA, A.orderId)
@@ -181,12 +174,12 @@ export async function buildFixtures(tag: string): Promise<Fixtures> {
     admin: { login: { email: 'admin@tiltwright.test', password: SEED_PASSWORD }, name: '' },
   }
   for (const c of CALLERS) if (c !== 'anonymous') who[c].name = await nameOf(clients[c])
-  return {
+  const f: Fixtures = {
     clients,
     who,
     orderA: A.orderId,
-    orderForAdmin: await placeOrder(),
-    orderToCancel: await placeOrder(),
+    orderForAdmin: 0,
+    orderToCancel: 0,
     quoteA: quote.body.id,
     fileA,
     rigA: A.rigs[0]!.id,
@@ -204,6 +197,9 @@ export async function buildFixtures(tag: string): Promise<Fixtures> {
     stockReplyId: reply.body.id,
     staffId: staff.body.id,
   }
+  f.orderForAdmin = await newOrderOfA(f)
+  f.orderToCancel = await newOrderOfA(f)
+  return f
 }
 
 /** One row: how to call the route, and what each caller gets. */
@@ -211,7 +207,7 @@ export interface Row {
   expect: Expectations
   /** The path, filled with A's resources (may make a resource of its own). */
   path: (f: Fixtures, caller: Caller) => string | Promise<string>
-  /** For a caller expected to succeed, a path of its own (a throwaway resource). */
+  /** For a caller who is let through, a path of its own (a throwaway resource). */
   okPath?: (f: Fixtures, caller: Caller) => string | Promise<string>
   /** A valid body (a new FormData each call for multipart routes). */
   body?: (f: Fixtures, caller: Caller) => unknown
@@ -223,18 +219,30 @@ export interface Row {
 
 const p = (s: string) => () => s
 const order = (tail = '') => (f: Fixtures) => `/api/orders/${f.orderA}${tail}`
-const adminOrder = (step: string, body?: Row['body']): Row => ({
-  // Everyone but the admin is refused on A's own order; the admin acts on an order of its own.
+/**
+ * An admin's order step: everyone but the admin is refused on A's own order; the admin walks an
+ * order of its own through the steps in the table's order (`admin`: what that step answers
+ * there; 409 once the order has moved past the step).
+ */
+const adminOrder = (step: string, admin: Expected, body?: Row['body']): Row => ({
   path: f => `/api/admin/orders/${f.orderA}/${step}`,
   okPath: f => `/api/admin/orders/${f.orderForAdmin}/${step}`,
   body,
-  expect: E(401, 403, 403, 403, 403, 403, [200, 201, 409]),
+  expect: E(401, 403, 403, 403, 403, 403, admin),
 })
 const school = () => ({ ...SCHOOL_ADDRESS })
 const ticketFile = () => {
   const f = new FormData()
   f.set('file', new Blob([new Uint8Array(PNG_BYTES)], { type: 'image/png' }), 'matrix.png')
   return f
+}
+/** A new order of school A, placed with a purchase order and waiting for review. */
+async function newOrderOfA(f: Fixtures) {
+  const r = await f.clients.teacherA.post('/api/checkout/purchase-order', poForm({
+    lines: [{ productId: f.productId, quantity: 1 }],
+  }))
+  if (r.status !== 201) throw new Error(`order of A: ${r.status} ${JSON.stringify(r.body)}`)
+  return r.body.orderId as number
 }
 async function newStockReply(f: Fixtures) {
   const r = await f.clients.support.post('/api/stock-replies', {
@@ -256,6 +264,8 @@ async function newJoinCode(f: Fixtures) {
 
 export const okSet = (e: Expected) => (Array.isArray(e) ? e : [e])
 export const succeeds = (e: Expected) => okSet(e).some(s => s < 300)
+/** The caller is turned away (signed out, wrong role, may not see it), whatever the body. */
+export const refused = (e: Expected) => okSet(e).every(s => [401, 403, 404].includes(s))
 
 /**
  * Who passes authentication and authorization for a row (the fuzzed bodies are sent as them):
@@ -264,7 +274,7 @@ export const succeeds = (e: Expected) => okSet(e).some(s => s < 300)
 export function authorizedCaller(row: Row): Caller {
   const order: Caller[] = ['anonymous', 'teacherA', 'builderA', 'admin', 'support']
   return order.find(c => succeeds(row.expect[c]))
-    ?? order.find(c => ![401, 403, 404].includes(row.expect[c] as number))
+    ?? order.find(c => !refused(row.expect[c]))
     ?? 'admin'
 }
 
@@ -337,23 +347,28 @@ export const TABLE: Record<string, Row> = {
     expect: E(401, 403, 403, 403, 403, 403, 200),
   },
   // In the order the steps make sense for the admin's own order under review.
-  'POST /api/admin/orders/:id/approve': adminOrder('approve', () => ({})),
-  'POST /api/admin/orders/:id/invoice': adminOrder('invoice', () => ({})),
-  'POST /api/admin/orders/:id/allocate': adminOrder('allocate', () => ({})),
-  'POST /api/admin/orders/:id/payments': adminOrder('payments', () => ({ reference: 'CHQ-1001' })),
-  'POST /api/admin/orders/:id/shipments': adminOrder('shipments', () => ({
+  'POST /api/admin/orders/:id/approve': adminOrder('approve', 200, () => ({})),
+  // Approving issued the invoice, so trying it again is refused: the step is not open (409).
+  'POST /api/admin/orders/:id/invoice': adminOrder('invoice', 409, () => ({})),
+  'POST /api/admin/orders/:id/allocate': adminOrder('allocate', 200, () => ({})),
+  'POST /api/admin/orders/:id/payments': adminOrder(
+    'payments', 200,
+    () => ({ reference: 'CHQ-1001' }),
+  ),
+  'POST /api/admin/orders/:id/shipments': adminOrder('shipments', 201, () => ({
     carrier: 'ups',
     tracking: 'PW123456',
   })),
-  'POST /api/admin/orders/:id/deliver': adminOrder('deliver', () => ({})),
-  'POST /api/admin/orders/:id/reject': adminOrder(
-    'reject',
-    () => ({ reason: 'The PO is unsigned.' }),
-  ),
-  'POST /api/admin/orders/:id/cancel': adminOrder(
-    'cancel',
-    () => ({ reason: 'Ordered twice by mistake.' }),
-  ),
+  'POST /api/admin/orders/:id/deliver': adminOrder('deliver', 200, () => ({})),
+  // Refusing and cancelling end an order: the admin does each to a new order of school A.
+  'POST /api/admin/orders/:id/reject': {
+    ...adminOrder('reject', 200, () => ({ reason: 'The PO is unsigned.' })),
+    okPath: async f => `/api/admin/orders/${await newOrderOfA(f)}/reject`,
+  },
+  'POST /api/admin/orders/:id/cancel': {
+    ...adminOrder('cancel', 200, () => ({ reason: 'Ordered twice by mistake.' })),
+    okPath: async f => `/api/admin/orders/${await newOrderOfA(f)}/cancel`,
+  },
   'GET /api/admin/products': {
     path: p('/api/admin/products'),
     expect: E(401, 403, 403, 403, 403, 403, 200),
