@@ -4,8 +4,8 @@
 // bodies with one field replaced, and bodies nested 5000 levels deep. Each is sent by a caller
 // who passes authentication and authorization for the route (the caller and the valid body come
 // from the role matrix's table), so the body itself is what the server judges. Every answer must
-// be below 500, and a refusal the API's JSON error envelope. The routes come from the route
-// files, so a new write route is fuzzed the day it is added.
+// be below 500, a refusal the API's JSON error envelope, and a 422 must name its fields. The
+// routes come from the route files, so a new write route is fuzzed the day it is added.
 import fc from 'fast-check'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Client } from '../helpers/client'
@@ -129,6 +129,9 @@ function judged(r: { status: number, body: any }, what: string) {
   expect(r.status, `${what}: ${JSON.stringify(r.body).slice(0, 300)}`).toBeLessThan(500)
   if (r.status >= 400)
     expect(r.body, `${what}: the JSON error envelope`).toMatchObject({ statusCode: r.status })
+  // A refused body says which fields are wrong (docs/api.md: 422 names each bad field).
+  if (r.status === 422)
+    expect(Object.keys(r.body.data?.fields ?? {}), `${what}: the fields in error`).not.toEqual([])
 }
 
 const writes = apiRoutes().filter(isWrite)
