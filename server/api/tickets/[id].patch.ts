@@ -22,14 +22,13 @@ export default defineEventHandler(async (event): Promise<TicketSummary> => {
     if (input.assigneeId !== undefined) await checkAssignee(tx, input.assigneeId)
     const now = new Date()
     const status = input.status ?? ticket.status
-    await tx
-      .update(tickets)
-      .set({
-        ...statusChange(ticket.status, status, now),
-        ...(input.priority ? { priority: input.priority } : {}),
-        ...(input.assigneeId !== undefined ? { assigneeId: input.assigneeId } : {}),
-      })
-      .where(eq(tickets.id, id))
+    const values = {
+      ...statusChange(ticket.status, status, now),
+      ...(input.priority ? { priority: input.priority } : {}),
+      ...(input.assigneeId !== undefined ? { assigneeId: input.assigneeId } : {}),
+    }
+    // Resolving a resolved ticket changes nothing: an UPDATE with nothing to set is an error.
+    if (Object.keys(values).length) await tx.update(tickets).set(values).where(eq(tickets.id, id))
     if (access !== 'staff') return
     const assignee = input.assigneeId === undefined ? ticket.assigneeId : input.assigneeId
     const changes = [
