@@ -113,3 +113,29 @@ export function someCause(error: unknown, match: (e: DriverError) => boolean, de
 export function isDuplicateKey(e: unknown): boolean {
   return someCause(e, c => c.code === 'ER_DUP_ENTRY' || c.errno === 1062)
 }
+
+const DOWN_CODES = new Set([
+  'ECONNREFUSED',
+  'ECONNRESET',
+  'ETIMEDOUT',
+  'EPIPE',
+  'PROTOCOL_CONNECTION_LOST',
+  'ER_CON_COUNT_ERROR',
+  'ER_SERVER_SHUTDOWN',
+  'PROTOCOL_ENQUEUE_AFTER_FATAL_ERROR',
+  'ER_CONNECTION_KILLED',
+])
+
+/** The database cannot be reached: the connection was refused, lost or is closed. */
+export function isDatabaseDown(error: unknown): boolean {
+  return someCause(
+    error,
+    c =>
+      DOWN_CODES.has(c.code ?? '')
+      // mysql2 marks an error fatal when its connection is unusable: the server's own carry a
+      // SQL state; its "connection is in closed state" has no code at all. That one is what a
+      // transaction's rollback throws when the database died mid-transaction, and it is the
+      // error drizzle reports (the first one is lost), so it must read as "down" too.
+      || (c.fatal === true && (c.sqlState !== undefined || c.code === undefined)),
+  )
+}
