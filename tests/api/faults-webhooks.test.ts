@@ -5,18 +5,16 @@
 // order ends in the right state once: one "paid" entry, one receipt, one refund.
 import type Stripe from 'stripe'
 import { afterEach, describe, expect, it } from 'vitest'
+import type { Client } from '../helpers/client'
 import { jobsSettled, sql, sweepRunsAgain } from '../helpers/db'
 import { mailsTo } from '../helpers/mail'
 import {
   APPROVE,
+  approvedPurchaseOrder,
   cardOrder,
   fakeStripe,
-  newTeacher,
   payOnPage,
-  poForm,
   postWebhook,
-  productWithStock,
-  signedIn,
   simulator,
   waitForOrder,
 } from '../helpers/shop'
@@ -44,6 +42,18 @@ const count = (order: { events: { kind: string }[] }, kind: string) =>
 const mailsAbout = async (email: string, subject: RegExp) =>
   (await mailsTo(email)).filter(m => subject.test(m.subject))
 
+/** The order is paid once: its state, one "paid" entry, one receipt, and its stock still held.
+ *  Answers the order. */
+async function paidOnce(c: Client, orderId: number, email: string, batchId: number, held: number) {
+  const order = (await c.get(`/api/orders/${orderId}`)).body
+  expect(order.status).toBe('paid')
+  expect(count(order, 'paid')).toBe(1)
+  expect(await mailsAbout(email, /^Payment received for order/)).toHaveLength(1)
+  const [batch] = await sql('SELECT reserved FROM batches WHERE id = ?', [batchId])
+  expect(batch.reserved).toBe(held)
+  return order
+}
+
 describe('payment events delivered twice, late and out of order', () => {
   it('records a payment delivered twice at once, and again later, once', async () => {
     const { t, orderId, url, batchId } = await cardOrder('twice')
@@ -55,12 +65,7 @@ describe('payment events delivered twice, late and out of order', () => {
     expect(both.map(r => r.body.duplicate).sort()).toEqual([false, true])
     await deliveriesSettle(t.email)
 
-    const order = (await t.client.get(`/api/orders/${orderId}`)).body
-    expect(order.status).toBe('paid')
-    expect(count(order, 'paid')).toBe(1)
-    expect(await mailsAbout(t.email, /^Payment received for order/)).toHaveLength(1)
-    const [batch] = await sql('SELECT reserved FROM batches WHERE id = ?', [batchId])
-    expect(batch.reserved).toBe(2)
+    await paidOnce(t.client, orderId, t.email, batchId, 2)
   })
 
   it(
@@ -126,38 +131,24 @@ describe('payment events delivered twice, late and out of order', () => {
       await sweepRunsAgain()
       await jobsSettled({ to: t.email })
 
-      const order = (await t.client.get(`/api/orders/${orderId}`)).body
-      expect(order.status).toBe('paid')
-      expect(count(order, 'paid')).toBe(1)
+      const order = await paidOnce(t.client, orderId, t.email, batchId, 2)
       expect(kinds(order)).not.toContain('cancelled')
       expect(kinds(order)).not.toContain('expired')
-      expect(await mailsAbout(t.email, /^Payment received/)).toHaveLength(1)
       expect(await mailsAbout(t.email, /cancelled$/)).toHaveLength(0)
-      const [batch] = await sql('SELECT reserved FROM batches WHERE id = ?', [batchId])
-      expect(batch.reserved).toBe(2)
     })
 
   it(
     'pays a purchase order once when its invoice events come in the wrong order, '
     + 'twice, and a "voided" after "paid"', async () => {
-      const admin = await signedIn('admin@tiltwright.test')
-      const { productId, batchId } = await productWithStock(admin, 10)
-      const t = await newTeacher('invoice-order')
-      const placed = await t.client.post(
-        '/api/checkout/purchase-order',
-        poForm({ lines: [{ productId, quantity: 3 }], apEmail: 'ap-order@district.test' }),
+      const { admin, t, orderId: id, batchId, invoiceId, payUrl } = await approvedPurchaseOrder(
+        'invoice-order',
+        3,
+        'ap-order@district.test',
       )
-      expect(placed.status).toBe(201)
-      const id = placed.body.orderId as number
-      const approved = await admin.post(`/api/admin/orders/${id}/approve`, {})
-      expect(approved.status).toBe(200)
-      const [{ invoiceId }] = await sql('SELECT invoice_id AS invoiceId FROM orders WHERE id = ?', [
-        id,
-      ])
       expect(invoiceId).toMatch(/^in_/)
       await jobsSettled({ kind: 'fake-webhook' })
       await simulator({ webhooks: 'fail' })
-      expect((await payOnPage(approved.body.payUrl, APPROVE)).status).toBe(303)
+      expect((await payOnPage(payUrl, APPROVE)).status).toBe(303)
 
       const finalized = await eventAbout('invoice.finalized', invoiceId)
       const paid = await eventAbout('invoice.paid', invoiceId)
@@ -178,14 +169,36 @@ describe('payment events delivered twice, late and out of order', () => {
       await deliveriesSettle(t.email)
       await jobsSettled({ orderId: id })
 
-      const order = (await admin.get(`/api/orders/${id}`)).body
+      const order = await paidOnce(admin, id, t.email, batchId, 3)
       expect(order.paidAt).not.toBeNull()
-      expect(order.status).toBe('paid')
       expect(order.invoiceVoided).toBeFalsy()
-      expect(count(order, 'paid')).toBe(1)
       expect(kinds(order)).not.toContain('invoice-voided')
-      expect(await mailsAbout(t.email, /^Payment received for order/)).toHaveLength(1)
-      const [batch] = await sql('SELECT reserved FROM batches WHERE id = ?', [batchId])
-      expect(batch.reserved).toBe(3)
+    })
+
+  it(
+    'records a purchase order paid once when its invoice is paid online after a cheque '
+    + 'was recorded, and says the second payment needs a refund', async () => {
+      const { admin, t, orderId: id, batchId, invoiceId, payUrl } = await approvedPurchaseOrder(
+        'paid-twice',
+        2,
+        'ap-twice@district.test',
+      )
+      // Accounts payable pays online; its notice is late, and meanwhile a cheque is recorded.
+      await simulator({ webhooks: 'fail' })
+      expect((await payOnPage(payUrl, APPROVE)).status).toBe(303)
+      const cheque = await admin.post(`/api/admin/orders/${id}/payments`, {
+        reference: 'Cheque 4417',
+      })
+      expect(cheque.status, JSON.stringify(cheque.body)).toBe(200)
+      const paid = await eventAbout('invoice.paid', invoiceId)
+      expect((await postWebhook(paid)).body.duplicate).toBe(false)
+      await deliveriesSettle(t.email)
+      await jobsSettled({ orderId: id })
+
+      const order = await paidOnce(admin, id, t.email, batchId, 2)
+      const twice = order.events.filter((e: { kind: string }) => e.kind === 'payment-twice')
+      expect(twice).toHaveLength(1)
+      expect(twice[0].message).toMatch(/second payment of \$\d[\d,]*\.\d\d \(invoice /)
+      expect(twice[0].message).toContain('Cheque 4417')
     })
 })

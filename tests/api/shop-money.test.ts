@@ -225,6 +225,8 @@ describe('webhooks and the hold sweep survive what kills a process', () => {
       await jobsSettled({ to: t.email })
       const after = (await t.client.get(`/api/orders/${orderId}`)).body
       expect(after.events.filter((e: any) => e.kind === 'paid')).toHaveLength(1)
+      // The same payment twice is no second payment.
+      expect(after.events.map((e: any) => e.kind)).not.toContain('payment-twice')
       const received = (await mailsTo(t.email)).filter(m => /^Payment received/.test(m.subject))
       expect(received).toHaveLength(
         1,

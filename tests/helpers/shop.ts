@@ -4,6 +4,7 @@
 import Stripe from 'stripe'
 import { expect, inject } from 'vitest'
 import { Client, uniqueEmail } from './client'
+import { sql } from './db'
 import { linkIn, waitForMail } from './mail'
 
 // The simulator's key and webhook secret: this test run's own (tests/setup/global.ts makes them
@@ -107,6 +108,29 @@ export async function cardOrder(tag: string, quantity = 2) {
     orderId: r.body.orderId as number,
     url: r.body.url as string,
   }
+}
+
+/** A purchase order of `quantity` units of a new product (10 in stock) by a new teacher,
+ *  approved by an admin: its invoice is issued at the payment simulator. */
+export async function approvedPurchaseOrder(tag: string, quantity: number, apEmail?: string) {
+  const admin = await signedIn('admin@tiltwright.test')
+  const { productId, batchId } = await productWithStock(admin, 10)
+  const t = await newTeacher(tag)
+  const placed = await t.client.post(
+    '/api/checkout/purchase-order',
+    poForm({ lines: [{ productId, quantity }], apEmail }),
+  )
+  expect(placed.status).toBe(201)
+  const orderId = placed.body.orderId as number
+  const approved = await admin.post(`/api/admin/orders/${orderId}/approve`, {})
+  expect(approved.status).toBe(200)
+  const [row] = await sql<{ invoiceId: string }>(
+    'SELECT invoice_id AS invoiceId FROM orders WHERE id = ?',
+    [orderId],
+  )
+  const invoiceId = row!.invoiceId
+  const payUrl = approved.body.payUrl as string
+  return { admin, t, productId, batchId, orderId, invoiceId, payUrl }
 }
 
 /** POSTs a payment event to the app's webhook as the provider would, with the signature
