@@ -91,6 +91,7 @@ export async function uniqueOr409<T>(
 
 /** The fields of a driver error that the checks below read. */
 interface DriverError {
+  message?: string
   code?: string
   errno?: number
   fatal?: boolean
@@ -114,6 +115,8 @@ export function isDuplicateKey(e: unknown): boolean {
   return someCause(e, c => c.code === 'ER_DUP_ENTRY' || c.errno === 1062)
 }
 
+const CLOSED_CONNECTION = /connection is in closed state/
+
 const DOWN_CODES = new Set([
   'ECONNREFUSED',
   'ECONNRESET',
@@ -132,10 +135,11 @@ export function isDatabaseDown(error: unknown): boolean {
     error,
     c =>
       DOWN_CODES.has(c.code ?? '')
-      // mysql2 marks an error fatal when its connection is unusable: the server's own carry a
-      // SQL state; its "connection is in closed state" has no code at all. That one is what a
-      // transaction's rollback throws when the database died mid-transaction, and it is the
-      // error drizzle reports (the first one is lost), so it must read as "down" too.
-      || (c.fatal === true && (c.sqlState !== undefined || c.code === undefined)),
+      || (c.fatal === true && c.sqlState !== undefined)
+      // mysql2's error for a command on a closed connection has no code, only its words. It is
+      // what a transaction's rollback throws when the database died mid-transaction, and the
+      // error drizzle reports (the first one is lost). Matched by its words, since a page's
+      // own error (Nuxt's createError) is also `fatal` without a code.
+      || (c.fatal === true && CLOSED_CONNECTION.test(c.message ?? '')),
   )
 }

@@ -39,5 +39,12 @@ describe('isDatabaseDown', () => {
     expect(isDatabaseDown(new Error('boom'))).toBe(false)
     expect(isDatabaseDown(Object.assign(new Error('no code'), { fatal: false }))).toBe(false)
     expect(isDatabaseDown(null)).toBe(false)
+    // A page's failure (Nuxt's createError, as pageFailure() makes it) is fatal without a code.
+    const page = Object.assign(new Error('Tiltwright is briefly unavailable'), {
+      statusCode: 503,
+      fatal: true,
+      cause: { statusCode: 503, statusMessage: 'Tiltwright is briefly unavailable', fatal: true },
+    })
+    expect(isDatabaseDown(page)).toBe(false)
   })
 })
