@@ -2,25 +2,9 @@
 // Tiltwright is briefly unavailable) instead of a bare 500.
 import type { H3Error } from 'h3'
 
-const RETRY_AFTER_SECONDS = 15
-const DOWN_CODES = new Set([
-  'ECONNREFUSED',
-  'ECONNRESET',
-  'ETIMEDOUT',
-  'EPIPE',
-  'PROTOCOL_CONNECTION_LOST',
-  'ER_CON_COUNT_ERROR',
-  'ER_SERVER_SHUTDOWN',
-  'PROTOCOL_ENQUEUE_AFTER_FATAL_ERROR',
-  'ER_CONNECTION_KILLED',
-])
+// isDatabaseDown() is in server/utils/errors.ts (unit-tested with the driver's own errors).
 
-export function isDatabaseDown(error: unknown): boolean {
-  return someCause(
-    error,
-    c => DOWN_CODES.has(c.code ?? '') || (c.fatal === true && c.sqlState !== undefined),
-  )
-}
+const RETRY_AFTER_SECONDS = 15
 
 export default defineNitroPlugin((nitro) => {
   // Runs (synchronously) before Nitro's error handler shapes the answer from the error.

@@ -91,6 +91,7 @@ export async function uniqueOr409<T>(
 
 /** The fields of a driver error that the checks below read. */
 interface DriverError {
+  message?: string
   code?: string
   errno?: number
   fatal?: boolean
@@ -112,4 +113,33 @@ export function someCause(error: unknown, match: (e: DriverError) => boolean, de
 /** MariaDB's duplicate-key error, wherever drizzle wraps it. */
 export function isDuplicateKey(e: unknown): boolean {
   return someCause(e, c => c.code === 'ER_DUP_ENTRY' || c.errno === 1062)
+}
+
+const CLOSED_CONNECTION = /connection is in closed state/
+
+const DOWN_CODES = new Set([
+  'ECONNREFUSED',
+  'ECONNRESET',
+  'ETIMEDOUT',
+  'EPIPE',
+  'PROTOCOL_CONNECTION_LOST',
+  'ER_CON_COUNT_ERROR',
+  'ER_SERVER_SHUTDOWN',
+  'PROTOCOL_ENQUEUE_AFTER_FATAL_ERROR',
+  'ER_CONNECTION_KILLED',
+])
+
+/** The database cannot be reached: the connection was refused, lost or is closed. */
+export function isDatabaseDown(error: unknown): boolean {
+  return someCause(
+    error,
+    c =>
+      DOWN_CODES.has(c.code ?? '')
+      || (c.fatal === true && c.sqlState !== undefined)
+      // mysql2's error for a command on a closed connection has no code, only its words. It is
+      // what a transaction's rollback throws when the database died mid-transaction, and the
+      // error drizzle reports (the first one is lost). Matched by its words, since a page's
+      // own error (Nuxt's createError) is also `fatal` without a code.
+      || (c.fatal === true && CLOSED_CONNECTION.test(c.message ?? '')),
+  )
 }

@@ -781,6 +781,20 @@ export async function receivePayment(
     )
     return 'refunding'
   }
+  if (order.paidAt && pay.paymentIntent && pay.paymentIntent !== order.paymentIntentId) {
+    // Money a second time (accounts payable paid the invoice online after a cheque was
+    // recorded): the order stays paid once, and the timeline says what to give back.
+    await addOrderEvent(
+      tx,
+      orderId,
+      'payment-twice',
+      `A second payment of ${formatCents(pay.amountCents)} (${pay.reference}) arrived after `
+      + `the order was paid (${order.paymentReference ?? 'no reference'}); it was not recorded `
+      + 'again. Refund it by hand at the payment service.',
+    )
+    // Not a repeated event: a payment that changes nothing, as a mismatched one.
+    return 'mismatch'
+  }
   const done = await settle(tx, order, 'markPaid', SYSTEM, {
     reference: pay.reference,
     paymentIntentId: pay.paymentIntent,

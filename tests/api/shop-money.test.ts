@@ -10,40 +10,19 @@ import {
   APPROVE,
   PUBLISHED_KEY,
   PUBLISHED_WEBHOOK_SECRET,
+  cardOrder,
   fakeStripe,
   newTeacher,
   payOnPage,
   pdfText,
   poForm,
+  postWebhook,
   productWithStock,
   signedIn,
   simulator,
   waitForOrder,
 } from '../helpers/shop'
 import { killDatabase, restartDatabase, startAppInstance } from '../helpers/instance'
-
-async function cardOrder(tag: string, quantity = 2) {
-  const admin = await signedIn('admin@tiltwright.test')
-  const { productId, batchId } = await productWithStock(admin, 10)
-  const t = await newTeacher(tag)
-  const r = await t.client.post('/api/checkout/card', { lines: [{ productId, quantity }] })
-  expect(r.status).toBe(201)
-  return {
-    admin,
-    t,
-    productId,
-    batchId,
-    orderId: r.body.orderId as number,
-    url: r.body.url as string,
-  }
-}
-
-const postWebhook = (payload: string, signature: string) =>
-  fetch(new URL('/api/webhooks/payments', inject('baseUrl')), {
-    method: 'POST',
-    body: payload,
-    headers: { 'content-type': 'application/json', 'stripe-signature': signature },
-  })
 
 afterEach(() => simulator({ api: 'normal', webhooks: 'deliver' }))
 
@@ -246,6 +225,8 @@ describe('webhooks and the hold sweep survive what kills a process', () => {
       await jobsSettled({ to: t.email })
       const after = (await t.client.get(`/api/orders/${orderId}`)).body
       expect(after.events.filter((e: any) => e.kind === 'paid')).toHaveLength(1)
+      // The same payment twice is no second payment.
+      expect(after.events.map((e: any) => e.kind)).not.toContain('payment-twice')
       const received = (await mailsTo(t.email)).filter(m => /^Payment received/.test(m.subject))
       expect(received).toHaveLength(
         1,

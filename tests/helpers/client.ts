@@ -13,9 +13,11 @@ export interface RequestOptions {
 }
 
 export class Client {
-  readonly baseUrl = inject('baseUrl')
   private cookies = new Map<string, string>()
   private csrf = ''
+
+  /** `baseUrl`: the suite's app unless a test talks to a second instance. */
+  constructor(readonly baseUrl: string = inject('baseUrl')) {}
 
   private store(res: Response) {
     for (const c of res.headers.getSetCookie()) {
@@ -48,9 +50,10 @@ export class Client {
     return html
   }
 
-  /** A second client holding a copy of this one's cookies and CSRF token (a stolen cookie). */
-  clone(): Client {
-    const copy = new Client()
+  /** A second client holding a copy of this one's cookies and CSRF token (a stolen cookie, or
+   *  the same person's browser sent to another app instance at `baseUrl`). */
+  clone(baseUrl = this.baseUrl): Client {
+    const copy = new Client(baseUrl)
     for (const [k, v] of this.cookies) copy.cookies.set(k, v)
     copy.csrf = this.csrf
     return copy

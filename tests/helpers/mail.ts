@@ -30,8 +30,10 @@ export async function waitForMail(
   }
 }
 
-export async function mailsTo(to: string): Promise<Caught[]> {
-  const res = await fetch(`${inject('mailUrl')}/messages?to=${encodeURIComponent(to)}`)
+/** The mail caught for `to` (everything when `to` is empty), newest first, by the test run's
+ *  fake SMTP server or by another one's HTTP API at `mailUrl`. */
+export async function mailsTo(to: string, mailUrl = inject('mailUrl')): Promise<Caught[]> {
+  const res = await fetch(`${mailUrl}/messages?to=${encodeURIComponent(to)}`)
   return ((await res.json()) as { data: Caught[] }).data
 }
 

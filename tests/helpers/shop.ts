@@ -2,8 +2,9 @@
 // shared/data/us-sales-tax.ts) schools, a product with known stock, the payment SDK pointed at the
 // app's fake, and paying on the fake's hosted page.
 import Stripe from 'stripe'
-import { inject } from 'vitest'
+import { expect, inject } from 'vitest'
 import { Client, uniqueEmail } from './client'
+import { sql } from './db'
 import { linkIn, waitForMail } from './mail'
 
 // The simulator's key and webhook secret: this test run's own (tests/setup/global.ts makes them
@@ -90,6 +91,63 @@ export async function productWithStock(
   if (b.status !== 201)
     throw new Error(`batch create failed: ${b.status} ${JSON.stringify(b.body)}`)
   return { productId: p.body.id as number, batchId: b.body.id as number, slug }
+}
+
+/** A card order of `quantity` units of a new product (10 in stock) by a new teacher. */
+export async function cardOrder(tag: string, quantity = 2) {
+  const admin = await signedIn('admin@tiltwright.test')
+  const { productId, batchId } = await productWithStock(admin, 10)
+  const t = await newTeacher(tag)
+  const r = await t.client.post('/api/checkout/card', { lines: [{ productId, quantity }] })
+  expect(r.status).toBe(201)
+  return {
+    admin,
+    t,
+    productId,
+    batchId,
+    orderId: r.body.orderId as number,
+    url: r.body.url as string,
+  }
+}
+
+/** A purchase order of `quantity` units of a new product (10 in stock) by a new teacher,
+ *  approved by an admin: its invoice is issued at the payment simulator. */
+export async function approvedPurchaseOrder(tag: string, quantity: number, apEmail?: string) {
+  const admin = await signedIn('admin@tiltwright.test')
+  const { productId, batchId } = await productWithStock(admin, 10)
+  const t = await newTeacher(tag)
+  const placed = await t.client.post(
+    '/api/checkout/purchase-order',
+    poForm({ lines: [{ productId, quantity }], apEmail }),
+  )
+  expect(placed.status).toBe(201)
+  const orderId = placed.body.orderId as number
+  const approved = await admin.post(`/api/admin/orders/${orderId}/approve`, {})
+  expect(approved.status).toBe(200)
+  const [row] = await sql<{ invoiceId: string }>(
+    'SELECT invoice_id AS invoiceId FROM orders WHERE id = ?',
+    [orderId],
+  )
+  const invoiceId = row!.invoiceId
+  const payUrl = approved.body.payUrl as string
+  return { admin, t, productId, batchId, orderId, invoiceId, payUrl }
+}
+
+/** POSTs a payment event to the app's webhook as the provider would, with the signature
+ *  given (a forged one), or signed with this run's webhook secret as the fake's events.ts
+ *  signs. Answers the status and the JSON reply. */
+export async function postWebhook(event: object | string, signature?: string) {
+  const payload = typeof event === 'string' ? event : JSON.stringify(event)
+  const res = await fetch(new URL('/api/webhooks/payments', inject('baseUrl')), {
+    method: 'POST',
+    body: payload,
+    headers: {
+      'content-type': 'application/json',
+      'stripe-signature': signature ?? new Stripe('sk_test_unused', { telemetry: false })
+        .webhooks.generateTestHeaderString({ payload, secret: webhookSecret() }),
+    },
+  })
+  return { status: res.status, body: await res.json().catch(() => null) }
 }
 
 export async function productBySlug(slug: string) {
