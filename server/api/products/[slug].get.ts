@@ -3,7 +3,7 @@ import type { ProductDetail } from '../../../shared/types/shop'
 
 export default defineEventHandler(async (event): Promise<ProductDetail> => {
   const { slug } = paramsAs(event, slugParams, 'That product')
-  const [entry] = await loadCatalog(useDb(), { activeOnly: true, slug })
+  const entry = (await publicCatalog()).find(e => e.row.slug === slug)
   if (!entry) throw notFound('That product')
   const view = withoutPricesIf(await hidePricesFor(event), productView(entry))
   return {
