@@ -6,6 +6,7 @@
 // whichever instance changed it; and a write answered by this instance drops every snapshot at
 // once (dropSnapshots(), called before the write's reply is sent), so the caller's next read on
 // the same instance sees the change immediately.
+import { setResponseHeader, type H3Event } from 'h3'
 
 /** The staleness bound across instances (docs/benchmarks.md). */
 export const SNAPSHOT_MAX_AGE_MS = 250
@@ -66,4 +67,22 @@ export function snapshots<K, T>(
     }
     return (await start(key)).value
   }
+}
+
+const bodies = new WeakMap<object, Map<string, string>>()
+
+/** The JSON reply `build()` makes from a snapshot, serialized once per snapshot (and `key`)
+ *  rather than once per request; it lives as long as the snapshot `of` does. What is returned is
+ *  the JSON text of the T that build() returns: h3 sends a string as it is, and the content type
+ *  is set here, so the caller receives exactly what returning the T would have sent. */
+export function jsonOnce<T>(event: H3Event, of: object, key: string, build: () => T): T {
+  let made = bodies.get(of)
+  if (!made) bodies.set(of, (made = new Map()))
+  let body = made.get(key)
+  if (body === undefined) {
+    body = JSON.stringify(build())
+    made.set(key, body)
+  }
+  setResponseHeader(event, 'Content-Type', 'application/json')
+  return body as unknown as T
 }

@@ -6,5 +6,6 @@ import type { CatalogReply } from '../../../shared/types/shop'
 export default defineEventHandler(async (event): Promise<CatalogReply> => {
   const catalog = await publicCatalog()
   const hide = await hidePricesFor(event)
-  return { data: catalog.map(e => withoutPricesIf(hide, productView(e))) }
+  if (hide) return { data: catalog.map(e => withoutPricesIf(hide, productView(e))) }
+  return jsonOnce(event, catalog, 'list', () => ({ data: catalog.map(productView) }))
 })
