@@ -279,7 +279,9 @@ async function main() {
     quiet: true,
   })
   stops.push(() => catcher.close())
-  const app = startChild([resolve(projectRoot, outputDir, 'server/index.mjs')], {
+  // TILTWRIGHT_BENCH_NODE_ARGS='--cpu-prof --cpu-prof-dir=data/profiles' profiles the app.
+  const nodeArgs = (process.env.TILTWRIGHT_BENCH_NODE_ARGS ?? '').split(' ').filter(Boolean)
+  const app = startChild([...nodeArgs, resolve(projectRoot, outputDir, 'server/index.mjs')], {
     PORT: String(APP_PORT),
     HOST: '127.0.0.1',
     NODE_ENV: 'production',
