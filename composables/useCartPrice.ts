@@ -2,7 +2,7 @@
 // a usable quantity are sent; the others are listed with their problem and no price, and the
 // cart cannot be ordered or quoted until every line is fine (`problems`, `orderable`).
 import type { PricedCart } from '~~/shared/types/shop'
-import { lineQuantityProblem } from '~~/shared/schemas/shop'
+import { lineQuantityProblem } from '~~/shared/utils/cart-lines'
 
 interface LineInfo {
   name: string

@@ -8,6 +8,9 @@ export function useSignOut() {
     else await api('/api/auth/logout', { method: 'POST' })
     await refresh()
     useCartStore().reset()
+    // Loaded only now: the planner's store brings the model's form code, which no page but the
+    // planner needs at first paint (modules/js-budget.ts).
+    const { usePlannerStore } = await import('~/stores/planner')
     usePlannerStore().reset()
     // The last opened sheet and the overlay list belong to the person who signed out.
     clearNuxtData(key => key.startsWith('planner-'))

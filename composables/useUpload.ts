@@ -39,7 +39,8 @@ export function useUpload() {
   const items = ref<UploadItem[]>([])
   const api = useApi()
 
-  function send(item: UploadItem, file: File) {
+  async function send(item: UploadItem, file: File) {
+    await ensureCsrfToken().catch(() => undefined)
     const { csrf, headerName } = useCsrf()
     const xhr = new XMLHttpRequest()
     xhr.open('POST', '/api/ticket-attachments')
@@ -86,7 +87,7 @@ export function useUpload() {
         item.error = `At most ${ATTACHMENTS_PER_MESSAGE} files a message.`
         continue
       }
-      send(item, file)
+      void send(item, file)
     }
   }
 

@@ -5,7 +5,7 @@
 import { defineStore } from 'pinia'
 import { computed, ref } from 'vue'
 import type { CartLine } from '~~/shared/schemas/shop'
-import { lineQuantityProblem } from '~~/shared/schemas/shop'
+import { lineQuantityProblem } from '~~/shared/utils/cart-lines'
 import { persistInStorage } from './persist'
 
 const KEY = 'tiltwright-cart-v1'

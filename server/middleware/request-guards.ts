@@ -22,15 +22,14 @@ export default defineEventHandler((event) => {
   const path = event.path
   if (path.startsWith('/api/') && path.split('?')[0]!.split('/').some(isDisguisedNumber))
     throw notFound()
-  const cookie = getRequestHeader(event, 'cookie') ?? ''
-  if (path.startsWith('/api/') || /(^|;\s*)nuxt-session=/.test(cookie)) {
+  if (path.startsWith('/api/') || hasSessionCookie(event)) {
     setResponseHeader(event, 'Cache-Control', 'no-store')
   }
 
   if (!STATE_CHANGING.has(event.method) || NO_BROWSER_ORIGIN.some(p => path.startsWith(p))) return
   const claimed = getRequestHeader(event, 'origin') ?? getRequestHeader(event, 'referer')
   if (claimed === undefined) return
-  const allowed = [getRequestHost(event), hostOf(useRuntimeConfig(event).publicUrl)]
+  const allowed = [getRequestHost(event), hostOf(useRuntimeConfig().publicUrl)]
   const host = hostOf(claimed)
   if (!host || !allowed.includes(host)) {
     throw createError({

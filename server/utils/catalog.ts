@@ -62,6 +62,13 @@ export async function loadCatalog(
 
 export type CatalogEntry = Awaited<ReturnType<typeof loadCatalog>>[number]
 
+const activeCatalog = snapshots(() => loadCatalog(useDb(), { activeOnly: true }), { maxKeys: 1 })
+
+/** The catalog on sale, the same for every visitor: from this instance's snapshot, at most
+ *  SNAPSHOT_MAX_AGE_MS old (server/utils/snapshots.ts). For reads only; anything that prices,
+ *  reserves or checks stock reads the database itself. */
+export const publicCatalog = () => activeCatalog('all')
+
 export function productView(e: CatalogEntry): ProductView {
   return {
     id: e.row.id,

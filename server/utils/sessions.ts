@@ -61,10 +61,17 @@ export interface LiveSession {
   row: typeof users.$inferSelect
 }
 
+/** Whether the request carries a session cookie at all. Without one there is nothing to read,
+ *  and asking nuxt-auth-utils anyway would make (and seal, and set) an empty session. */
+export function hasSessionCookie(event: H3Event): boolean {
+  return /(^|;\s*)nuxt-session=/.test(getRequestHeader(event, 'cookie') ?? '')
+}
+
 /** The unrevoked session named by this request's cookie and its (enabled) user, or null. */
 export async function liveSession(event: H3Event): Promise<LiveSession | null> {
   const cached = event.context.tiltwrightSession as LiveSession | null | undefined
   if (cached !== undefined) return cached
+  if (!hasSessionCookie(event)) return (event.context.tiltwrightSession = null)
   const session = await getUserSession(event)
   const sid = session.secure?.sid
   let found: LiveSession | null = null

@@ -13,7 +13,7 @@ import { signInThrottles } from '../database/schema'
  * The client's address: X-Forwarded-For only from a proxy named in runtimeConfig.trustedProxies.
  */
 export function requestAddress(event: H3Event): string {
-  const trusted = parseTrustedProxies(String(useRuntimeConfig(event).trustedProxies ?? ''))
+  const trusted = parseTrustedProxies(String(useRuntimeConfig().trustedProxies ?? ''))
   return clientAddress(
     event.node.req.socket.remoteAddress,
     getRequestHeader(event, 'x-forwarded-for'),

@@ -7,22 +7,13 @@ import { CARRIERS, CARRIER_IDS } from '../utils/carriers'
 import { ORDER_STATUSES, PAYMENT_METHODS } from '../utils/order-flow'
 import { PRODUCT_KINDS } from '../utils/states'
 import { multiLine, plainId, singleLine, wholeNumber } from './text'
+import { MAX_LINE_QUANTITY } from '../utils/cart-lines'
 
 const id = (what: string) => plainId(`Choose ${what}.`)
 
-export const MAX_LINE_QUANTITY = 500
-
-/** What is wrong with a cart line's quantity, in the words shown beside it; null when it can
- *  be ordered. `available` is the stock the server reported, when known. */
-export function lineQuantityProblem(quantity: number, available?: number): string | null {
-  if (!Number.isInteger(quantity) || quantity < 1 || quantity > MAX_LINE_QUANTITY)
-    return `The quantity must be a whole number from 1 to ${MAX_LINE_QUANTITY}.`
-  if (available !== undefined && quantity > available)
-    return available > 0
-      ? `Only ${available} left in stock: lower the quantity to ${available} or fewer.`
-      : 'Out of stock: remove this line.'
-  return null
-}
+// The cart's quantity rule lives without zod (the cart store is on every page); re-exported here
+// for the forms and routes that validate with these schemas.
+export { MAX_LINE_QUANTITY, lineQuantityProblem } from '../utils/cart-lines'
 
 export const cartLineSchema = z.object({
   productId: id('a product'),

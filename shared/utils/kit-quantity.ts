@@ -1,6 +1,6 @@
 // What the kit page says about the quantity typed beside "Add to cart": the line's own limits,
 // then the stock left once the cart's quantity of the same kit is counted.
-import { MAX_LINE_QUANTITY } from '../schemas/shop'
+import { MAX_LINE_QUANTITY } from './cart-lines'
 
 /** The problem with adding `quantity` of a kit with `available` in stock when the cart holds
  *  `inCart` of it already; '' when it can be added. */

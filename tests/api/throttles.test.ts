@@ -67,10 +67,8 @@ function behindProxy(clientIp: string) {
     })
   return {
     async login(email: string, password: string) {
-      if (!csrf)
-        csrf
-          = (await send('GET', '/')).body.match(/<meta name="csrf-token" content="([^"]+)"/)?.[1]
-            ?? ''
+      // A token as a signed-out page gets one (its snapshot carries none): on demand.
+      if (!csrf) csrf = (await send('GET', '/api/csrf-token')).body.token ?? ''
       return send('POST', '/api/auth/login', { email, password })
     },
   }

@@ -1,5 +1,6 @@
 // A small HTTP client for API tests: keeps cookies like a browser, fetches the CSRF
-// token the way a page does (from the rendered meta tag), and returns status + JSON.
+// token the way a page does (from the rendered meta tag, else from /api/csrf-token), and
+// returns status + JSON.
 import { expect, inject } from 'vitest'
 
 export interface Reply<T = any> {
@@ -47,6 +48,9 @@ export class Client {
     const html = await res.text()
     const m = html.match(/<meta name="csrf-token" content="([^"]+)"/)
     if (m) this.csrf = m[1]!
+    // A page served to signed-out visitors is a shared snapshot without a token: fetch one as
+    // useApi() does before its first write.
+    else if (!this.csrf) this.csrf = (await (await this.raw('/api/csrf-token')).json()).token
     return html
   }
 

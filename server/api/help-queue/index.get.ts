@@ -6,7 +6,7 @@ import { and, asc, desc, eq, isNull, lte, sql } from 'drizzle-orm'
 import { queueQuerySchema } from '../../../shared/schemas/tickets'
 import { containsPattern } from '../../../shared/utils/paging'
 import { PRIORITY_RANK, TICKET_AGE_HOURS } from '../../../shared/utils/tickets'
-import { TICKET_STATUSES } from '../../../shared/utils/states'
+import { TICKET_PRIORITIES } from '../../../shared/utils/states'
 import { schools, tickets } from '../../database/schema'
 import type { QueueReply } from '../../../shared/types/tickets'
 
@@ -17,14 +17,18 @@ const rankOf = (column: Ranked, ranks: [string, number][]) =>
     sql` `,
   )} end)`
 
+// MariaDB sorts an ENUM column by the position of its value in the declaration, and both enums
+// are declared in rank order (TICKET_PRIORITIES low → urgent, TICKET_STATUSES in the queue's
+// order): sorting the column itself sorts by rank and can read an index in order. If a
+// declaration ever leaves rank order, the rank expression takes over.
+const enumInRankOrder = TICKET_PRIORITIES.every((p, i) => PRIORITY_RANK[p] === i)
 const SORTS = {
   createdAt: tickets.createdAt,
   lastMessageAt: tickets.lastMessageAt,
-  priority: rankOf(tickets.priority, Object.entries(PRIORITY_RANK)),
-  status: rankOf(
-    tickets.status,
-    TICKET_STATUSES.map((s, i) => [s, i]),
-  ),
+  priority: enumInRankOrder
+    ? tickets.priority
+    : rankOf(tickets.priority, Object.entries(PRIORITY_RANK)),
+  status: tickets.status,
   subject: tickets.subject,
   school: schools.name,
 }

@@ -3,13 +3,15 @@ import type { ProductDetail } from '../../../shared/types/shop'
 
 export default defineEventHandler(async (event): Promise<ProductDetail> => {
   const { slug } = paramsAs(event, slugParams, 'That product')
-  const [entry] = await loadCatalog(useDb(), { activeOnly: true, slug })
+  const catalog = await publicCatalog()
+  const entry = catalog.find(e => e.row.slug === slug)
   if (!entry) throw notFound('That product')
-  const view = withoutPricesIf(await hidePricesFor(event), productView(entry))
-  return {
-    ...view,
+  const hide = await hidePricesFor(event)
+  const detail = (): ProductDetail => ({
+    ...withoutPricesIf(hide, productView(entry)),
     description: entry.row.description,
     specs: entry.row.specs,
     weightGrams: entry.row.weightGrams,
-  }
+  })
+  return hide ? detail() : jsonOnce(event, catalog, slug, detail)
 })
