@@ -113,3 +113,9 @@ export function someCause(error: unknown, match: (e: DriverError) => boolean, de
 export function isDuplicateKey(e: unknown): boolean {
   return someCause(e, c => c.code === 'ER_DUP_ENTRY' || c.errno === 1062)
 }
+
+/** A deadlock (1213) or a lock wait timeout (1205): worth another try. On Galera a commit that
+ *  loses certification to another node's conflicting write answers 1213 too, at COMMIT. */
+export function isLockFailure(e: unknown): boolean {
+  return someCause(e, c => c.errno === 1213 || c.errno === 1205)
+}

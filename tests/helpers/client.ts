@@ -13,7 +13,9 @@ export interface RequestOptions {
 }
 
 export class Client {
-  readonly baseUrl = inject('baseUrl')
+  // Another app instance of the same deployment (sessions and CSRF secrets are shared).
+  constructor(readonly baseUrl: string = inject('baseUrl')) {}
+
   private cookies = new Map<string, string>()
   private csrf = ''
 
@@ -48,9 +50,10 @@ export class Client {
     return html
   }
 
-  /** A second client holding a copy of this one's cookies and CSRF token (a stolen cookie). */
-  clone(): Client {
-    const copy = new Client()
+  /** A second client holding a copy of this one's cookies and CSRF token (a stolen cookie, or
+   *  the same browser sent to another instance by a load balancer). */
+  clone(baseUrl = this.baseUrl): Client {
+    const copy = new Client(baseUrl)
     for (const [k, v] of this.cookies) copy.cookies.set(k, v)
     copy.csrf = this.csrf
     return copy
