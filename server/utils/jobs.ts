@@ -3,8 +3,7 @@
 // change, so a job exists exactly when its change does. runDueJobs() (Nitro's scheduled task
 // `jobs:run`, nudged right after a commit) claims a due row with a committed lease, so two app
 // instances (even on two Galera nodes) never run the same job, and retries a failure with
-// back-off. A job that keeps
-// failing ends `failed` and its kind's giveUp() undoes what it must.
+// back-off. A job that keeps failing ends `failed` and its kind's giveUp() undoes what it must.
 import { hostname } from 'node:os'
 import { randomBytes } from 'node:crypto'
 import { and, asc, eq, gte, isNull, lt, lte, min, or, sql } from 'drizzle-orm'

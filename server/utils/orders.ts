@@ -64,7 +64,9 @@ export async function transactionWithRetry<T>(
     try {
       return await useDb().transaction(fn)
     } catch (e) {
-      if (i >= attempts || !isLockFailure(e)) throw e
+      // A lock wait timeout already cost a long wait (innodb_lock_wait_timeout): one more try.
+      const timedOut = someCause(e, c => c.errno === 1205)
+      if (i >= attempts || !isLockFailure(e) || (timedOut && i >= 2)) throw e
       // One line per retry: the cluster test counts them (docs/scaling.md).
       console.warn(`[db] lock conflict, transaction retried (attempt ${i + 1})`)
       await new Promise(r => setTimeout(r, 20 * i + Math.random() * 30 * i))
