@@ -18,7 +18,12 @@ const DOWN_CODES = new Set([
 export function isDatabaseDown(error: unknown): boolean {
   return someCause(
     error,
-    c => DOWN_CODES.has(c.code ?? '') || (c.fatal === true && c.sqlState !== undefined),
+    c =>
+      DOWN_CODES.has(c.code ?? '')
+      || (c.fatal === true && c.sqlState !== undefined)
+      // A pooled connection whose server died mid-transaction (a Galera node killed): the
+      // driver refuses the ROLLBACK with a fatal error that carries no code.
+      || (c.fatal === true && /connection is in closed state/.test(c.message ?? '')),
   )
 }
 

@@ -95,6 +95,7 @@ interface DriverError {
   errno?: number
   fatal?: boolean
   sqlState?: string
+  message?: string
   cause?: unknown
 }
 
