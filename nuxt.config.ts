@@ -47,6 +47,9 @@ export default defineNuxtConfig({
     mailCatcherUrl: 'http://127.0.0.1:1080',
     /** First retry delay of a failed job (mail, provider call, webhook delivery); doubles after. */
     outboxRetryBaseMs: 15_000,
+    // How long a job runner's claim holds a job (renewed while it runs); a runner that dies
+    // frees its job after at most this long (server/utils/jobs.ts).
+    jobLeaseMs: 30_000,
     cardHoldHours: CARD_HOLD_HOURS,
     cardHoldSweepMs: 600_000,
     publicUrl: 'http://localhost:3000',
@@ -77,13 +80,10 @@ export default defineNuxtConfig({
   buildDir: process.env.TILTWRIGHT_BUILD_DIR || '.nuxt',
   routeRules: {
     // The planner's computation is open to anyone and changes nothing: no CSRF token needed,
-    // but a per-address rate limit (nuxt-security) keeps it from being used as a free CPU.
-    '/api/planner/**': {
-      csurf: false,
-      security: {
-        rateLimiter: { tokensPerInterval: 240, interval: 60_000, headers: true, throwError: true },
-      },
-    },
+    // but a per-address rate limit keeps it from being used as a free CPU. The limit is counted
+    // in the database (server/middleware/rate-limits.ts), not in nuxt-security's in-memory
+    // limiter, so that every instance behind a load balancer shares one count.
+    '/api/planner/**': { csurf: false },
     // Callers that cannot carry a page's CSRF token: the payment provider's webhook, and the
     // fake's API and hosted pages (the fake is not served at all outside fake mode).
     '/api/webhooks/**': { csurf: false },

@@ -20,10 +20,15 @@ export interface DbInstance {
 
 export const projectRoot = resolve(import.meta.dirname, '..', '..')
 
-export function instance(name: string, port: number, database: string): DbInstance {
-  const dataDir = resolve(projectRoot, 'data', `mariadb-${name}`)
+export function instance(
+  name: string,
+  port: number,
+  database: string,
+  folder = resolve(projectRoot, 'data'),
+): DbInstance {
+  const dataDir = resolve(folder, `mariadb-${name}`)
   // mariadbd aborts on a socket path over 107 bytes; deep checkouts fall back to /tmp.
-  let socket = resolve(projectRoot, 'data', `mariadb-${name}.sock`)
+  let socket = resolve(folder, `mariadb-${name}.sock`)
   if (Buffer.byteLength(socket) > 100) {
     const tag = createHash('sha1').update(projectRoot).digest('hex').slice(0, 10)
     socket = `/tmp/tiltwright-${tag}-${name}.sock`
@@ -69,15 +74,18 @@ export function ping(db: DbInstance): boolean {
   return r.status === 0
 }
 
-function sql(db: DbInstance, statement: string) {
+/** Runs statements as root over the socket; gives what they print (tab-separated, no header). */
+export function rootSql(db: DbInstance, statement: string): string {
   const { client } = binaries()
   const r = spawnSync(
     client,
-    ['--no-defaults', `--socket=${db.socket}`, '-uroot', '-e', statement],
+    ['--no-defaults', `--socket=${db.socket}`, '-uroot', '-N', '-B', '-e', statement],
     { encoding: 'utf8' },
   )
   if (r.status !== 0) throw new Error(`SQL failed on the ${db.name} database: ${r.stderr}`)
+  return r.stdout
 }
+const sql = rootSql
 
 export interface Started {
   db: DbInstance
@@ -85,11 +93,21 @@ export interface Started {
   stop: () => void
 }
 
+export interface StartOptions {
+  /** Remove the data folder first (and stop a running server of the instance). */
+  fresh?: boolean
+  /** More server options (a Galera node's wsrep settings: scripts/lib/galera.ts). */
+  serverArgs?: string[]
+  /** Ready beyond answering a ping (a Galera node: synced with its cluster). */
+  ready?: () => boolean
+  /** Seconds to wait for it (a Galera joiner copies the whole data folder first). */
+  timeoutS?: number
+  /** Leave an empty data folder as it is (a Galera joiner receives its data from the cluster). */
+  noInit?: boolean
+}
+
 /** Start the instance unless it already answers; returns whether this call started it. */
-export async function startMariaDb(
-  db: DbInstance,
-  opts: { fresh?: boolean } = {},
-): Promise<Started> {
+export async function startMariaDb(db: DbInstance, opts: StartOptions = {}): Promise<Started> {
   const bins = binaries()
   if (ping(db)) {
     if (opts.fresh) shutdown(db)
@@ -99,7 +117,7 @@ export async function startMariaDb(
     }
   }
   if (opts.fresh) rmSync(db.dataDir, { recursive: true, force: true })
-  if (!existsSync(resolve(db.dataDir, 'mysql'))) {
+  if (!opts.noInit && !existsSync(resolve(db.dataDir, 'mysql'))) {
     mkdirSync(db.dataDir, { recursive: true })
     const r = spawnSync(
       bins.installDb,
@@ -114,7 +132,8 @@ export async function startMariaDb(
     )
     if (r.status !== 0) throw new Error(`mariadb-install-db failed: ${r.stderr || r.stdout}`)
   }
-  const log = openSync(resolve(db.dataDir, '..', `mariadb-${db.name}.log`), 'a')
+  const logFile = resolve(db.dataDir, '..', `mariadb-${db.name}.log`)
+  const log = openSync(logFile, 'a')
   const child = spawn(
     bins.mariadbd,
     [
@@ -130,16 +149,18 @@ export async function startMariaDb(
       '--character-set-server=utf8mb4',
       '--collation-server=utf8mb4_unicode_ci',
       '--max-connections=300',
+      ...(opts.serverArgs ?? []),
     ],
     { stdio: ['ignore', log, log], detached: true },
   )
   child.unref()
-  const deadline = Date.now() + 30_000
-  while (!ping(db)) {
+  const timeoutS = opts.timeoutS ?? 30
+  const deadline = Date.now() + timeoutS * 1000
+  while (!ping(db) || (opts.ready && !opts.ready())) {
     if (child.exitCode !== null)
-      throw new Error(`mariadbd exited (code ${child.exitCode}); see data/mariadb-${db.name}.log`)
+      throw new Error(`mariadbd exited (code ${child.exitCode}); see ${logFile}`)
     if (Date.now() > deadline)
-      throw new Error(`mariadbd did not answer within 30 s; see data/mariadb-${db.name}.log`)
+      throw new Error(`mariadbd did not answer within ${timeoutS} s; see ${logFile}`)
     await new Promise(r => setTimeout(r, 200))
   }
   ensureDatabase(db)

@@ -7,6 +7,8 @@ export function which(
   binary: string,
   extraDirs: string[] = ['/usr/sbin', '/usr/bin', '/usr/local/bin'],
 ): string | null {
+  // A path names a file a package installs (a library such as Galera's provider).
+  if (binary.includes('/')) return existsSync(binary) ? binary : null
   const r = spawnSync('sh', ['-c', `command -v ${binary}`], { encoding: 'utf8' })
   if (r.status === 0 && r.stdout.trim()) return r.stdout.trim()
   for (const dir of extraDirs) {

@@ -150,6 +150,25 @@ export const signInThrottles = mysqlTable(
   ],
 )
 
+/** Requests per client address, limit and window (server/utils/rate-limits.ts): counted in the
+ *  database so every app instance counts the same requests. Old windows are swept. */
+export const rateLimitHits = mysqlTable(
+  'rate_limit_hits',
+  {
+    id: id(),
+    bucket: varchar('bucket', { length: 40 }).notNull(),
+    address: varchar('address', { length: 64 }).notNull(),
+    /** The window's number: milliseconds since the epoch divided by the window's length. */
+    window: bigint('window_no', { mode: 'number', unsigned: true }).notNull(),
+    hits: int('hits').notNull().default(0),
+    expiresAt: datetime('expires_at', { mode: 'date', fsp: 3 }).notNull(),
+  },
+  t => [
+    uniqueIndex('rate_limit_hits_key').on(t.bucket, t.address, t.window),
+    index('rate_limit_hits_expires_idx').on(t.expiresAt),
+  ],
+)
+
 /**
  * Account mail sent per recipient, kind and hour: the cap on reset, verification and invitation
  * mail.
@@ -187,6 +206,10 @@ export const jobs = mysqlTable(
       .default(sql`CURRENT_TIMESTAMP(3)`),
     lastError: varchar('last_error', { length: 500 }),
     doneAt: datetime('done_at', { mode: 'date', fsp: 3 }),
+    // A committed lease (server/utils/jobs.ts): the claim of the runner that holds the job, and
+    // until when. Row locks do not cross Galera nodes; a committed row does.
+    claimedBy: varchar('claimed_by', { length: 64 }),
+    leaseUntil: datetime('lease_until', { mode: 'date', fsp: 3 }),
     createdAt: createdAt(),
   },
   t => [

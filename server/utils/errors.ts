@@ -96,6 +96,7 @@ interface DriverError {
   errno?: number
   fatal?: boolean
   sqlState?: string
+  message?: string
   cause?: unknown
 }
 
@@ -142,4 +143,10 @@ export function isDatabaseDown(error: unknown): boolean {
       // own error (Nuxt's createError) is also `fatal` without a code.
       || (c.fatal === true && CLOSED_CONNECTION.test(c.message ?? '')),
   )
+}
+
+/** A deadlock (1213) or a lock wait timeout (1205): worth another try. On Galera a commit that
+ *  loses certification to another node's conflicting write answers 1213 too, at COMMIT. */
+export function isLockFailure(e: unknown): boolean {
+  return someCause(e, c => c.errno === 1213 || c.errno === 1205)
 }

@@ -43,7 +43,7 @@ export async function claimSignInAttempt(
   // The row exists before the locking read, so the lock is a plain row lock (no gap-lock
   // deadlocks).
   await db.insert(signInThrottles).ignore().values({ email, address })
-  const waitMs = await db.transaction(async (tx) => {
+  const waitMs = await transactionWithRetry(async (tx) => {
     const [row] = await tx.select().from(signInThrottles).where(pair(email, address)).for('update')
     const now = Date.now()
     const wait = row ? row.nextAttemptAt.getTime() - now : 0
@@ -71,7 +71,7 @@ export async function refundSignInAttempt(
   address: string,
   rules: ThrottleRules = THROTTLE,
 ) {
-  await useDb().transaction(async (tx) => {
+  await transactionWithRetry(async (tx) => {
     const [row] = await tx.select().from(signInThrottles).where(pair(email, address)).for('update')
     if (!row || row.attempts === 0) return
     const attempts = row.attempts - 1

@@ -5,8 +5,12 @@ import { inject } from 'vitest'
 
 // Row values are whatever the driver gives back for the statement the test wrote.
 
-export async function sql<T = any>(statement: string, params: unknown[] = []): Promise<T[]> {
-  const conn = await mysql.createConnection({ uri: inject('dbUrl') })
+export async function sql<T = any>(
+  statement: string,
+  params: unknown[] = [],
+  uri: string = inject('dbUrl'),
+): Promise<T[]> {
+  const conn = await mysql.createConnection({ uri })
   try {
     const [rows] = await conn.query(statement, params)
     return rows as T[]

@@ -1,7 +1,7 @@
 // A second app process from the same build, on its own port and the same database: a
 // restart, or a second instance behind a load balancer, as an operator would run one.
 import { spawn, type ChildProcess } from 'node:child_process'
-import { readFileSync } from 'node:fs'
+import { appendFileSync, readFileSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { inject } from 'vitest'
 import { projectRoot, startMariaDb } from '../../scripts/lib/mariadb'
@@ -68,30 +68,50 @@ export async function startAppInstance(
   change: Record<string, string | undefined> = {},
 ): Promise<AppInstance> {
   const { url, child } = spawnApp(port, change)
+  return awaitApp(url, child)
+}
+
+/** Starts a built app (`entry`, its server/index.mjs) with exactly this environment and waits
+ *  until it answers; what it prints is also appended to `logFile` when one is named. */
+export function launchApp(
+  entry: string,
+  env: Record<string, string>,
+  logFile?: string,
+): Promise<AppInstance> {
+  const url = `http://localhost:${env.PORT}`
+  const child = spawn(process.execPath, [entry], {
+    cwd: projectRoot,
+    env,
+    stdio: ['ignore', 'pipe', 'pipe'],
+  })
+  return awaitApp(url, child, logFile)
+}
+
+async function awaitApp(url: string, child: ChildProcess, logFile?: string) {
   let log = ''
-  child.stdout!.on('data', (d) => {
+  const keep = (d: Buffer) => {
     log += d
-  })
-  child.stderr!.on('data', (d) => {
-    log += d
-  })
+    if (logFile) appendFileSync(logFile, d)
+  }
+  child.stdout!.on('data', keep)
+  child.stderr!.on('data', keep)
   const deadline = Date.now() + 30_000
   for (;;) {
-    if (child.exitCode !== null) throw new Error(`the second instance exited: ${log}`)
+    if (child.exitCode !== null) throw new Error(`the app instance at ${url} exited: ${log}`)
     try {
       if ((await fetch(`${url}/api/_auth/session`)).ok) break
     } catch {
       /* not up yet */
     }
-    if (Date.now() > deadline) throw new Error(`the second instance did not answer: ${log}`)
+    if (Date.now() > deadline) throw new Error(`the app instance at ${url} did not answer: ${log}`)
     await new Promise(r => setTimeout(r, 200))
   }
   return {
     url,
     process: child,
     log: () => log,
-    kill: (signal = 'SIGKILL') =>
-      new Promise((done) => {
+    kill: (signal: NodeJS.Signals = 'SIGKILL') =>
+      new Promise<void>((done) => {
         if (child.exitCode !== null || child.signalCode !== null) return done()
         child.once('exit', () => done())
         child.kill(signal)

@@ -44,59 +44,30 @@ export default async function setup(project: TestProject) {
   })
   await fetch(`http://127.0.0.1:${MAIL_HTTP_PORT}/messages`, { method: 'DELETE' })
 
-  const buildEnv = {
-    ...process.env,
-    TILTWRIGHT_BUILD_DIR: `.nuxt-test${SUFFIX}`,
-    TILTWRIGHT_OUTPUT_DIR: `.output-test${SUFFIX}`,
-    TILTWRIGHT_UPLOAD_DIR: uploadDir,
-  }
-  const build = spawnSync(resolve(projectRoot, 'node_modules/.bin/nuxt'), ['build'], {
-    cwd: projectRoot,
-    env: buildEnv,
-    encoding: 'utf8',
-  })
-  if (build.status !== 0) {
+  try {
+    buildApp(`.nuxt-test${SUFFIX}`, `.output-test${SUFFIX}`, uploadDir)
+  } catch (e) {
     await catcher.close()
     db.stop()
-    throw new Error(`nuxt build failed:\n${build.stdout}\n${build.stderr}`)
+    throw e
   }
 
   const baseUrl = `http://localhost:${APP_PORT}`
   // This run's own secrets, as `npm start` makes per install; tests sign and call with them.
   const secrets = newSecrets()
-  // The app is a production server, not a test process: without vitest's variables, so that
-  // Nitro's scheduled tasks (the job runner) start as they do in production.
-  const {
-    VITEST: _v,
-    VITEST_MODE: _vm,
-    VITEST_POOL_ID: _vp,
-    VITEST_WORKER_ID: _vw,
-    TEST: _t,
-    ...parentEnv
-  } = process.env
-  const appEnv: Record<string, string> = {
-    PORT: String(APP_PORT),
-    HOST: '127.0.0.1',
-    NODE_ENV: 'production',
-    NUXT_DATABASE_URL: db.db.url,
-    NUXT_SMTP_HOST: '127.0.0.1',
-    NUXT_SMTP_PORT: String(SMTP_PORT),
-    NUXT_MAIL_CATCHER_URL: `http://127.0.0.1:${MAIL_HTTP_PORT}`,
-    NUXT_PUBLIC_URL: baseUrl,
-    // Retry failed jobs quickly, so the outage test need not wait 15 s.
-    NUXT_OUTBOX_RETRY_BASE_MS: '400',
-    // Sweep stale card orders every second, so the hold test need not wait 10 minutes.
-    NUXT_CARD_HOLD_SWEEP_MS: '1000',
-    // Requests from 127.0.0.2 stand for a reverse proxy (the throttle test connects from there).
-    NUXT_TRUSTED_PROXIES: '127.0.0.2',
-    ...secretsEnv(secrets, true, {}),
-  }
+  const appEnv = testAppEnv({
+    port: APP_PORT,
+    dbUrl: db.db.url,
+    smtpPort: SMTP_PORT,
+    mailHttpPort: MAIL_HTTP_PORT,
+    secrets,
+  })
   const app: ChildProcess = spawn(
     process.execPath,
     [resolve(projectRoot, `.output-test${SUFFIX}/server/index.mjs`)],
     {
       cwd: projectRoot,
-      env: { ...parentEnv, ...appEnv },
+      env: productionEnv(appEnv),
       stdio: ['ignore', 'pipe', 'pipe'],
     },
   )
@@ -150,4 +121,64 @@ export default async function setup(project: TestProject) {
     await catcher.close()
     db.stop()
   }
+}
+
+/** One production build of the app into folders of its own, its uploads on local disk here. */
+export function buildApp(buildDir: string, outputDir: string, uploadDir: string) {
+  const buildEnv = {
+    ...process.env,
+    TILTWRIGHT_BUILD_DIR: buildDir,
+    TILTWRIGHT_OUTPUT_DIR: outputDir,
+    TILTWRIGHT_UPLOAD_DIR: uploadDir,
+  }
+  const build = spawnSync(resolve(projectRoot, 'node_modules/.bin/nuxt'), ['build'], {
+    cwd: projectRoot,
+    env: buildEnv,
+    encoding: 'utf8',
+  })
+  if (build.status !== 0) throw new Error(`nuxt build failed:\n${build.stdout}\n${build.stderr}`)
+}
+
+/** The environment of a test app instance: its port and database, the fake SMTP server, quick
+ *  retries and sweeps, short job leases, and this run's secrets. */
+export function testAppEnv(o: {
+  port: number
+  dbUrl: string
+  smtpPort: number
+  mailHttpPort: number
+  secrets: ReturnType<typeof newSecrets>
+}): Record<string, string> {
+  return {
+    PORT: String(o.port),
+    HOST: '127.0.0.1',
+    NODE_ENV: 'production',
+    NUXT_DATABASE_URL: o.dbUrl,
+    NUXT_SMTP_HOST: '127.0.0.1',
+    NUXT_SMTP_PORT: String(o.smtpPort),
+    NUXT_MAIL_CATCHER_URL: `http://127.0.0.1:${o.mailHttpPort}`,
+    NUXT_PUBLIC_URL: `http://localhost:${o.port}`,
+    // Retry failed jobs quickly, so the outage test need not wait 15 s.
+    NUXT_OUTBOX_RETRY_BASE_MS: '400',
+    // Sweep stale card orders every second, so the hold test need not wait 10 minutes.
+    NUXT_CARD_HOLD_SWEEP_MS: '1000',
+    // A killed app's job leases run out in 3 s, so the crash tests need not wait 30 s.
+    NUXT_JOB_LEASE_MS: '3000',
+    // Requests from 127.0.0.2 stand for a reverse proxy (the throttle test connects from there).
+    NUXT_TRUSTED_PROXIES: '127.0.0.2',
+    ...secretsEnv(o.secrets, true, {}),
+  }
+}
+
+/** The app process's environment without vitest's variables: a production server, so that
+ *  Nitro's scheduled tasks (the job runner) start as they do in production. */
+export function productionEnv(appEnv: Record<string, string>) {
+  const {
+    VITEST: _v,
+    VITEST_MODE: _vm,
+    VITEST_POOL_ID: _vp,
+    VITEST_WORKER_ID: _vw,
+    TEST: _t,
+    ...parentEnv
+  } = process.env
+  return { ...parentEnv, ...appEnv } as Record<string, string>
 }

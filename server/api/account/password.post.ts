@@ -15,7 +15,7 @@ export default defineEventHandler(async (event): Promise<OkReply> => {
     throw invalid({ currentPassword: 'That is not your current password.' })
   }
   const passwordHash = await hashPassword(newPassword)
-  await db.transaction(async (tx) => {
+  await transactionWithRetry(async (tx) => {
     await tx.update(users).set({ passwordHash }).where(eq(users.id, user.id))
     await revokeSessions(tx, user.id, sessionId)
     await spendResetLinks(tx, user.id)

@@ -9,7 +9,7 @@ export default defineEventHandler(async (event): Promise<AccountReply> => {
   const user = await requireRole(event, 'teacher')
   const input = await readBodyAs(event, schoolAddressSchema)
   if (!user.schoolId) throw notFound('Your school')
-  const school = await useDb().transaction(async (tx) => {
+  const school = await transactionWithRetry(async (tx) => {
     await tx.update(schools).set(input).where(eq(schools.id, user.schoolId!))
     await audit(tx, {
       actorId: user.id,

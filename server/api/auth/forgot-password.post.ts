@@ -10,7 +10,7 @@ export const FORGOT_PASSWORD_FLOOR_MS = 600
 export default defineEventHandler(async (event): Promise<MessageReply> => {
   const { email } = await readBodyAs(event, forgotPasswordSchema)
   await withTimingFloor(FORGOT_PASSWORD_FLOOR_MS, () =>
-    useDb().transaction(async (tx) => {
+    transactionWithRetry(async (tx) => {
       const user = await findUserByEmail(tx, email)
       if (user && !user.disabledAt) await sendPasswordReset(tx, user)
     }),

@@ -13,32 +13,31 @@ export default defineEventHandler(async (event): Promise<MessageReply> => {
   const input = await readBodyAs(event, registerSchema)
   // Hash before looking, so a known address costs the same time as a new one.
   const passwordHash = await hashPassword(input.password)
-  await useDb()
-    .transaction(async (tx) => {
-      const known = await findUserByEmail(tx, input.email)
-      if (known) {
-        await sendAccountExists(tx, known)
-        return
-      }
-      const [school] = await tx.insert(schools).values(input.school).$returningId()
-      const [user] = await tx
-        .insert(users)
-        .values({
-          email: input.email,
-          name: input.name,
-          passwordHash,
-          role: 'teacher',
-          schoolId: school!.id,
-        })
-        .$returningId()
-      await sendVerification(tx, { id: user!.id, name: input.name, email: input.email })
-      await audit(tx, {
-        actorId: user!.id,
-        action: 'account.registered',
-        subjectType: 'user',
-        subjectId: user!.id,
+  await transactionWithRetry(async (tx) => {
+    const known = await findUserByEmail(tx, input.email)
+    if (known) {
+      await sendAccountExists(tx, known)
+      return
+    }
+    const [school] = await tx.insert(schools).values(input.school).$returningId()
+    const [user] = await tx
+      .insert(users)
+      .values({
+        email: input.email,
+        name: input.name,
+        passwordHash,
+        role: 'teacher',
+        schoolId: school!.id,
       })
+      .$returningId()
+    await sendVerification(tx, { id: user!.id, name: input.name, email: input.email })
+    await audit(tx, {
+      actorId: user!.id,
+      action: 'account.registered',
+      subjectType: 'user',
+      subjectId: user!.id,
     })
+  })
     .catch((e) => {
       // Two registrations of one new address at once: the loser is told nothing different either.
       if (!isDuplicateKey(e)) throw e

@@ -5,6 +5,6 @@ import type { ResendVerificationReply } from '../../../shared/types/account'
 export default defineEventHandler(async (event): Promise<ResendVerificationReply> => {
   const user = await requireUser(event)
   if (user.verified) return { sent: false, verified: true }
-  const sent = await useDb().transaction(tx => sendVerification(tx, user))
+  const sent = await transactionWithRetry(tx => sendVerification(tx, user))
   return { sent, verified: false }
 })

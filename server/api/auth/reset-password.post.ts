@@ -10,7 +10,7 @@ import type { OkReply } from '../../../shared/types/common'
 export default defineEventHandler(async (event): Promise<OkReply> => {
   const { token, password } = await readBodyAs(event, resetPasswordSchema)
   const passwordHash = await hashPassword(password)
-  const done = await useDb().transaction(async (tx) => {
+  const done = await transactionWithRetry(async (tx) => {
     const id = await consumeToken(tx, token, 'reset-password')
     if (id === null) return false
     // Reading the link proves the address, so a reset also verifies it.

@@ -5,7 +5,7 @@ import type { VerifiedReply } from '../../../shared/types/account'
 
 export default defineEventHandler(async (event): Promise<VerifiedReply> => {
   const { token } = await readBodyAs(event, verifyEmailSchema)
-  const userId = await useDb().transaction(async (tx) => {
+  const userId = await transactionWithRetry(async (tx) => {
     const id = await consumeToken(tx, token, 'verify-email')
     if (id === null) return null
     await tx.update(users).set({ verifiedAt: new Date() }).where(eq(users.id, id))

@@ -13,7 +13,7 @@ export default defineEventHandler(async (event): Promise<UserReply> => {
   const passwordHash = await hashPassword(input.password)
   const user = await withJoinThrottle(event, () =>
     uniqueOr409('username', USERNAME_TAKEN, () =>
-      useDb().transaction(async (tx) => {
+      transactionWithRetry(async (tx) => {
         const { c, order } = await liveJoinCode(tx, input.code, true)
         await tx.update(joinCodes).set({ uses: c.uses + 1 }).where(eq(joinCodes.id, c.id))
         const [made] = await tx

@@ -12,7 +12,7 @@ export default defineEventHandler(async (event): Promise<QuoteCreatedReply> => {
   const user = await requireRole(event, 'teacher')
   const input = await readBodyAs(event, cartSchema)
   if (!user.schoolId) throw forbidden('Your account has no school to quote for.')
-  const reply = await useDb().transaction(async (tx) => {
+  const reply = await transactionWithRetry(async (tx) => {
     const src = await resolveCheckout(tx, user, { lines: input.lines })
     const now = new Date()
     const validUntil = addDays(now, QUOTE_VALID_DAYS)

@@ -9,7 +9,7 @@ export default defineEventHandler(async (event): Promise<RigView> => {
   const user = await requireUser(event)
   const { id } = paramsAs(event, idParams, 'That rig')
   const input = await readBodyAs(event, updateRigSchema)
-  return useDb().transaction(async (tx) => {
+  return transactionWithRetry(async (tx) => {
     const { rig, role } = await lockRigFor(tx, user, id, 'manage')
     const retiredAt = input.retired === undefined
       ? undefined

@@ -19,7 +19,7 @@ export default defineEventHandler(async (event): Promise<SheetView> => {
     ...(input.measured !== undefined ? { measured: input.measured } : {}),
   }
   if (Object.keys(changes).length)
-    await useDb().transaction(async (tx) => {
+    await transactionWithRetry(async (tx) => {
       await tx.update(tuningSheets).set(changes).where(eq(tuningSheets.id, id))
       if (sheet.rigId !== null) await touchRig(tx, sheet.rigId)
     })

@@ -9,7 +9,7 @@ export default defineEventHandler(async (event): Promise<CreatedReply> => {
   const user = await requireRole(event, 'teacher', 'builder')
   const input = await readBodyAs(event, createSheetSchema)
   const results = sheetResults(input.inputs)
-  const id = await useDb().transaction(async (tx) => {
+  const id = await transactionWithRetry(async (tx) => {
     if (input.rigId !== undefined) {
       await lockRigFor(tx, user, input.rigId, 'work')
       await touchRig(tx, input.rigId)

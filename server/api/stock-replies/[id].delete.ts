@@ -4,7 +4,7 @@ import { idParams } from '../../../shared/schemas/ids'
 export default defineEventHandler(async (event) => {
   const user = await requireRole(event, 'support', 'admin')
   const { id } = paramsAs(event, idParams, 'That stock reply')
-  await useDb().transaction(tx =>
+  await transactionWithRetry(tx =>
     changeStockReply(tx, user, id, { archivedAt: new Date() }, 'archive'),
   )
   return sendNoContent(event)

@@ -8,7 +8,7 @@ export default defineEventHandler(async (event): Promise<StockReplyView> => {
   const { id } = paramsAs(event, idParams, 'That stock reply')
   const input = await readBodyAs(event, stockReplySchema)
   await uniqueOr409('title', STOCK_REPLY_TITLE_TAKEN, () =>
-    useDb().transaction(tx =>
+    transactionWithRetry(tx =>
       changeStockReply(tx, user, id, { ...input, updatedAt: new Date() }, 'update'),
     ),
   )

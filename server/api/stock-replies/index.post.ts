@@ -7,7 +7,7 @@ export default defineEventHandler(async (event): Promise<CreatedReply> => {
   const user = await requireRole(event, 'support', 'admin')
   const input = await readBodyAs(event, stockReplySchema)
   const id = await uniqueOr409('title', STOCK_REPLY_TITLE_TAKEN, () =>
-    useDb().transaction(async (tx) => {
+    transactionWithRetry(async (tx) => {
       const [ins] = await tx
         .insert(stockReplies)
         .values({ ...input, createdById: user.id })

@@ -7,7 +7,7 @@ import { removeStoredFile } from '../../services/files'
 export default defineEventHandler(async (event) => {
   const user = await requireUser(event)
   const { id } = paramsAs(event, idParams, 'That file')
-  const key = await useDb().transaction(async (tx) => {
+  const key = await transactionWithRetry(async (tx) => {
     const [a] = await tx
       .select()
       .from(ticketAttachments)

@@ -3,7 +3,7 @@ import type { OkReply } from '../../../../shared/types/common'
 
 export default defineEventHandler(async (event): Promise<OkReply> => {
   const user = await requireUser(event)
-  await useDb().transaction(async (tx) => {
+  await transactionWithRetry(async (tx) => {
     await revokeSessions(tx, user.id)
     await audit(tx, {
       actorId: user.id,

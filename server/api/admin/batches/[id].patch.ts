@@ -9,7 +9,7 @@ export default defineEventHandler(async (event): Promise<BatchRecountReply> => {
   const admin = await requireRole(event, 'admin')
   const { id } = paramsAs(event, idParams, 'That batch')
   const input = await readBodyAs(event, batchPatchSchema)
-  return useDb().transaction(async (tx) => {
+  return transactionWithRetry(async (tx) => {
     const [b] = await tx.select().from(batches).where(eq(batches.id, id)).limit(1).for('update')
     if (!b) throw notFound('That batch')
     if (input.quantity < b.reserved)

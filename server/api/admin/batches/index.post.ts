@@ -8,7 +8,7 @@ export default defineEventHandler(async (event): Promise<CreatedReply> => {
   const admin = await requireRole(event, 'admin')
   const input = await readBodyAs(event, batchSchema)
   const id = await uniqueOr409('code', 'A batch with that code already exists.', () =>
-    useDb().transaction(async (tx) => {
+    transactionWithRetry(async (tx) => {
       const [p] = await tx
         .select({ id: products.id })
         .from(products)

@@ -11,7 +11,7 @@ export default defineEventHandler(async (event): Promise<ProductView> => {
   const { id } = paramsAs(event, idParams, 'That product')
   const { tiers, ...input } = await readBodyAs(event, productPatchSchema)
   await uniqueOr409('slug', 'Another product already uses that slug.', () =>
-    useDb().transaction(async (tx) => {
+    transactionWithRetry(async (tx) => {
       const [p] = await tx.select().from(products).where(eq(products.id, id)).limit(1).for('update')
       if (!p) throw notFound('That product')
       if (Object.keys(input).length) await tx.update(products).set(input).where(eq(products.id, id))

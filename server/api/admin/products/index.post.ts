@@ -7,7 +7,7 @@ export default defineEventHandler(async (event): Promise<CreatedReply> => {
   const admin = await requireRole(event, 'admin')
   const { tiers, ...input } = await readBodyAs(event, productSchema)
   const id = await uniqueOr409('slug', 'Another product already uses that slug.', () =>
-    useDb().transaction(async (tx) => {
+    transactionWithRetry(async (tx) => {
       const [last] = await tx.select({ n: max(products.sortOrder) }).from(products)
       const [row] = await tx
         .insert(products)

@@ -11,7 +11,7 @@ export default defineEventHandler(async (event): Promise<CreatedReply> => {
   const input = await readBodyAs(event, createStaffSchema)
   const passwordHash = await hashPassword(randomBytes(24).toString('base64url'))
   const id = await uniqueOr409('email', 'Someone already uses that e-mail address.', () =>
-    useDb().transaction(async (tx) => {
+    transactionWithRetry(async (tx) => {
       const [row] = await tx
         .insert(users)
         .values({ ...input, passwordHash, verifiedAt: null })

@@ -16,7 +16,7 @@ export default defineEventHandler(async (event): Promise<RigView> => {
     const words = fit.issues.map(i => i.message).join(' ') || 'These readings give no fit.'
     throw invalid({ pairs: words }, 'The readings give no calibration.')
   }
-  return useDb().transaction(async (tx) => {
+  return transactionWithRetry(async (tx) => {
     const { role } = await lockRigFor(tx, user, id, 'work')
     const now = new Date()
     await tx

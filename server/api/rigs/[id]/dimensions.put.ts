@@ -9,7 +9,7 @@ export default defineEventHandler(async (event): Promise<RigView> => {
   const user = await requireUser(event)
   const { id } = paramsAs(event, idParams, 'That rig')
   const { rig } = await readBodyAs(event, rigDimensionsSchema)
-  return useDb().transaction(async (tx) => {
+  return transactionWithRetry(async (tx) => {
     const { role } = await lockRigFor(tx, user, id, 'work')
     const now = new Date()
     await tx

@@ -9,7 +9,7 @@ export default defineEventHandler(async (event) => {
   const { id, userId } = paramsAs(event, builderParams, 'That builder')
   await loadSpaceFor(teacher, id, 'manage', ['teacher'])
   await loadMember(useDb(), id, userId)
-  await useDb().transaction(async (tx) => {
+  await transactionWithRetry(async (tx) => {
     await tx
       .delete(buildMembers)
       .where(and(eq(buildMembers.orderId, id), eq(buildMembers.userId, userId)))

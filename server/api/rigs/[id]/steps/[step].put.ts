@@ -10,7 +10,7 @@ export default defineEventHandler(async (event): Promise<RigView> => {
   const user = await requireUser(event)
   const { id, step } = paramsAs(event, rigStepParams, 'That rig')
   const input = await readBodyAs(event, updateStepSchema)
-  return useDb().transaction(async (tx) => {
+  return transactionWithRetry(async (tx) => {
     const { role } = await lockRigFor(tx, user, id, 'work')
     const now = new Date()
     const [had] = (await stepsOf(tx, [id])).filter(s => s.step === step)

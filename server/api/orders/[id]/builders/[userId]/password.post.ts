@@ -12,7 +12,7 @@ export default defineEventHandler(async (event): Promise<BuilderPasswordReply> =
   const member = await loadMember(useDb(), id, userId)
   const password = readablePassword()
   const passwordHash = await hashPassword(password)
-  await useDb().transaction(async (tx) => {
+  await transactionWithRetry(async (tx) => {
     await tx.update(users).set({ passwordHash }).where(eq(users.id, userId))
     await revokeSessions(tx, userId)
     if (member.username) await clearSignInThrottles(tx, member.username)
