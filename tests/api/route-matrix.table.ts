@@ -283,6 +283,8 @@ export const TABLE: Record<string, Row> = {
   // the cookie.
   'GET /api/_auth/session': { path: p('/api/_auth/session'), expect: all(200) },
   'DELETE /api/_auth/session': { path: p('/api/_auth/session'), fresh: true, expect: all(200) },
+  // A CSRF token for a page served as a shared snapshot: anyone, signed in or not.
+  'GET /api/csrf-token': { path: p('/api/csrf-token'), expect: all(200) },
 
   'GET /api/account': { path: p('/api/account'), expect: E(401, 200, 200, 200, 200, 200, 200) },
   // The caller's own name again, so that the seed accounts keep theirs for other test files.
