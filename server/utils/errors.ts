@@ -96,7 +96,6 @@ interface DriverError {
   errno?: number
   fatal?: boolean
   sqlState?: string
-  message?: string
   cause?: unknown
 }
 
