@@ -1,6 +1,6 @@
 // What is waiting on the staff (GET /api/staff/desk): purchase orders to review, orders to
-// allocate and to ship, oldest first, and mail that gave up. The order lists carry totals, so
-// they are the admin's only (support see no prices).
+// allocate and to ship, oldest first (the 20 oldest, with how many wait in all), and mail that
+// gave up. The order lists carry totals, so they are the admin's only (support see no prices).
 import { and, asc, count, eq, sql, type SQL } from 'drizzle-orm'
 import type { DeskOrder, StaffDesk } from '../../shared/types/staff'
 import { isAdmin, type SessionUser } from '../../shared/utils/roles'
@@ -23,7 +23,7 @@ const allocatedAt = sql<Date>`(select max(e.created_at) from order_events e
   where e.order_id = ${orders.id} and e.kind = 'allocated')`
 
 async function deskOrders(where: SQL | undefined, since: SQL<Date | string>) {
-  const rows = await useDb()
+  const listed = useDb()
     .select({
       id: orders.id,
       number: orders.number,
@@ -37,7 +37,13 @@ async function deskOrders(where: SQL | undefined, since: SQL<Date | string>) {
     .where(where)
     .orderBy(asc(since), asc(orders.id))
     .limit(DESK_LIST_LIMIT)
-  return rows.map(
+  const counted = useDb()
+    .select({ n: count() })
+    .from(orders)
+    .leftJoin(purchaseOrders, eq(purchaseOrders.orderId, orders.id))
+    .where(where)
+  const [rows, [total]] = await Promise.all([listed, counted])
+  const list = rows.map(
     (r): DeskOrder => ({
       id: r.id,
       number: r.number ?? '',
@@ -46,6 +52,7 @@ async function deskOrders(where: SQL | undefined, since: SQL<Date | string>) {
       since: new Date(r.since).toISOString(),
     }),
   )
+  return { list, total: total?.n ?? list.length }
 }
 
 export async function staffDesk(user: SessionUser): Promise<StaffDesk> {
@@ -54,7 +61,13 @@ export async function staffDesk(user: SessionUser): Promise<StaffDesk> {
     .from(jobs)
     .where(and(eq(jobs.kind, 'mail'), eq(jobs.state, 'failed')))
   if (!isAdmin(user))
-    return { poToReview: null, toAllocate: null, toShip: null, failedMail: failed?.n ?? 0 }
+    return {
+      poToReview: null,
+      toAllocate: null,
+      toShip: null,
+      waiting: null,
+      failedMail: failed?.n ?? 0,
+    }
   const [poToReview, toAllocate, toShip] = await Promise.all([
     deskOrders(
       and(eq(orders.status, 'po review'), eq(purchaseOrders.status, 'review')),
@@ -69,5 +82,15 @@ export async function staffDesk(user: SessionUser): Promise<StaffDesk> {
       sql<Date>`coalesce(${allocatedAt}, ${orders.updatedAt})`,
     ),
   ])
-  return { poToReview, toAllocate, toShip, failedMail: failed?.n ?? 0 }
+  return {
+    poToReview: poToReview.list,
+    toAllocate: toAllocate.list,
+    toShip: toShip.list,
+    waiting: {
+      poToReview: poToReview.total,
+      toAllocate: toAllocate.total,
+      toShip: toShip.total,
+    },
+    failedMail: failed?.n ?? 0,
+  }
 }

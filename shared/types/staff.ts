@@ -25,13 +25,15 @@ export interface DeskOrder {
 }
 
 /**
- * GET /api/staff/desk: what is waiting on the staff. The order lists are the admin's work
- * (null for support, who see no prices); failed mail is for everyone on the staff.
+ * GET /api/staff/desk: what is waiting on the staff. The order lists and their counts are the
+ * admin's work (null for support, who see no prices); failed mail is for everyone on the staff.
  */
 export interface StaffDesk {
   poToReview: DeskOrder[] | null
   toAllocate: DeskOrder[] | null
   toShip: DeskOrder[] | null
+  /** How many orders wait in each list in all (a list shows the oldest 20 of them). */
+  waiting: { poToReview: number, toAllocate: number, toShip: number } | null
   failedMail: number
 }
 

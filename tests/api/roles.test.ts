@@ -116,6 +116,7 @@ describe('the staff desk', () => {
       poToReview: null,
       toAllocate: null,
       toShip: null,
+      waiting: null,
       failedMail: expect.any(Number),
     })
     const admin = await (await as('admin')).get('/api/staff/desk')
@@ -125,6 +126,10 @@ describe('the staff desk', () => {
       const list = admin.body[key]
       expect(Array.isArray(list)).toBe(true)
       expect(list.length).toBeLessThanOrEqual(20)
+      // The count is of all that wait: the list is them all, or the 20 oldest of more.
+      const waiting = admin.body.waiting[key]
+      if (waiting <= 20) expect(list.length, key).toBe(waiting)
+      else expect(list.length, key).toBe(20)
       for (const o of list)
         expect(o).toEqual({
           id: expect.any(Number),

@@ -1,6 +1,6 @@
 // The staff side as a new colleague finds it, on a phone (390×844) and a desktop (1280×800):
-// the desk opens on its to-do list (a new purchase order waits there, linking to its order
-// page; an empty list says so), support sees no order lists, and on the staff page an admin
+// the desk opens on its to-do list (purchase orders wait there, counted, each linking to its
+// order page; an empty list says so), support sees no order lists, and on the staff page an admin
 // sees each colleague's status, changes a role, disables (after confirming) and enables an
 // account, and reads the server's refusal. Screenshots go to tests/.artifacts/shop-edges/.
 
@@ -29,9 +29,10 @@ async function signedInPage(email: string, viewport: { width: number, height: nu
 }
 
 describe('the staff desk', () => {
-  let order = { id: 0, number: '' }
+  let admin: Awaited<ReturnType<typeof signedIn>>
+  let newest = ''
   beforeAll(async () => {
-    const admin = await signedIn('admin@tiltwright.test')
+    admin = await signedIn('admin@tiltwright.test')
     const { productId } = await productWithStock(admin, 10)
     const t = await newTeacher('desk')
     const placed = await t.client.post(
@@ -39,19 +40,27 @@ describe('the staff desk', () => {
       poForm({ lines: [{ productId, quantity: 1 }] }),
     )
     if (placed.status !== 201) throw new Error(`order failed: ${placed.status}`)
-    const view = await admin.get(`/api/orders/${placed.body.orderId}`)
-    order = { id: placed.body.orderId, number: view.body.number }
+    newest = (await admin.get(`/api/orders/${placed.body.orderId}`)).body.number
+    if (!/^TW-\d+$/.test(newest)) throw new Error(`no order number: ${newest}`)
   })
 
-  it.each(SIZES)('lists a new purchase order for the admin on a $name', async ({
+  it.each(SIZES)('lists the purchase orders waiting for the admin on a $name', async ({
     name,
     viewport,
   }) => {
+    // What the desk holds now: the new order, and any that other tests left waiting before it
+    // (the list shows the oldest 20, so the first one listed is the one to follow).
+    const desk = (await admin.get('/api/staff/desk')).body
+    const waiting: number = desk.waiting.poToReview
+    expect(waiting).toBeGreaterThanOrEqual(1)
+    const first = desk.poToReview[0]
     const { ctx, page } = await signedInPage('admin@tiltwright.test', viewport)
     await gotoReady(page, '/staff')
     const review = page.getByRole('region', { name: /Purchase orders to review/ })
-    const link = review.getByRole('link', { name: order.number })
-    expect(await link.getAttribute('href')).toBe(`/admin/orders/${order.id}`)
+    expect(await review.getByRole('heading').textContent()).toContain(String(waiting))
+    expect(await review.getByTestId('desk-more').count()).toBe(waiting > 20 ? 1 : 0)
+    const link = review.getByRole('link', { name: first.number, exact: true })
+    expect(await link.getAttribute('href')).toBe(`/admin/orders/${first.id}`)
     expect(
       await page.evaluate(
         () => document.documentElement.scrollWidth - document.documentElement.clientWidth,
@@ -60,7 +69,7 @@ describe('the staff desk', () => {
     expect(await accessibilityViolations(page)).toEqual([])
     await shot(page, `staff-desk-admin-${name}`)
     await link.click()
-    await page.waitForURL(`**/admin/orders/${order.id}`)
+    await page.waitForURL(`**/admin/orders/${first.id}`)
     await page.getByRole('button', { name: 'Approve and send the invoice' }).waitFor()
     await ctx.close()
   })
@@ -70,7 +79,7 @@ describe('the staff desk', () => {
     // The desk's reply, empty, as the page fetches it after a move within the app.
     await page.route('**/api/staff/desk', route =>
       route.fulfill({
-        json: { poToReview: [], toAllocate: [], toShip: [], failedMail: 0 },
+        json: { poToReview: [], toAllocate: [], toShip: [], waiting: null, failedMail: 0 },
       }),
     )
     await gotoReady(page, '/account')
@@ -88,7 +97,7 @@ describe('the staff desk', () => {
     await page.getByRole('heading', { name: 'What support can do today' }).waitFor()
     await page.getByRole('heading', { name: 'To do' }).waitFor()
     expect(await page.getByText('Purchase orders to review').count()).toBe(0)
-    expect(await page.getByText(order.number).count()).toBe(0)
+    expect(await page.getByText(newest).count()).toBe(0)
     expect(await accessibilityViolations(page)).toEqual([])
     await shot(page, 'staff-desk-support-desktop')
     await ctx.close()
