@@ -186,6 +186,11 @@ describe('pages for the role', () => {
       const page = await browser.newPage()
       await signInThroughPage(page, 'teacher@tiltwright.test')
       expect(new URL(page.url()).pathname).toBe('/')
+      // A fresh browser holds no cart: the checkout says so beside its disabled button.
+      await gotoReady(page, '/checkout')
+      expect(await page.getByTestId('checkout-empty').textContent()).toContain('empty')
+      expect(await page.getByRole('button', { name: 'Place the order' })
+        .isDisabled()).toBe(true)
       await page.close()
     })
 

@@ -66,6 +66,14 @@ describe('a ticket from a phone to the help queue and back', () => {
     await suggestions.getByRole('heading', { name: 'These may already answer it' }).waitFor()
     expect(await suggestions.getByRole('link').count()).toBeGreaterThan(0)
     expect(await suggestions.getByRole('link').first().getAttribute('target')).toBe('_blank')
+    // The suggestions sit under their heading, not spread down a panel as tall as the form.
+    const headingBox = await suggestions.getByRole('heading').boundingBox()
+    const linkBox = await suggestions.getByRole('link').first().boundingBox()
+    expect(linkBox!.y - (headingBox!.y + headingBox!.height)).toBeLessThan(40)
+    // A builder has no e-mail address here, so the page promises an answer on the ticket only.
+    const intro = await builder.getByRole('heading', { name: 'Ask for help' })
+      .locator('xpath=following-sibling::p[1]').textContent()
+    expect(intro?.trim()).toMatch(/answers here\.$/)
 
     const sheetSelect = builder.getByLabel('Tuning sheet (optional)')
     const sheetTitle = (await sheetSelect.locator('option').nth(1).textContent())!.trim()
