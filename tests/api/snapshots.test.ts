@@ -95,6 +95,27 @@ describe('pages served to signed-out visitors', () => {
     expect(nonces[0]).not.toBe(nonces[1])
   })
 
+  it('leave a signed-in render its own nonce, and give API replies none to leak', async () => {
+    // server/plugins/request-constants.ts skips the nonce where nothing is rendered; a page
+    // rendered for a signed-in person must still get a fresh one, the same in header and page.
+    const teacher = await signedIn('teacher@tiltwright.test')
+    const nonces: string[] = []
+    for (let i = 0; i < 2; i++) {
+      const r = await teacher.raw('/orders', { headers: { accept: 'text/html' } })
+      expect(r.status).toBe(200)
+      const nonce = r.headers.get('content-security-policy')!.match(/'nonce-([^']+)'/)![1]!
+      expect(nonce).toMatch(/^[A-Za-z0-9+/=]{16,}$/)
+      expect(await r.text()).toContain(`nonce="${nonce}"`)
+      nonces.push(nonce)
+    }
+    expect(nonces[0]).not.toBe(nonces[1])
+    for (const path of ['/api/products', '/api/account']) {
+      const r = await teacher.raw(path)
+      expect(r.status, path).toBe(200)
+      expect(r.headers.get('content-security-policy') ?? '', path).not.toMatch(/nonce/)
+    }
+  })
+
   it('give two visitors two different tokens, each good only with its own cookie', async () => {
     const a = anonymous()
     const b = anonymous()
