@@ -746,6 +746,8 @@ export const tickets = mysqlTable(
     index('tickets_status_created_idx').on(t.status, t.createdAt),
     index('tickets_status_activity_desc_idx').on(t.status, sql`${t.lastMessageAt} desc`),
     index('tickets_priority_created_idx').on(t.priority, t.createdAt),
+    // Counts a priority's open tickets from the index alone (the queue's total for a page).
+    index('tickets_priority_status_idx').on(t.priority, t.status),
     index('tickets_assignee_priority_desc_idx').on(t.assigneeId, sql`${t.priority} desc`),
   ],
 )

@@ -1,0 +1,1 @@
+CREATE INDEX `tickets_priority_status_idx` ON `tickets` (`priority`,`status`);
